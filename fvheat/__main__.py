@@ -1,0 +1,5 @@
+import sys
+
+from fvheat.cli.main import main
+
+sys.exit(main())

@@ -1,0 +1,180 @@
+"""Surface conditions on the boundary faces: linear terms and grey-body radiation.
+
+Each boundary face couples its cell (temperature T_c, conductance g_c = k/d per unit area
+from the cell centre to the face) to the surroundings. The face temperature T_s satisfies
+the surface balance (per unit area, heat into the body positive)
+
+    g_c (T_s − T_c) = h (T_a − T_s) + ε σ (T_r⁴ − T_s⁴) + q
+
+with h the surface coefficient (1/resistance), T_a the air temperature, ε the emissivity,
+T_r the radiant temperature (kelvin in the fourth powers) and q an imposed flux. A fixed
+surface temperature is the limit h → ∞. Without radiation T_s is eliminated exactly:
+flux into the cell = a (T_a − T_c) + φ q with a = g_c h/(g_c + h), φ = g_c/(g_c + h).
+With radiation T_s is found per face by a vectorised Newton iteration.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.constants import Stefan_Boltzmann as SIGMA
+from scipy.constants import zero_Celsius as KELVIN
+
+from fvheat.case.model import Boundary
+from fvheat.case.signals import Constant, Signal
+from fvheat.errors import ConvergenceError
+from fvheat.mesh.mesh import Mesh
+
+_KIND = {"surface": 0, "temperature": 1, "flux": 2}
+_ZERO = Constant(0.0)
+
+
+@dataclass(frozen=True)
+class SurfaceTerms:
+    """Per-face coefficients of every face that belongs to a boundary (adiabatic ones omitted).
+
+    Arrays are indexed by "surface face" s; ``face`` maps s to the mesh's boundary-face
+    index, ``cell`` to the cell, ``bid`` to the boundary. Coefficients are per unit face
+    area and already scaled by the face's exchange fraction.
+    """
+
+    boundaries: tuple[Boundary, ...]
+    face: np.ndarray
+    cell: np.ndarray
+    bid: np.ndarray
+    area: np.ndarray  # m
+    gc: np.ndarray  # W/(m²·K), cell centre to face
+    h: np.ndarray  # W/(m²·K), surface coefficient (0 for flux/temperature faces)
+    eps: np.ndarray  # emissivity × exchange fraction (0 where no radiation)
+    exchange: np.ndarray  # fraction of the face area exchanging heat
+    fixed: np.ndarray  # bool, fixed surface temperature
+    radiative: np.ndarray  # bool
+
+    @classmethod
+    def build(cls, mesh: Mesh, boundaries: tuple[Boundary, ...], k_cell: np.ndarray) -> SurfaceTerms:
+        """Collect the coefficients of every boundary face; ``k_cell`` in W/(m·K)."""
+        face = np.flatnonzero(mesh.b_boundary >= 0)
+        bid = mesh.b_boundary[face]
+        cell = mesh.b_cell[face]
+        kind = np.array([_KIND[b.kind] for b in boundaries], dtype=int)[bid] if face.size else bid
+        h_b = np.array([b.convection if b.kind == "surface" else 0.0 for b in boundaries])
+        e_b = np.array([b.emissivity if b.kind == "surface" else 0.0 for b in boundaries])
+        f = mesh.b_exchange[face]
+        return cls(
+            boundaries=boundaries,
+            face=face,
+            cell=cell,
+            bid=bid,
+            area=mesh.b_area[face],
+            gc=k_cell[cell] / mesh.b_dist[face],
+            h=h_b[bid] * f,
+            eps=e_b[bid] * f,
+            exchange=f,
+            fixed=kind == _KIND["temperature"],
+            radiative=e_b[bid] > 0.0,
+        )
+
+    # ---- boundary values at time t -------------------------------------------------
+    def values(self, t: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """Per-face reference temperature (air or fixed, °C), radiant temperature (°C) and
+        imposed flux (W/m² of face, exchange fraction applied) at time ``t`` (s)."""
+        ref, rad, q = [], [], []
+        for b in self.boundaries:
+            ref_sig: Signal = (b.temperature if b.kind == "temperature" else b.air_temperature) or _ZERO
+            ref.append(ref_sig.at(t))
+            rad.append((b.radiant_temperature or ref_sig).at(t))
+            q.append((b.heat_flux or _ZERO).at(t))
+        ix = self.bid
+        return np.asarray(ref)[ix], np.asarray(rad)[ix], np.asarray(q)[ix] * self.exchange
+
+    # ---- linear part ---------------------------------------------------------------
+    @property
+    def a(self) -> np.ndarray:
+        """Linear conductance per unit area from the cell to the reference temperature."""
+        lin = np.where(self.fixed, self.gc, self.gc * self.h / (self.gc + self.h))
+        return np.where(self.radiative, 0.0, lin)
+
+    @property
+    def phi(self) -> np.ndarray:
+        """Fraction of an imposed surface flux that enters the cell (linear faces)."""
+        return np.where(self.fixed | self.radiative, 0.0, self.gc / (self.gc + self.h))
+
+    def diagonal(self, n_cells: int) -> np.ndarray:
+        """Constant diagonal (W/(m·K)) the linear faces add to the system matrix."""
+        return np.bincount(self.cell, weights=self.area * self.a, minlength=n_cells)
+
+    def rhs(self, t: float, n_cells: int) -> np.ndarray:
+        """Constant part of the heat into each cell from linear faces at time ``t``, W/m."""
+        ref, _, q = self.values(t)
+        lin = self.area * (self.a * ref + self.phi * q)
+        return np.bincount(self.cell, weights=lin, minlength=n_cells)
+
+    # ---- full face solution -----------------------------------------------------------
+    def surface_state(self, temp: np.ndarray, t: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """Face temperature (°C), heat flow into the body (W/m) and its derivative with
+        respect to the cell temperature (W/(m·K)) for every surface face, given cell
+        temperatures ``temp`` (°C) at time ``t`` (s)."""
+        ref, rad, q = self.values(t)
+        tc = temp[self.cell]
+        gc, h = self.gc, self.h
+        lin = ~self.radiative
+        ts = np.empty_like(tc)
+        dts = np.empty_like(tc)
+        # linear faces: exact elimination
+        fx = self.fixed & lin
+        ts[fx], dts[fx] = ref[fx], 0.0
+        sf = lin & ~self.fixed
+        den = gc[sf] + h[sf]
+        ts[sf] = (gc[sf] * tc[sf] + h[sf] * ref[sf] + q[sf]) / den
+        dts[sf] = gc[sf] / den
+        if self.radiative.any():
+            r = self.radiative
+            ts[r], dts[r] = _radiating_surface(tc[r], gc[r], h[r], self.eps[r], ref[r], rad[r], q[r])
+        flux = self.area * gc * (ts - tc)
+        dflux = self.area * gc * (dts - 1.0)
+        return ts, flux, dflux
+
+    def radiative_terms(self, temp: np.ndarray, t: float, n_cells: int) -> tuple[np.ndarray, np.ndarray]:
+        """Heat into each cell from radiating faces (W/m) and its derivative d/dT_cell
+        (W/(m·K), ≤ 0), accumulated per cell."""
+        r = np.flatnonzero(self.radiative)
+        if r.size == 0:
+            return np.zeros(n_cells), np.zeros(n_cells)
+        _, flux, dflux = self.surface_state(temp, t)
+        cells = self.cell[r]
+        return (
+            np.bincount(cells, weights=flux[r], minlength=n_cells),
+            np.bincount(cells, weights=dflux[r], minlength=n_cells),
+        )
+
+
+def _radiating_surface(
+    tc: np.ndarray,
+    gc: np.ndarray,
+    h: np.ndarray,
+    eps: np.ndarray,
+    ta: np.ndarray,
+    tr: np.ndarray,
+    q: np.ndarray,
+) -> tuple[np.ndarray, np.ndarray]:
+    """Solve g_c(T_c − T_s) + h(T_a − T_s) + εσ(T_r⁴ − T_s⁴) + q = 0 for T_s (°C).
+
+    The left side is concave and decreasing in T_s, so Newton started to the right of the
+    root converges monotonically. Returns T_s and dT_s/dT_c.
+    """
+    trk4 = (tr + KELVIN) ** 4
+    start = np.maximum(np.maximum(tc, ta), tr) + np.maximum(q, 0.0) / (gc + h)
+    ts = start
+    for _ in range(60):
+        tk = ts + KELVIN
+        f = gc * (tc - ts) + h * (ta - ts) + eps * SIGMA * (trk4 - tk**4) + q
+        df = gc + h + 4.0 * eps * SIGMA * tk**3
+        step = f / df
+        ts = ts + step
+        if np.max(np.abs(step)) <= 1e-13 * max(1.0, float(np.max(np.abs(ts)))):
+            break
+    else:
+        raise ConvergenceError("surface radiation balance did not converge in 60 iterations")
+    tk = ts + KELVIN
+    return ts, gc / (gc + h + 4.0 * eps * SIGMA * tk**3)

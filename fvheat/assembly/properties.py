@@ -1,0 +1,22 @@
+"""Cell properties from the materials: conductivity and heat capacity."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from fvheat.case.model import Case
+from fvheat.mesh.mesh import Mesh
+
+
+def heat_capacity(case: Case, mesh: Mesh) -> np.ndarray:
+    """Sensible heat capacity of each cell, J/(m·K) per metre depth: ρ·c·V."""
+    rc = np.array(
+        [case.materials[m].volumetric_heat_capacity or 0.0 for m in mesh.material_names]
+    )
+    return rc[mesh.material] * mesh.volumes
+
+
+def conductivity(case: Case, mesh: Mesh) -> np.ndarray:
+    """Conductivity of each cell, W/(m·K)."""
+    k = np.array([case.materials[m].conductivity for m in mesh.material_names])
+    return k[mesh.material]

@@ -1,0 +1,58 @@
+"""The discrete heat balance of a case on a mesh: C dT/dt = F(T, t).
+
+F(T, t) = −M·T + b(t) + r(T, t) is the net heat flow into each cell (W/m): M is the
+conduction matrix plus the constant diagonal of the linear surface terms, b(t) the linear
+surface sources and r(T, t) the non-linear radiating-surface terms.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+import scipy.sparse as sp
+
+from fvheat.assembly.boundary import SurfaceTerms
+from fvheat.assembly.conduction import conduction_matrix, face_conductance
+from fvheat.assembly.properties import conductivity, heat_capacity
+from fvheat.case.model import Case
+from fvheat.mesh.mesh import Mesh
+
+
+@dataclass(frozen=True)
+class System:
+    """Assembled operators of one case on one mesh (all per metre depth)."""
+
+    mesh: Mesh
+    k: np.ndarray  # W/(m·K) per cell
+    g: np.ndarray  # W/(m·K) per interior face
+    matrix: sp.csr_matrix  # M, W/(m·K)
+    surface: SurfaceTerms
+    capacity: np.ndarray  # J/(m·K) per cell
+
+    @classmethod
+    def build(cls, case: Case, mesh: Mesh) -> System:
+        """Assemble conduction, surface terms and capacities, vectorised over faces."""
+        k = conductivity(case, mesh)
+        g = face_conductance(mesh, k)
+        surface = SurfaceTerms.build(mesh, case.boundaries, k)
+        m = conduction_matrix(mesh, g) + sp.diags(surface.diagonal(mesh.n_cells))
+        return cls(mesh, k, g, m.tocsr(), surface, heat_capacity(case, mesh))
+
+    @property
+    def n(self) -> int:
+        return self.mesh.n_cells
+
+    @property
+    def nonlinear(self) -> bool:
+        """True when a radiating surface makes F non-linear in T."""
+        return bool(self.surface.radiative.any())
+
+    def sources(self, t: float) -> np.ndarray:
+        """b(t): heat into each cell from the linear surface terms at T = 0 °C, W/m."""
+        return self.surface.rhs(t, self.n)
+
+    def heat_in(self, temp: np.ndarray, t: float) -> tuple[np.ndarray, np.ndarray]:
+        """F(T, t) per cell (W/m) and the diagonal of ∂r/∂T (W/(m·K)); M is constant."""
+        r, dr = self.surface.radiative_terms(temp, t, self.n)
+        return self.sources(t) - self.matrix @ temp + r, dr

@@ -1,0 +1,161 @@
+"""The validated case: plain dataclasses, built only by :mod:`fvheat.case.load`.
+
+Units are SI throughout (m, W/(m·K), kg/m³, J/(kg·K), W/(m²·K), s); temperatures in °C.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Literal
+
+import numpy as np
+
+from fvheat.case.signals import Signal
+
+
+@dataclass(frozen=True)
+class MeshSettings:
+    """Grid controls: largest and smallest cell edge (m) and the largest neighbour size ratio."""
+
+    max_cell: float
+    min_cell: float
+    growth: float = 1.3
+
+
+@dataclass(frozen=True)
+class Phase:
+    """Properties of the frozen (solid) phase of a phase-change material; None = as unfrozen."""
+
+    conductivity: float | None = None
+    density: float | None = None
+    specific_heat: float | None = None
+
+
+@dataclass(frozen=True)
+class Material:
+    """A material. ``conductivity`` W/(m·K), ``density`` kg/m³, ``specific_heat`` J/(kg·K).
+
+    ``latent_heat`` (J/kg) is released on freezing across ``phase_change`` = (solidus,
+    liquidus) °C; the base properties are those of the unfrozen phase and ``frozen`` those
+    below the solidus. ``emissivity`` is informational (surfaces take theirs from boundaries).
+    """
+
+    name: str
+    conductivity: float
+    density: float | None = None
+    specific_heat: float | None = None
+    emissivity: float | None = None
+    latent_heat: float | None = None
+    phase_change: tuple[float, float] | None = None
+    frozen: Phase | None = None
+
+    @property
+    def volumetric_heat_capacity(self) -> float | None:
+        """ρ·c in J/(m³·K), or None when either is missing."""
+        if self.density is None or self.specific_heat is None:
+            return None
+        return self.density * self.specific_heat
+
+
+@dataclass(frozen=True)
+class Region:
+    """A painted area of one material. ``vertices`` (n, 2) m; ``is_box`` for axis-aligned boxes."""
+
+    material: str
+    vertices: np.ndarray = field(repr=False)
+    is_box: bool = False
+
+    @property
+    def bounds(self) -> tuple[float, float, float, float]:
+        """(x0, y0, x1, y1) of the region's bounding box, m."""
+        lo = self.vertices.min(axis=0)
+        hi = self.vertices.max(axis=0)
+        return float(lo[0]), float(lo[1]), float(hi[0]), float(hi[1])
+
+
+BoundaryKind = Literal["surface", "temperature", "flux"]
+
+
+@dataclass(frozen=True)
+class Boundary:
+    """Conditions on the exterior faces lying on ``edges`` (segments ((x0, y0), (x1, y1)), m).
+
+    kind ``"surface"``: exchange with air at ``air_temperature`` through the surface
+    coefficient ``convection`` (W/(m²·K); 1/resistance for a combined surface resistance)
+    and, when ``emissivity`` > 0, grey-body radiation to ``radiant_temperature``; an
+    optional ``heat_flux`` (W/m², into the body) is absorbed at the surface.
+    kind ``"temperature"``: fixed surface ``temperature``.
+    kind ``"flux"``: imposed ``heat_flux`` only.
+    """
+
+    name: str
+    edges: tuple[tuple[tuple[float, float], tuple[float, float]], ...]
+    kind: BoundaryKind
+    convection: float = 0.0
+    emissivity: float = 0.0
+    air_temperature: Signal | None = None
+    radiant_temperature: Signal | None = None
+    temperature: Signal | None = None
+    heat_flux: Signal | None = None
+    resistance: float | None = None
+
+    @property
+    def radiative(self) -> bool:
+        return self.kind == "surface" and self.emissivity > 0.0
+
+
+@dataclass(frozen=True)
+class Probe:
+    """A named point (m) whose temperature is reported."""
+
+    name: str
+    at: tuple[float, float]
+
+
+Scheme = Literal["backward_euler", "crank_nicolson"]
+
+
+@dataclass(frozen=True)
+class TimeSettings:
+    """Transient run: ``duration``, ``step`` and ``save_every`` in s.
+
+    ``initial_temperature`` is a value in °C or ``"steady"`` (the steady field of the
+    t = 0 conditions).
+    """
+
+    duration: float
+    step: float
+    initial_temperature: float | Literal["steady"]
+    save_every: float
+    scheme: Scheme = "backward_euler"
+
+    @property
+    def theta(self) -> float:
+        """Implicitness of the θ-scheme: 1 for backward Euler, 1/2 for Crank–Nicolson."""
+        return 1.0 if self.scheme == "backward_euler" else 0.5
+
+
+@dataclass(frozen=True)
+class Case:
+    """A fully validated case. ``source`` is the case file (for messages and relative paths)."""
+
+    title: str
+    source: Path
+    mesh: MeshSettings
+    materials: dict[str, Material]
+    regions: tuple[Region, ...]
+    boundaries: tuple[Boundary, ...]
+    probes: tuple[Probe, ...] = ()
+    time: TimeSettings | None = None
+
+    @property
+    def transient(self) -> bool:
+        return self.time is not None
+
+    def boundary(self, name: str) -> Boundary:
+        """The boundary called ``name``."""
+        for b in self.boundaries:
+            if b.name == name:
+                return b
+        raise KeyError(name)

@@ -1,0 +1,71 @@
+"""Boundary values that may vary in time: constant, cosine and tabulated series.
+
+Every signal maps time t (s, scalar or array) to a value in the unit of the key that
+holds it (°C for temperatures, W/m² for heat fluxes).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+
+@dataclass(frozen=True)
+class Constant:
+    """A value that does not change: ``value``."""
+
+    value: float
+
+    def at(self, t: float | np.ndarray) -> float | np.ndarray:
+        """Value at time ``t`` (s)."""
+        return np.full(np.shape(t), self.value) if np.ndim(t) else self.value
+
+    @property
+    def is_constant(self) -> bool:
+        return True
+
+
+@dataclass(frozen=True)
+class Cosine:
+    """``mean + amplitude·cos(2π(t − phase)/period)``; ``period`` and ``phase`` in s."""
+
+    mean: float
+    amplitude: float
+    period: float
+    phase: float = 0.0
+
+    def at(self, t: float | np.ndarray) -> float | np.ndarray:
+        """Value at time ``t`` (s)."""
+        angle = 2.0 * np.pi * (np.asarray(t) - self.phase) / self.period
+        return self.mean + self.amplitude * np.cos(angle)
+
+    @property
+    def is_constant(self) -> bool:
+        return self.amplitude == 0.0
+
+
+@dataclass(frozen=True)
+class Series:
+    """A tabulated series ``(times, values)`` read from a CSV column, linearly interpolated.
+
+    ``times`` are strictly increasing seconds. Outside the table the end values are held;
+    the case loader rejects runs that extend beyond the table.
+    """
+
+    times: np.ndarray = field(repr=False)
+    values: np.ndarray = field(repr=False)
+    source: str = ""
+    column: str = ""
+
+    def at(self, t: float | np.ndarray) -> float | np.ndarray:
+        """Value at time ``t`` (s), linear interpolation between rows."""
+        out = np.interp(t, self.times, self.values)
+        return float(out) if np.ndim(out) == 0 else out
+
+    @property
+    def is_constant(self) -> bool:
+        return bool(np.all(self.values == self.values[0]))
+
+
+Signal = Constant | Cosine | Series

@@ -1,0 +1,1 @@
+"""Evaluation: heat flows, surface temperatures, probes and balances from a solved field."""

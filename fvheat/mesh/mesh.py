@@ -1,0 +1,119 @@
+"""The finite-volume mesh: cell and face arrays that assembly and evaluation work on.
+
+Generators (``fvheat.mesh.rectilinear``; importers later) build a :class:`Mesh`; nothing
+downstream knows which generator made it. All lengths in m; a 2-D mesh is one metre deep,
+so a face "area" is its length (m²/m) and a cell "volume" its area (m³/m).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+
+@dataclass(frozen=True)
+class RectGrid:
+    """Structure of a rectilinear grid, kept for interpolation and plotting.
+
+    ``x``, ``y``: grid-line coordinates (m), ``cell_index[j, i]``: index of the active cell
+    in column ``i`` and row ``j``, or −1 where the grid cell is outside the body.
+    """
+
+    x: np.ndarray
+    y: np.ndarray
+    cell_index: np.ndarray
+
+    @property
+    def xc(self) -> np.ndarray:
+        """Column centres, m."""
+        return 0.5 * (self.x[1:] + self.x[:-1])
+
+    @property
+    def yc(self) -> np.ndarray:
+        """Row centres, m."""
+        return 0.5 * (self.y[1:] + self.y[:-1])
+
+
+@dataclass(frozen=True)
+class Mesh:
+    """Cell-centred finite-volume mesh.
+
+    Cells: ``centres`` (n, 2) m, ``volumes`` (n,) m², ``material`` (n,) index into
+    ``material_names``.
+    Interior faces: ``owner``/``neighbour`` cell indices, ``face_area`` (m), distances from
+    owner and neighbour centres to the face (``d_owner``, ``d_neighbour``, m), ``face_centre``
+    and unit ``face_normal`` (owner → neighbour).
+    Boundary (exterior) faces: ``b_cell``, ``b_area`` (m), ``b_dist`` (centre-to-face, m),
+    ``b_centre``, outward unit ``b_normal``, ``b_boundary`` (index into ``boundary_names``,
+    −1 = adiabatic) and ``b_exchange`` (fraction of the face area that exchanges heat with
+    the surroundings: 1 on straight grid-aligned edges, the projection onto the edge
+    normal on a stepped sloped edge, so the stepped faces sum to the true edge length).
+    """
+
+    centres: np.ndarray
+    volumes: np.ndarray
+    material: np.ndarray
+    material_names: tuple[str, ...]
+    owner: np.ndarray
+    neighbour: np.ndarray
+    face_area: np.ndarray
+    d_owner: np.ndarray
+    d_neighbour: np.ndarray
+    face_centre: np.ndarray
+    face_normal: np.ndarray
+    b_cell: np.ndarray
+    b_area: np.ndarray
+    b_dist: np.ndarray
+    b_centre: np.ndarray
+    b_normal: np.ndarray
+    b_boundary: np.ndarray
+    b_exchange: np.ndarray
+    boundary_names: tuple[str, ...]
+    grid: RectGrid | None = field(default=None, repr=False)
+
+    @property
+    def n_cells(self) -> int:
+        return int(self.volumes.size)
+
+    @property
+    def n_faces(self) -> int:
+        """Number of interior faces."""
+        return int(self.owner.size)
+
+    @property
+    def n_boundary_faces(self) -> int:
+        return int(self.b_cell.size)
+
+    def boundary_faces(self, name: str) -> np.ndarray:
+        """Indices of the boundary faces belonging to boundary ``name``."""
+        return np.flatnonzero(self.b_boundary == self.boundary_names.index(name))
+
+    def stats(self) -> dict[str, float | int]:
+        """Mesh statistics for reports: counts and cell-size range (m)."""
+        out: dict[str, float | int] = {
+            "cells": self.n_cells,
+            "interior_faces": self.n_faces,
+            "boundary_faces": self.n_boundary_faces,
+        }
+        if self.grid is not None:
+            dx = np.diff(self.grid.x)
+            dy = np.diff(self.grid.y)
+            sizes = np.concatenate([dx, dy])
+            out.update(
+                columns=int(dx.size),
+                rows=int(dy.size),
+                smallest_cell=float(sizes.min()),
+                largest_cell=float(sizes.max()),
+                max_neighbour_ratio=float(
+                    max(_max_ratio(dx), _max_ratio(dy))
+                ),
+            )
+        return out
+
+
+def _max_ratio(h: np.ndarray) -> float:
+    if h.size < 2:
+        return 1.0
+    r = h[1:] / h[:-1]
+    return float(np.max(np.maximum(r, 1.0 / r)))

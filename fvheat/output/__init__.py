@@ -1,0 +1,1 @@
+"""Writers: every file a run leaves in its output folder."""

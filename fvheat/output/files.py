@@ -1,0 +1,30 @@
+"""Safe file writing: every output is written to a temporary file and renamed into place,
+so an interrupted or failed run never leaves a half-written file behind."""
+
+from __future__ import annotations
+
+import os
+import tempfile
+from collections.abc import Callable
+from pathlib import Path
+from typing import IO
+
+
+def atomic_write(path: str | Path, write: Callable[[IO[str]], None], *, binary: bool = False) -> Path:
+    """Call ``write(handle)`` on a temporary file next to ``path``, then rename it to ``path``."""
+    path = Path(path)
+    path.parent.mkdir(parents=True, exist_ok=True)
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
+    try:
+        with os.fdopen(fd, "wb" if binary else "w", **({} if binary else {"newline": "", "encoding": "utf-8"})) as fh:
+            write(fh)
+        os.replace(tmp, path)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise
+    return path
+
+
+def atomic_write_text(path: str | Path, text: str) -> Path:
+    """Write ``text`` (UTF-8) to ``path`` atomically."""
+    return atomic_write(path, lambda fh: fh.write(text))

@@ -1,0 +1,50 @@
+"""``summary.json``: the contract's results of a run, plus provenance and checks."""
+
+from __future__ import annotations
+
+import hashlib
+import json
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+from fvheat import __version__
+from fvheat.cautions import CAUTION
+from fvheat.output.files import atomic_write_text
+from fvheat.simulate import Solution
+
+
+def case_digest(source: Path, overrides: tuple[str, ...] = ()) -> str:
+    """SHA-256 of the case file's bytes and the overrides applied to it."""
+    h = hashlib.sha256(Path(source).read_bytes())
+    for o in overrides:
+        h.update(b"\0" + o.encode())
+    return h.hexdigest()
+
+
+def build_summary(solution: Solution, overrides: tuple[str, ...] = ()) -> dict[str, Any]:
+    """The summary dictionary: boundaries, probes, cells, energy balance and provenance."""
+    case = solution.case
+    summary: dict[str, Any] = {
+        "title": case.title,
+        "case_file": str(case.source),
+        "case_sha256": case_digest(case.source, overrides) if Path(case.source).is_file() else None,
+        "overrides": list(overrides),
+        "fvheat_version": __version__,
+        "mode": "transient" if case.transient else "steady",
+        "time_s": solution.time,
+        "cells": solution.mesh.n_cells,
+        "mesh": solution.mesh.stats(),
+        "boundaries": {name: r.as_dict() for name, r in solution.surfaces.items()},
+        "probes": dict(solution.probes),
+        "temperature_range": [float(np.min(solution.temperature)), float(np.max(solution.temperature))],
+        "energy_balance": solution.balance.as_dict(),
+        "caution": CAUTION,
+    }
+    return summary
+
+
+def write_summary(path: str | Path, summary: dict[str, Any]) -> Path:
+    """Write the summary as indented JSON, atomically."""
+    return atomic_write_text(path, json.dumps(summary, indent=2, allow_nan=False) + "\n")

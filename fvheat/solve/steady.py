@@ -1,0 +1,27 @@
+"""Steady state: M·T = b(t) + r(T, t), direct or AMG, Newton when surfaces radiate."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from fvheat.assembly.system import System
+from fvheat.solve.linear import Method, make_solver
+from fvheat.solve.nonlinear import NewtonSolver
+
+
+def solve_steady(
+    system: System, t: float = 0.0, *, method: Method = "auto", guess: np.ndarray | None = None
+) -> np.ndarray:
+    """Steady cell temperatures (°C) for the boundary values at time ``t`` (s)."""
+    b = system.sources(t)
+    if not system.nonlinear:
+        return make_solver(system.matrix, method).solve(b)
+    if guess is None:
+        # start from the solution with radiation switched off: a sound first guess
+        guess = np.full(system.n, float(np.mean(system.surface.values(t)[0])))
+    newton = NewtonSolver(system.matrix, 1.0, method=method)
+
+    def residual(temp: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        return system.heat_in(temp, t)
+
+    return newton.solve(residual, guess)
