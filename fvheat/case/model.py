@@ -136,6 +136,46 @@ class TimeSettings:
         return 1.0 if self.scheme == "backward_euler" else 0.5
 
 
+Dimensions = Literal["internal", "overall_internal", "external"]
+
+
+@dataclass(frozen=True)
+class Flanking:
+    """A flanking element of a junction: its length ``length`` (m, in the junction's
+    dimension system) and U-value, given (``u_value``, W/(m²·K)) or taken from the model's
+    layers along ``cut`` (a segment across the element from surface to surface)."""
+
+    name: str
+    length: float
+    u_value: float | None = None
+    cut: tuple[tuple[float, float], tuple[float, float]] | None = None
+    thickness: float | None = None
+
+
+@dataclass(frozen=True)
+class Junction:
+    """Thermal-bridge evaluation (ISO 10211): warm-side and cold-side boundaries, flanking
+    elements, the dimension system of their lengths, and the surface-temperature checks.
+
+    ``condensation_resistance`` (m²·K/W), when given, is the inside surface resistance of a
+    second solve used for f_Rsi and θ_si,min (ISO 13788 uses 0.25); ``f_rsi_limit`` is the
+    pass/fail criterion; ``indoor_humidity`` (0–1) enables the dew-point check;
+    ``frame_width`` (m) turns the ψ of a frame section with an insulating panel into U_f
+    (ISO 10077-2); ``centre`` (m) locates the junction for the cut-off-plane check.
+    """
+
+    inside: tuple[str, ...]
+    outside: tuple[str, ...]
+    flanking: tuple[Flanking, ...] = ()
+    dimensions: Dimensions = "internal"
+    condensation_resistance: float | None = None
+    f_rsi_limit: float | None = None
+    indoor_humidity: float | None = None
+    frame_width: float | None = None
+    centre: tuple[float, float] | None = None
+    grid_check: bool = False
+
+
 @dataclass(frozen=True)
 class Case:
     """A fully validated case. ``source`` is the case file (for messages and relative paths)."""
@@ -148,6 +188,7 @@ class Case:
     boundaries: tuple[Boundary, ...]
     probes: tuple[Probe, ...] = ()
     time: TimeSettings | None = None
+    junction: Junction | None = None
 
     @property
     def transient(self) -> bool:

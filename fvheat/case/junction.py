@@ -1,0 +1,121 @@
+"""The ``[junction]`` table: thermal-bridge evaluation settings (see :class:`Junction`).
+
+```toml
+[junction]
+inside = ["inside"]            # warm-side boundaries
+outside = ["outside"]          # cold-side boundaries
+dimensions = "internal"        # or "overall_internal", "external": how lengths were taken
+condensation_resistance = 0.25 # m²·K/W: inside R_si of a second, surface-temperature solve
+f_rsi_limit = 0.75             # pass/fail criterion for f_Rsi
+indoor_humidity = 50           # % relative humidity of the room air: dew-point check
+frame_width = 0.11             # m, b_f: report U_f = ψ / b_f (frame with an insulating panel)
+centre = [0.2, 0.0]            # m: check cut-off plane distances from here
+grid_check = true              # solve again with twice the cells (ISO 10211 grid check)
+
+[[junction.flanking]]
+name = "wall"
+length = 1.5                   # m
+u_value = 0.25                 # W/(m²·K); or cut = [[x0, y0], [x1, y1]] across the element
+thickness = 0.36               # m, optional (taken from the cut when there is one)
+```
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from fvheat.case.fields import (
+    Context,
+    Invalid,
+    describe,
+    join,
+    name,
+    number,
+    point,
+    string,
+    table,
+    tables,
+)
+from fvheat.case.model import Case, Flanking, Junction
+
+_KEYS = (
+    "inside", "outside", "flanking", "dimensions", "condensation_resistance", "f_rsi_limit",
+    "indoor_humidity", "frame_width", "centre", "grid_check",
+)
+DIMENSIONS = ("internal", "overall_internal", "external")
+
+
+def parse_junction(value: Any, ctx: Context) -> Junction | None:
+    """Validate the ``[junction]`` table (None when absent)."""
+    if value is None:
+        return None
+    path = "junction"
+    tbl = table(value, path, allowed=_KEYS, required=("inside", "outside"))
+    known = {b.name for b in ctx.parsed.get("boundaries", ())}
+    inside = _names(tbl["inside"], join(path, "inside"), known)
+    outside = _names(tbl["outside"], join(path, "outside"), known)
+    both = set(inside) & set(outside)
+    if both:
+        raise Invalid(join(path, "outside"), f"{sorted(both)} cannot be both inside and outside")
+    seen: dict[str, str] = {}
+    flanking = tuple(
+        _flanking(t, join(join(path, "flanking"), i), seen)
+        for i, t in enumerate(tables(tbl.get("flanking", []), join(path, "flanking")))
+    )
+    humidity = number(tbl, "indoor_humidity", path, required=False, gt=0, le=100)
+    grid = tbl.get("grid_check", False)
+    if not isinstance(grid, bool):
+        raise Invalid(join(path, "grid_check"), f"expected true or false, got {describe(grid)}")
+    return Junction(
+        inside=inside,
+        outside=outside,
+        flanking=flanking,
+        dimensions=string(tbl, "dimensions", path, required=False, default="internal", choices=DIMENSIONS),
+        condensation_resistance=number(tbl, "condensation_resistance", path, required=False, gt=0),
+        f_rsi_limit=number(tbl, "f_rsi_limit", path, required=False, gt=0, lt=1),
+        indoor_humidity=None if humidity is None else humidity / 100.0,
+        frame_width=number(tbl, "frame_width", path, required=False, gt=0),
+        centre=point(tbl["centre"], join(path, "centre")) if "centre" in tbl else None,
+        grid_check=grid,
+    )
+
+
+def _names(value: Any, path: str, known: set[str]) -> tuple[str, ...]:
+    if isinstance(value, str):
+        value = [value]
+    if not isinstance(value, list) or not value or not all(isinstance(v, str) for v in value):
+        raise Invalid(path, f"expected a list of boundary names, got {describe(value)}")
+    for v in value:
+        if v not in known:
+            raise Invalid(path, f"no boundary is called {v!r}; boundaries: {', '.join(sorted(known))}")
+    return tuple(value)
+
+
+def _flanking(tbl: dict, path: str, seen: dict[str, str]) -> Flanking:
+    table(tbl, path, allowed=("name", "length", "u_value", "cut", "thickness"), required=("name", "length"))
+    fname = name(tbl["name"], join(path, "name"), seen)
+    length = number(tbl, "length", path, gt=0)
+    u = number(tbl, "u_value", path, required=False, gt=0)
+    cut = None
+    if "cut" in tbl:
+        c = tbl["cut"]
+        if not isinstance(c, list) or len(c) != 2:
+            raise Invalid(join(path, "cut"), f"expected a segment [[x0, y0], [x1, y1]], got {describe(c)}")
+        cut = (point(c[0], join(join(path, "cut"), 0)), point(c[1], join(join(path, "cut"), 1)))
+    if (u is None) == (cut is None):
+        raise Invalid(path, "give exactly one of u_value (W/(m²·K)) or cut (a segment across the element)")
+    return Flanking(
+        name=fname, length=length, u_value=u, cut=cut,
+        thickness=number(tbl, "thickness", path, required=False, gt=0),
+    )
+
+
+def check_junction_side_kinds(case: Case) -> None:
+    """Junction boundaries must carry a temperature (surface exchange or fixed)."""
+    j = case.junction
+    if j is None:
+        return
+    for side in ("inside", "outside"):
+        for n in getattr(j, side):
+            if case.boundary(n).kind == "flux":
+                raise Invalid(f"junction.{side}", f"boundary {n!r} has only a heat flux; it needs a temperature")

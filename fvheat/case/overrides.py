@@ -1,0 +1,99 @@
+"""``--set dotted.path=value`` overrides applied to a parsed case file before validation."""
+
+from __future__ import annotations
+
+import copy
+import re
+import tomllib
+from collections.abc import Sequence
+from typing import Any
+
+from fvheat.case.fields import describe
+from fvheat.errors import CaseError
+
+_INDEX = re.compile(r"\d+")
+
+
+def apply_overrides(data: dict, overrides: Sequence[str], source: str) -> dict:
+    """A deep copy of the case ``data`` with each ``path=value`` override applied in order.
+
+    ``path`` is dotted; list items are addressed by 0-based index (``regions.2.material``) and
+    keys containing dots may be quoted as in TOML (``materials."glass.wool".conductivity``).
+    ``value`` is read as a TOML value (``0.3``, ``true``, ``[1, 2]``, ``{mean = 0, ...}``),
+    or taken as plain text when it is not one (``title=My wall``). Missing keys and tables are
+    created (validation then rejects unknown ones). ``source`` names the case file in errors.
+    """
+    result = copy.deepcopy(data)
+    for override in overrides:
+        path, sep, text = override.partition("=")
+        path = path.strip()
+        where = f"--set {path or override.strip()}"
+        if not sep:
+            raise CaseError("expected dotted.path=value", file=source, key=where)
+        if not path:
+            raise CaseError("empty key path before '='", file=source, key=where)
+        _set(result, _segments(path), _value(text.strip()), source, where)
+    return result
+
+
+def _segments(path: str) -> list[str]:
+    """The keys of a dotted path, read as a TOML dotted key so that quoted keys work."""
+    try:
+        parsed: Any = tomllib.loads(f"{path} = 0")
+    except tomllib.TOMLDecodeError:
+        return [s.strip() for s in path.split(".")]
+    keys = []
+    while isinstance(parsed, dict) and len(parsed) == 1:
+        key, parsed = next(iter(parsed.items()))
+        keys.append(key)
+    if parsed != 0 or isinstance(parsed, bool):
+        return [s.strip() for s in path.split(".")]
+    return keys
+
+
+def _value(text: str) -> Any:
+    """``text`` as a TOML value, else as a plain string."""
+    try:
+        parsed = tomllib.loads(f"v = {text}")
+    except tomllib.TOMLDecodeError:
+        return text
+    return parsed["v"] if list(parsed) == ["v"] else text
+
+
+def _set(data: dict, keys: list[str], value: Any, source: str, where: str) -> None:
+    node: Any = data
+    for depth, key in enumerate(keys):
+        last = depth == len(keys) - 1
+        here = ".".join(keys[:depth]) or "the top level"
+        if isinstance(node, dict):
+            if last:
+                node[key] = value
+            else:
+                node = node.setdefault(key, {})
+        elif isinstance(node, list):
+            if not _INDEX.fullmatch(key):
+                raise CaseError(
+                    f"{here} is an array: expected a 0-based index, got {key!r}",
+                    file=source,
+                    key=where,
+                )
+            index = int(key)
+            if index >= len(node):
+                span = f"indices 0 to {len(node) - 1}" if node else "it is empty"
+                raise CaseError(
+                    f"index {index} is out of range: {here} has {len(node)} "
+                    f"item{'' if len(node) == 1 else 's'} ({span})",
+                    file=source,
+                    key=where,
+                )
+            if last:
+                node[index] = value
+            else:
+                node = node[index]
+        else:
+            raise CaseError(
+                f"{here} is a single value ({describe(node)}), not a table or array, "
+                f"so it has no {key!r}",
+                file=source,
+                key=where,
+            )
