@@ -70,8 +70,8 @@ def simulate(
         return _solution(case, mesh, system, temp, 0.0, probe_op, balance, None)
 
     ts = case.time
-    n_steps = int(round(ts.duration / ts.step))
-    save = max(1, int(round(ts.save_every / ts.step)))
+    n_steps = round(ts.duration / ts.step)
+    save = max(1, round(ts.save_every / ts.step))
     if ts.initial_temperature == "steady":
         temp0 = solve_steady(system, 0.0, method=method)
     else:
@@ -104,7 +104,7 @@ def simulate(
     return _solution(case, mesh, system, temp, t, probe_op, balance, history)
 
 
-def _solution(case, mesh, system, temp, t, probe_op, balance, history) -> Solution:  # noqa: ANN001
+def _solution(case, mesh, system, temp, t, probe_op, balance, history) -> Solution:
     values = probe_op @ temp
     probes = {p.name: float(v) for p, v in zip(case.probes, values, strict=True)}
     return Solution(

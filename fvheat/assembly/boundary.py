@@ -52,7 +52,9 @@ class SurfaceTerms:
     radiative: np.ndarray  # bool
 
     @classmethod
-    def build(cls, mesh: Mesh, boundaries: tuple[Boundary, ...], k_cell: np.ndarray) -> SurfaceTerms:
+    def build(
+        cls, mesh: Mesh, boundaries: tuple[Boundary, ...], k_cell: np.ndarray
+    ) -> SurfaceTerms:
         """Collect the coefficients of every boundary face; ``k_cell`` in W/(m·K)."""
         face = np.flatnonzero(mesh.b_boundary >= 0)
         bid = mesh.b_boundary[face]
@@ -81,7 +83,9 @@ class SurfaceTerms:
         imposed flux (W/m² of face, exchange fraction applied) at time ``t`` (s)."""
         ref, rad, q = [], [], []
         for b in self.boundaries:
-            ref_sig: Signal = (b.temperature if b.kind == "temperature" else b.air_temperature) or _ZERO
+            ref_sig: Signal = (
+                b.temperature if b.kind == "temperature" else b.air_temperature
+            ) or _ZERO
             ref.append(ref_sig.at(t))
             rad.append((b.radiant_temperature or ref_sig).at(t))
             q.append((b.heat_flux or _ZERO).at(t))
@@ -111,7 +115,9 @@ class SurfaceTerms:
         return np.bincount(self.cell, weights=lin, minlength=n_cells)
 
     # ---- full face solution -----------------------------------------------------------
-    def surface_state(self, temp: np.ndarray, t: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    def surface_state(
+        self, temp: np.ndarray, t: float
+    ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
         """Face temperature (°C), heat flow into the body (W/m) and its derivative with
         respect to the cell temperature (W/(m·K)) for every surface face, given cell
         temperatures ``temp`` (°C) at time ``t`` (s)."""
@@ -130,12 +136,16 @@ class SurfaceTerms:
         dts[sf] = gc[sf] / den
         if self.radiative.any():
             r = self.radiative
-            ts[r], dts[r] = _radiating_surface(tc[r], gc[r], h[r], self.eps[r], ref[r], rad[r], q[r])
+            ts[r], dts[r] = _radiating_surface(
+                tc[r], gc[r], h[r], self.eps[r], ref[r], rad[r], q[r]
+            )
         flux = self.area * gc * (ts - tc)
         dflux = self.area * gc * (dts - 1.0)
         return ts, flux, dflux
 
-    def radiative_terms(self, temp: np.ndarray, t: float, n_cells: int) -> tuple[np.ndarray, np.ndarray]:
+    def radiative_terms(
+        self, temp: np.ndarray, t: float, n_cells: int
+    ) -> tuple[np.ndarray, np.ndarray]:
         """Heat into each cell from radiating faces (W/m) and its derivative d/dT_cell
         (W/(m·K), ≤ 0), accumulated per cell."""
         r = np.flatnonzero(self.radiative)

@@ -10,9 +10,7 @@ from fvheat.mesh.mesh import Mesh
 
 def heat_capacity(case: Case, mesh: Mesh) -> np.ndarray:
     """Sensible heat capacity of each cell, J/(m·K) per metre depth: ρ·c·V."""
-    rc = np.array(
-        [case.materials[m].volumetric_heat_capacity or 0.0 for m in mesh.material_names]
-    )
+    rc = np.array([case.materials[m].volumetric_heat_capacity or 0.0 for m in mesh.material_names])
     return rc[mesh.material] * mesh.volumes
 
 

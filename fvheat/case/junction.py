@@ -39,8 +39,16 @@ from fvheat.case.fields import (
 from fvheat.case.model import Case, Flanking, Junction
 
 _KEYS = (
-    "inside", "outside", "flanking", "dimensions", "condensation_resistance", "f_rsi_limit",
-    "indoor_humidity", "frame_width", "centre", "grid_check",
+    "inside",
+    "outside",
+    "flanking",
+    "dimensions",
+    "condensation_resistance",
+    "f_rsi_limit",
+    "indoor_humidity",
+    "frame_width",
+    "centre",
+    "grid_check",
 )
 DIMENSIONS = ("internal", "overall_internal", "external")
 
@@ -70,7 +78,9 @@ def parse_junction(value: Any, ctx: Context) -> Junction | None:
         inside=inside,
         outside=outside,
         flanking=flanking,
-        dimensions=string(tbl, "dimensions", path, required=False, default="internal", choices=DIMENSIONS),
+        dimensions=string(
+            tbl, "dimensions", path, required=False, default="internal", choices=DIMENSIONS
+        ),
         condensation_resistance=number(tbl, "condensation_resistance", path, required=False, gt=0),
         f_rsi_limit=number(tbl, "f_rsi_limit", path, required=False, gt=0, lt=1),
         indoor_humidity=None if humidity is None else humidity / 100.0,
@@ -87,12 +97,19 @@ def _names(value: Any, path: str, known: set[str]) -> tuple[str, ...]:
         raise Invalid(path, f"expected a list of boundary names, got {describe(value)}")
     for v in value:
         if v not in known:
-            raise Invalid(path, f"no boundary is called {v!r}; boundaries: {', '.join(sorted(known))}")
+            raise Invalid(
+                path, f"no boundary is called {v!r}; boundaries: {', '.join(sorted(known))}"
+            )
     return tuple(value)
 
 
 def _flanking(tbl: dict, path: str, seen: dict[str, str]) -> Flanking:
-    table(tbl, path, allowed=("name", "length", "u_value", "cut", "thickness"), required=("name", "length"))
+    table(
+        tbl,
+        path,
+        allowed=("name", "length", "u_value", "cut", "thickness"),
+        required=("name", "length"),
+    )
     fname = name(tbl["name"], join(path, "name"), seen)
     length = number(tbl, "length", path, gt=0)
     u = number(tbl, "u_value", path, required=False, gt=0)
@@ -100,12 +117,19 @@ def _flanking(tbl: dict, path: str, seen: dict[str, str]) -> Flanking:
     if "cut" in tbl:
         c = tbl["cut"]
         if not isinstance(c, list) or len(c) != 2:
-            raise Invalid(join(path, "cut"), f"expected a segment [[x0, y0], [x1, y1]], got {describe(c)}")
+            raise Invalid(
+                join(path, "cut"), f"expected a segment [[x0, y0], [x1, y1]], got {describe(c)}"
+            )
         cut = (point(c[0], join(join(path, "cut"), 0)), point(c[1], join(join(path, "cut"), 1)))
     if (u is None) == (cut is None):
-        raise Invalid(path, "give exactly one of u_value (W/(m²·K)) or cut (a segment across the element)")
+        raise Invalid(
+            path, "give exactly one of u_value (W/(m²·K)) or cut (a segment across the element)"
+        )
     return Flanking(
-        name=fname, length=length, u_value=u, cut=cut,
+        name=fname,
+        length=length,
+        u_value=u,
+        cut=cut,
         thickness=number(tbl, "thickness", path, required=False, gt=0),
     )
 
@@ -118,4 +142,7 @@ def check_junction_side_kinds(case: Case) -> None:
     for side in ("inside", "outside"):
         for n in getattr(j, side):
             if case.boundary(n).kind == "flux":
-                raise Invalid(f"junction.{side}", f"boundary {n!r} has only a heat flux; it needs a temperature")
+                raise Invalid(
+                    f"junction.{side}",
+                    f"boundary {n!r} has only a heat flux; it needs a temperature",
+                )

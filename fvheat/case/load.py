@@ -36,6 +36,7 @@ from fvheat.case.fields import (
     temperature,
     to_number,
 )
+from fvheat.case.junction import check_junction_side_kinds, parse_junction
 from fvheat.case.model import (
     Boundary,
     Case,
@@ -49,6 +50,8 @@ from fvheat.case.model import (
 from fvheat.case.overrides import apply_overrides
 from fvheat.case.signals import Constant, Cosine, Series, Signal
 from fvheat.errors import CaseError
+from fvheat.properties.cavity import cavity_dimensions, equivalent_conductivity
+from fvheat.properties.library import LibraryMaterial, UnknownMaterialError, lookup
 
 log = logging.getLogger(__name__)
 
@@ -157,6 +160,7 @@ def _mesh(value: Any, ctx: Context) -> MeshSettings:
 
 
 _MATERIAL_KEYS = (
+    "library",
     "conductivity",
     "density",
     "specific_heat",
@@ -208,15 +212,47 @@ def _material(key: str, spec: Any, seen: dict[str, str]) -> Material:
         fpath = join(path, "frozen")
         ftbl = table(tbl["frozen"], fpath, allowed=("conductivity", "density", "specific_heat"))
         frozen = Phase(**{k: number(ftbl, k, fpath, required=False, gt=0) for k in ftbl})
+    base = _library_entry(tbl["library"], join(path, "library")) if "library" in tbl else None
     return Material(
         name=key,
-        conductivity=number(tbl, "conductivity", path, gt=0),
-        density=number(tbl, "density", path, required=False, gt=0),
-        specific_heat=number(tbl, "specific_heat", path, required=False, gt=0),
-        emissivity=number(tbl, "emissivity", path, required=False, gt=0, le=1),
+        conductivity=number(
+            tbl,
+            "conductivity",
+            path,
+            required=base is None,
+            default=base.conductivity if base else None,
+            gt=0,
+        ),
+        density=number(tbl, "density", path, required=False, default=base and base.density, gt=0),
+        specific_heat=number(
+            tbl, "specific_heat", path, required=False, default=base and base.specific_heat, gt=0
+        ),
+        emissivity=number(
+            tbl, "emissivity", path, required=False, default=base and base.emissivity, gt=0, le=1
+        ),
         latent_heat=latent,
         phase_change=phase_change,
         frozen=frozen,
+    )
+
+
+def _library_entry(value: Any, path: str) -> LibraryMaterial:
+    """The built-in material called ``value`` (``fvheat materials`` lists them)."""
+    if not isinstance(value, str):
+        raise Invalid(path, f"expected a library material name, got {describe(value)}")
+    try:
+        return lookup(value)
+    except UnknownMaterialError as err:
+        raise Invalid(path, str(err).strip("'\"")) from None
+
+
+def _library_material(entry: LibraryMaterial) -> Material:
+    return Material(
+        name=entry.name,
+        conductivity=entry.conductivity,
+        density=entry.density,
+        specific_heat=entry.specific_heat,
+        emissivity=entry.emissivity,
     )
 
 
@@ -240,16 +276,85 @@ def _regions(value: Any, ctx: Context) -> tuple[Region, ...]:
     entries = tables(value, "regions")
     if not entries:
         raise Invalid("regions", "define at least one [[regions]] entry")
+    # library materials and cavities used by regions join the case's materials
     materials: dict[str, Material] = ctx.parsed["materials"]
     return tuple(_region(tbl, join("regions", i), materials) for i, tbl in enumerate(entries))
 
 
 def _region(tbl: dict, path: str, materials: dict[str, Material]) -> Region:
-    table(tbl, path, allowed=("material", "box", "polygon"), required=("material",))
+    table(tbl, path, allowed=("material", "cavity", "box", "polygon"))
+    if ("material" in tbl) == ("cavity" in tbl):
+        raise Invalid(
+            path, 'give exactly one of material = "name" or cavity = { heat_flow = "+x", ... }'
+        )
+    vertices, is_box = _shape(tbl, path)
+    if "cavity" in tbl:
+        material = _cavity_material(tbl["cavity"], join(path, "cavity"), vertices)
+        materials[material.name] = material
+        return Region(material=material.name, vertices=vertices, is_box=is_box)
     material = string(tbl, "material", path)
     if material not in materials:
-        known = ", ".join(materials)
-        raise Invalid(join(path, "material"), f"unknown material {material!r}; defined: {known}")
+        try:
+            materials[material] = _library_material(lookup(material))
+        except UnknownMaterialError:
+            known = ", ".join(materials)
+            raise Invalid(
+                join(path, "material"),
+                f"unknown material {material!r}: define [materials.{material}] or use a library "
+                f"name (fvheat materials lists them); defined: {known}",
+            ) from None
+    return Region(material=material, vertices=vertices, is_box=is_box)
+
+
+_CAVITY_KEYS = ("heat_flow", "emissivity", "ventilation", "section", "delta_t", "mean_temperature")
+#: air properties for transient runs through a cavity (ISO 10456 Table 3 air at 10 °C, from memory)
+_AIR_DENSITY, _AIR_SPECIFIC_HEAT = 1.23, 1008.0
+
+
+def _cavity_material(value: Any, path: str, vertices: np.ndarray) -> Material:
+    """An unventilated or slightly ventilated air cavity as a solid of equivalent conductivity
+    (ISO 10077-2 method, :func:`fvheat.properties.cavity.equivalent_conductivity`) sized by
+    the region's bounding box."""
+    tbl = table(value, path, allowed=_CAVITY_KEYS, required=("heat_flow",))
+    flow = string(tbl, "heat_flow", path, choices=("+x", "-x", "+y", "-y"))
+    section = string(
+        tbl, "section", path, required=False, default="vertical", choices=("vertical", "plan")
+    )
+    eps = number(tbl, "emissivity", path, required=False, default=0.9, gt=0, le=1)
+    vent = string(
+        tbl, "ventilation", path, required=False, default="none", choices=("none", "slight")
+    )
+    delta_t = number(tbl, "delta_t", path, required=False, default=10.0, gt=0)
+    t_mean = number(tbl, "mean_temperature", path, required=False, default=10.0, gt=-100, lt=100)
+    width, height = np.ptp(vertices, axis=0)
+    dims = cavity_dimensions(
+        float(width),
+        float(height),
+        flow[1],
+        1 if flow[0] == "+" else -1,
+        vertical_axis="y" if section == "vertical" else None,
+    )
+    result = equivalent_conductivity(
+        dims.d,
+        dims.b,
+        emissivity1=eps,
+        emissivity2=eps,
+        direction=dims.direction,
+        delta_t=delta_t,
+        mean_temperature=t_mean + 273.15,
+        ventilation=vent,
+    )
+    return Material(
+        name=path,
+        conductivity=float(result.lambda_eq),
+        density=_AIR_DENSITY,
+        specific_heat=_AIR_SPECIFIC_HEAT,
+        emissivity=eps,
+    )
+
+
+def _shape(tbl: dict, path: str) -> tuple[np.ndarray, bool]:
+    """Vertices (read-only) and box flag of a region's ``box`` or ``polygon``."""
     if ("box" in tbl) == ("polygon" in tbl):
         raise Invalid(
             path, "give exactly one of box = [x0, y0, x1, y1] or polygon = [[x, y], ...] (m)"
@@ -260,7 +365,7 @@ def _region(tbl: dict, path: str, materials: dict[str, Material]) -> Region:
     else:
         vertices, is_box = _polygon(tbl["polygon"], join(path, "polygon"))
     vertices.flags.writeable = False
-    return Region(material=material, vertices=vertices, is_box=is_box)
+    return vertices, is_box
 
 
 def _box_vertices(x0: float, y0: float, x1: float, y1: float) -> np.ndarray:
@@ -668,6 +773,13 @@ def _time(value: Any, ctx: Context) -> TimeSettings | None:
         raise Invalid(
             "time.step", f"step = {step:g} s is longer than the duration = {duration:g} s"
         )
+    n_steps = duration / step
+    if abs(n_steps - round(n_steps)) > 1e-9 * n_steps:
+        raise Invalid(
+            "time.duration",
+            f"duration = {duration:g} s must be a whole number of steps of {step:g} s "
+            f"(e.g. {round(n_steps) * step:g} or {(round(n_steps) + 1) * step:g})",
+        )
     initial = tbl["initial_temperature"]
     if initial != "steady":
         if isinstance(initial, str):
@@ -704,6 +816,8 @@ register_section("regions", _regions)
 register_section("boundaries", _boundaries)
 register_section("probes", _probes)
 register_section("time", _time)
+register_section("junction", parse_junction)
+register_check(check_junction_side_kinds)
 
 
 # --- whole-case checks ---------------------------------------------------------------------

@@ -24,7 +24,12 @@ app = typer.Typer(
 CaseArg = Annotated[Path, typer.Argument(help="Case file (TOML).", show_default=False)]
 SetOpt = Annotated[
     list[str] | None,
-    typer.Option("--set", "-s", help="Override a case key: dotted.path=value (repeatable).", show_default=False),
+    typer.Option(
+        "--set",
+        "-s",
+        help="Override a case key: dotted.path=value (repeatable).",
+        show_default=False,
+    ),
 ]
 QuietOpt = Annotated[bool, typer.Option("--quiet", "-q", help="Print nothing but errors.")]
 
@@ -34,16 +39,28 @@ def run(
     case_file: CaseArg,
     out: Annotated[
         Path | None,
-        typer.Option("--out", "-o", help="Output folder [default: CASE-STEM_results].", show_default=False),
+        typer.Option(
+            "--out", "-o", help="Output folder [default: CASE-STEM_results].", show_default=False
+        ),
     ] = None,
     set_: SetOpt = None,
     quiet: QuietOpt = False,
-    as_json: Annotated[bool, typer.Option("--json", help="Print summary.json instead of the table.")] = False,
+    as_json: Annotated[
+        bool, typer.Option("--json", help="Print summary.json instead of the table.")
+    ] = False,
+    grid_check: Annotated[
+        bool | None,
+        typer.Option(
+            "--grid-check/--no-grid-check",
+            help="Also solve with twice the cells (ISO 10211 grid check).",
+            show_default=False,
+        ),
+    ] = None,
 ) -> None:
     """Solve a case and write summary.json (and timeseries.csv when transient) to OUT."""
     from fvheat.cli.run_command import run_case
 
-    run_case(case_file, out, tuple(set_ or ()), quiet=quiet, as_json=as_json)
+    run_case(case_file, out, tuple(set_ or ()), quiet=quiet, as_json=as_json, grid_check=grid_check)
 
 
 @app.command()
@@ -52,6 +69,14 @@ def check(case_file: CaseArg, set_: SetOpt = None) -> None:
     from fvheat.cli.run_command import check_case
 
     check_case(case_file, tuple(set_ or ()))
+
+
+@app.command()
+def materials() -> None:
+    """List the built-in material library with its sources."""
+    from fvheat.cli.materials_command import print_library
+
+    print_library()
 
 
 def main(argv: list[str] | None = None) -> int:

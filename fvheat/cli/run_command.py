@@ -7,10 +7,10 @@ import sys
 import time
 from pathlib import Path
 
-from fvheat.cautions import CAUTION
 from fvheat.case.load import load_case
+from fvheat.cautions import CAUTION
 from fvheat.mesh.rectilinear import build_mesh
-from fvheat.simulate import Progress, Solution, simulate
+from fvheat.study import Study, run_study
 
 
 def default_out(case_file: Path) -> Path:
@@ -19,8 +19,14 @@ def default_out(case_file: Path) -> Path:
 
 
 def run_case(
-    case_file: Path, out: Path | None, overrides: tuple[str, ...], *, quiet: bool, as_json: bool
-) -> Solution:
+    case_file: Path,
+    out: Path | None,
+    overrides: tuple[str, ...],
+    *,
+    quiet: bool,
+    as_json: bool,
+    grid_check: bool | None = None,
+) -> Study:
     """Validate (before anything is written), solve, write the outputs, print results."""
     from fvheat.output.summary import build_summary, write_summary
     from fvheat.output.timeseries import write_timeseries
@@ -30,20 +36,25 @@ def run_case(
     out = out if out is not None else default_out(case_file)
     t0 = time.perf_counter()
     if case.transient and not quiet and not as_json:
-        solution = _with_progress(lambda p: simulate(case, mesh=mesh, progress=p))
+        study = _with_progress(
+            lambda p: run_study(case, mesh=mesh, progress=p, check_grid=grid_check)
+        )
     else:
-        solution = simulate(case, mesh=mesh)
+        study = run_study(case, mesh=mesh, check_grid=grid_check)
     elapsed = time.perf_counter() - t0
-    summary = build_summary(solution, overrides)
+    summary = build_summary(study, overrides)
     summary["solve_seconds"] = elapsed
     write_summary(out / "summary.json", summary)
     if case.transient:
-        write_timeseries(out / "timeseries.csv", solution)
+        write_timeseries(out / "timeseries.csv", study.solution)
     if as_json:
         sys.stdout.write(json.dumps(summary, indent=2) + "\n")
     elif not quiet:
-        _print_results(solution, out, elapsed)
-    return solution
+        _print_results(study, out, elapsed)
+        if study.junction is not None:
+            for w in study.junction.warnings:
+                print(f"fvheat: warning: {w}", file=sys.stderr)
+    return study
 
 
 def check_case(case_file: Path, overrides: tuple[str, ...]) -> None:
@@ -62,13 +73,17 @@ def _fmt(v: float | int) -> str:
     return f"{v:.4g}" if isinstance(v, float) else str(v)
 
 
-def _with_progress(job):  # noqa: ANN001, ANN202
+def _with_progress(job):
     from rich.console import Console
     from rich.progress import BarColumn, Progress, TextColumn, TimeRemainingColumn
 
     with Progress(
-        TextColumn("solving"), BarColumn(), TextColumn("{task.percentage:>3.0f} %"),
-        TimeRemainingColumn(), transient=True, console=Console(stderr=True),
+        TextColumn("solving"),
+        BarColumn(),
+        TextColumn("{task.percentage:>3.0f} %"),
+        TimeRemainingColumn(),
+        transient=True,
+        console=Console(stderr=True),
     ) as bar:
         task = bar.add_task("t", total=1.0)
 
@@ -78,11 +93,12 @@ def _with_progress(job):  # noqa: ANN001, ANN202
         return job(update)
 
 
-def _print_results(solution: Solution, out: Path, elapsed: float) -> None:
+def _print_results(study: Study, out: Path, elapsed: float) -> None:
     from rich.console import Console
     from rich.table import Table
 
     con = Console()
+    solution = study.solution
     case = solution.case
     when = f" at t = {solution.time:g} s" if case.transient else ""
     table = Table(title=f"{case.title}{when}", title_justify="left")
@@ -91,14 +107,58 @@ def _print_results(solution: Solution, out: Path, elapsed: float) -> None:
     table.add_column("min θ_s °C", justify="right")
     table.add_column("at (x, y) m")
     for name, r in solution.surfaces.items():
-        table.add_row(name, f"{r.heat_flow:.4f}", f"{r.min_temperature:.2f}",
-                      f"({r.min_at[0]:.3f}, {r.min_at[1]:.3f})")
+        table.add_row(
+            name,
+            f"{r.heat_flow:.4f}",
+            f"{r.min_temperature:.2f}",
+            f"({r.min_at[0]:.3f}, {r.min_at[1]:.3f})",
+        )
     con.print(table)
     for name, v in solution.probes.items():
         con.print(f"probe {name}: {v:.2f} °C")
+    if study.junction is not None:
+        con.print(_junction_table(study))
+    if study.grid is not None:
+        g = study.grid
+        con.print(
+            f"grid check: Σ|Φ| changes {100 * g.change:.3f} % from {g.cells} to "
+            f"{g.cells_refined} cells — {'pass' if g.passed else 'FAIL'} (limit 1 %, ISO 10211)"
+        )
     bal = solution.balance
     con.print(
         f"cells {solution.mesh.n_cells}; energy balance residual {bal.relative:.1e} (relative); "
         f"solved in {elapsed:.2f} s; results in {out}/"
     )
     con.print(f"[dim]Caution: {CAUTION}[/dim]")
+
+
+def _junction_table(study: Study):
+    from rich.table import Table
+
+    j = study.junction
+    assert j is not None
+    t = Table(
+        title=f"junction ({j.dimensions} dimensions)", title_justify="left", show_header=False
+    )
+    t.add_column("quantity")
+    t.add_column("value", justify="right")
+    t.add_row("θ_i / θ_e", f"{j.theta_i:g} / {j.theta_e:g} °C")
+    t.add_row("L2D", f"{j.l2d:.4f} W/(m·K)")
+    for f in j.flanking:
+        src = "from layers" if f.cut is not None else "given"
+        t.add_row(f"  U·l {f.name}", f"{f.u_value:.4f} × {f.length:g} ({src})")
+    t.add_row("ψ", f"{j.psi:.4f} W/(m·K)")
+    if j.u_f is not None:
+        t.add_row("U_f", f"{j.u_f:.3f} W/(m²·K)")
+    verdict = "" if j.f_rsi_pass is None else (" pass" if j.f_rsi_pass else " FAIL")
+    limit = "" if j.f_rsi_limit is None else f" (limit {j.f_rsi_limit:g}){verdict}"
+    t.add_row("f_Rsi", f"{j.f_rsi:.3f}{limit}")
+    t.add_row(
+        "θ_si,min",
+        f"{j.theta_si_min:.2f} °C at ({j.theta_si_min_at[0]:.3f}, {j.theta_si_min_at[1]:.3f}) m",
+    )
+    if j.dew_point is not None:
+        t.add_row(
+            "dew point / surface RH", f"{j.dew_point:.2f} °C / {100 * (j.surface_rh or 0):.0f} %"
+        )
+    return t

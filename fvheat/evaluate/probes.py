@@ -34,8 +34,10 @@ def probe_operator(mesh: Mesh, points: np.ndarray) -> sp.csr_matrix:
     pts = np.atleast_2d(np.asarray(points, dtype=float))
     x0, x1, wx = _bracket(g.xc, pts[:, 0])
     y0, y1, wy = _bracket(g.yc, pts[:, 1])
-    cell = np.stack([g.cell_index[y0, x0], g.cell_index[y0, x1],
-                     g.cell_index[y1, x0], g.cell_index[y1, x1]], axis=1)
+    cell = np.stack(
+        [g.cell_index[y0, x0], g.cell_index[y0, x1], g.cell_index[y1, x0], g.cell_index[y1, x1]],
+        axis=1,
+    )
     w = np.stack([(1 - wx) * (1 - wy), wx * (1 - wy), (1 - wx) * wy, wx * wy], axis=1)
     w = np.where(cell >= 0, w, 0.0)
     total = w.sum(axis=1)

@@ -105,9 +105,7 @@ class Mesh:
                 rows=int(dy.size),
                 smallest_cell=float(sizes.min()),
                 largest_cell=float(sizes.max()),
-                max_neighbour_ratio=float(
-                    max(_max_ratio(dx), _max_ratio(dy))
-                ),
+                max_neighbour_ratio=float(max(_max_ratio(dx), _max_ratio(dy))),
             )
         return out
 

@@ -10,13 +10,17 @@ from pathlib import Path
 from typing import IO
 
 
-def atomic_write(path: str | Path, write: Callable[[IO[str]], None], *, binary: bool = False) -> Path:
+def atomic_write(
+    path: str | Path, write: Callable[[IO[str]], None], *, binary: bool = False
+) -> Path:
     """Call ``write(handle)`` on a temporary file next to ``path``, then rename it to ``path``."""
     path = Path(path)
     path.parent.mkdir(parents=True, exist_ok=True)
     fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
     try:
-        with os.fdopen(fd, "wb" if binary else "w", **({} if binary else {"newline": "", "encoding": "utf-8"})) as fh:
+        with os.fdopen(
+            fd, "wb" if binary else "w", **({} if binary else {"newline": "", "encoding": "utf-8"})
+        ) as fh:
             write(fh)
         os.replace(tmp, path)
     except BaseException:

@@ -12,7 +12,7 @@ import numpy as np
 from fvheat import __version__
 from fvheat.cautions import CAUTION
 from fvheat.output.files import atomic_write_text
-from fvheat.simulate import Solution
+from fvheat.study import Study
 
 
 def case_digest(source: Path, overrides: tuple[str, ...] = ()) -> str:
@@ -23,8 +23,10 @@ def case_digest(source: Path, overrides: tuple[str, ...] = ()) -> str:
     return h.hexdigest()
 
 
-def build_summary(solution: Solution, overrides: tuple[str, ...] = ()) -> dict[str, Any]:
-    """The summary dictionary: boundaries, probes, cells, energy balance and provenance."""
+def build_summary(study: Study, overrides: tuple[str, ...] = ()) -> dict[str, Any]:
+    """The summary dictionary: boundaries, probes, cells, energy balance, junction results,
+    grid check and provenance."""
+    solution = study.solution
     case = solution.case
     summary: dict[str, Any] = {
         "title": case.title,
@@ -38,10 +40,17 @@ def build_summary(solution: Solution, overrides: tuple[str, ...] = ()) -> dict[s
         "mesh": solution.mesh.stats(),
         "boundaries": {name: r.as_dict() for name, r in solution.surfaces.items()},
         "probes": dict(solution.probes),
-        "temperature_range": [float(np.min(solution.temperature)), float(np.max(solution.temperature))],
+        "temperature_range": [
+            float(np.min(solution.temperature)),
+            float(np.max(solution.temperature)),
+        ],
         "energy_balance": solution.balance.as_dict(),
         "caution": CAUTION,
     }
+    if study.junction is not None:
+        summary["junction"] = study.junction.as_dict()
+    if study.grid is not None:
+        summary["grid_check"] = study.grid.as_dict()
     return summary
 
 

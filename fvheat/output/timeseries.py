@@ -37,7 +37,7 @@ def write_timeseries(path: str | Path, solution: Solution) -> Path:
     """Write ``timeseries.csv`` atomically (full double precision)."""
     header, data = timeseries_table(solution)
 
-    def write(fh) -> None:  # noqa: ANN001
+    def write(fh) -> None:
         w = csv.writer(fh)
         w.writerow(header)
         w.writerows([[repr(float(v)) for v in row] for row in data])

@@ -52,7 +52,9 @@ class AmgSolver:
     def solve(self, b: np.ndarray, x0: np.ndarray | None = None) -> np.ndarray:
         x, info = spla.cg(self._a, b, x0=x0, rtol=self.rtol, maxiter=self.maxiter, M=self._m)
         if info != 0:
-            raise ConvergenceError(f"AMG-CG did not reach rtol={self.rtol} in {self.maxiter} iterations")
+            raise ConvergenceError(
+                f"AMG-CG did not reach rtol={self.rtol} in {self.maxiter} iterations"
+            )
         return x
 
 

@@ -41,7 +41,9 @@ def evolve(
         # all terms of the balance that do not depend on T¹
         c = c_dt * temp + (1.0 - theta) * f_old + theta * system.sources(t_new)
 
-        def residual(x: np.ndarray, t_new: float = t_new, c: np.ndarray = c) -> tuple[np.ndarray, np.ndarray]:
+        def residual(
+            x: np.ndarray, t_new: float = t_new, c: np.ndarray = c
+        ) -> tuple[np.ndarray, np.ndarray]:
             r, dr = system.surface.radiative_terms(x, t_new, system.n)
             return c - a @ x + theta * r, dr
 

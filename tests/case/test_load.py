@@ -399,7 +399,7 @@ ERRORS = [
     (
         "unknown material",
         [],
-        ["regions.1.material=steel"],
+        ["regions.1.material=unobtainium"],
         "regions.1.material",
         "defined: concrete, insulation",
     ),

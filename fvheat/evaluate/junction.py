@@ -1,0 +1,228 @@
+"""Thermal-bridge results of a solved junction: L2D, ψ, f_Rsi, θ_si,min, U_f, dew point.
+
+ISO 10211: L2D = Φ / (θ_i − θ_e) with Φ the heat flow through the warm-side surfaces
+(W/m); ψ = L2D − Σ U_j·l_j over the flanking elements; f_Rsi = (θ_si,min − θ_e)/(θ_i − θ_e).
+ISO 10077-2: with the glazing replaced by an insulating panel, U_f = (L2D − U_p·b_p)/b_f,
+i.e. ψ/b_f when the panel is the only flanking element.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+
+from fvheat.case.model import Case, Junction
+from fvheat.errors import CaseError
+from fvheat.evaluate.humidity import dew_point, surface_relative_humidity
+from fvheat.evaluate.layers import CutError, LayerCut, layer_cut
+from fvheat.simulate import Solution
+
+#: surface relative humidity at which mould growth is assumed possible (ISO 13788 uses it
+#: as the design criterion; common practice)
+MOULD_RH = 0.8
+
+
+@dataclass(frozen=True)
+class FlankingResult:
+    """U-value (W/(m²·K)) and length (m) of one flanking element; ``cut`` when from layers."""
+
+    name: str
+    u_value: float
+    length: float
+    cut: LayerCut | None = None
+
+    def as_dict(self) -> dict[str, Any]:
+        out: dict[str, Any] = {"name": self.name, "u_value": self.u_value, "length": self.length}
+        if self.cut is not None:
+            out["u_from"] = "layers"
+            out["layers"] = [
+                {"material": m, "thickness": d, "conductivity": k} for m, d, k in self.cut.layers
+            ]
+            out["r_si"], out["r_se"] = self.cut.r_start, self.cut.r_end
+        else:
+            out["u_from"] = "given"
+        return out
+
+
+@dataclass
+class JunctionResult:
+    """Everything a thermal-bridge report states about one junction."""
+
+    theta_i: float
+    theta_e: float
+    heat_flow: float
+    l2d: float
+    psi: float
+    dimensions: str
+    flanking: list[FlankingResult]
+    f_rsi: float
+    theta_si_min: float
+    theta_si_min_at: tuple[float, float]
+    f_rsi_from: str
+    f_rsi_limit: float | None = None
+    u_f: float | None = None
+    dew_point: float | None = None
+    surface_rh: float | None = None
+    warnings: list[str] = field(default_factory=list)
+
+    @property
+    def f_rsi_pass(self) -> bool | None:
+        return None if self.f_rsi_limit is None else bool(self.f_rsi >= self.f_rsi_limit)
+
+    def as_dict(self) -> dict[str, Any]:
+        out: dict[str, Any] = {
+            "L2D": self.l2d,
+            "psi": self.psi,
+            "f_Rsi": self.f_rsi,
+            "theta_si_min": self.theta_si_min,
+            "theta_si_min_at": list(self.theta_si_min_at),
+            "f_Rsi_from": self.f_rsi_from,
+            "f_Rsi_limit": self.f_rsi_limit,
+            "f_Rsi_pass": self.f_rsi_pass,
+            "theta_i": self.theta_i,
+            "theta_e": self.theta_e,
+            "heat_flow": self.heat_flow,
+            "dimensions": self.dimensions,
+            "flanking": [f.as_dict() for f in self.flanking],
+        }
+        if self.u_f is not None:
+            out["U_f"] = self.u_f
+        if self.dew_point is not None:
+            out["dew_point"] = self.dew_point
+            out["surface_rh_at_theta_si_min"] = self.surface_rh
+            out["condensation_at_theta_si_min"] = bool(self.theta_si_min < self.dew_point)
+            out["mould_risk_rh_80"] = bool(
+                self.surface_rh is not None and self.surface_rh >= MOULD_RH
+            )
+        out["warnings"] = list(self.warnings)
+        return out
+
+
+def side_temperature(case: Case, names: tuple[str, ...], side: str) -> float:
+    """The common, constant reference temperature (°C) of the boundaries ``names``."""
+    temps = {}
+    for n in names:
+        b = case.boundary(n)
+        sig = b.temperature if b.kind == "temperature" else b.air_temperature
+        if sig is None or not sig.is_constant:
+            raise CaseError(
+                f"boundary {n!r} needs a constant air or surface temperature for junction results",
+                file=str(case.source),
+                key=f"junction.{side}",
+            )
+        temps[n] = float(sig.at(0.0))
+    if len(set(temps.values())) > 1:
+        raise CaseError(
+            f"the {side} boundaries must share one temperature for L2D, got {temps}",
+            file=str(case.source),
+            key=f"junction.{side}",
+        )
+    return next(iter(temps.values()))
+
+
+def flanking_results(case: Case, solution: Solution) -> list[FlankingResult]:
+    """U-values and lengths of the flanking elements (layer cuts read from the mesh)."""
+    j = case.junction
+    assert j is not None
+    out = []
+    for k, f in enumerate(j.flanking):
+        if f.cut is None:
+            assert f.u_value is not None
+            out.append(FlankingResult(f.name, f.u_value, f.length))
+            continue
+        try:
+            cut = layer_cut(case, solution.mesh, f.cut)
+        except CutError as err:
+            raise CaseError(
+                str(err), file=str(case.source), key=f"junction.flanking.{k}.cut"
+            ) from None
+        out.append(FlankingResult(f.name, cut.u_value, f.length, cut))
+    return out
+
+
+def evaluate_junction(
+    case: Case, heat_loss: Solution, surface: Solution | None = None
+) -> JunctionResult:
+    """Junction results from the heat-loss solution (ψ, L2D) and, when given, a separate
+    surface-temperature solution (f_Rsi, θ_si,min) solved with the condensation R_si."""
+    j: Junction | None = case.junction
+    if j is None:
+        raise ValueError("the case declares no [junction]")
+    theta_i = side_temperature(case, j.inside, "inside")
+    theta_e = side_temperature(case, j.outside, "outside")
+    if theta_i == theta_e:
+        raise CaseError(
+            "inside and outside temperatures are equal; L2D needs a temperature difference",
+            file=str(case.source),
+            key="junction",
+        )
+    dtheta = theta_i - theta_e
+    phi = sum(heat_loss.surfaces[n].heat_flow for n in j.inside)
+    l2d = phi / dtheta
+    flanks = flanking_results(case, heat_loss)
+    psi = l2d - sum(f.u_value * f.length for f in flanks)
+
+    src = surface if surface is not None else heat_loss
+    coldest = min(j.inside, key=lambda n: src.surfaces[n].min_temperature)
+    theta_si = src.surfaces[coldest].min_temperature
+    f_rsi = (theta_si - theta_e) / dtheta
+    f_from = (
+        f"surface-temperature solve with R_si = {j.condensation_resistance:g} m²·K/W"
+        if surface is not None
+        else "heat-loss solve (inside surface resistances as given)"
+    )
+    result = JunctionResult(
+        theta_i=theta_i,
+        theta_e=theta_e,
+        heat_flow=phi,
+        l2d=l2d,
+        psi=psi,
+        dimensions=j.dimensions,
+        flanking=flanks,
+        f_rsi=f_rsi,
+        theta_si_min=theta_si,
+        theta_si_min_at=src.surfaces[coldest].min_at,
+        f_rsi_from=f_from,
+        f_rsi_limit=j.f_rsi_limit,
+    )
+    if j.frame_width is not None:
+        result.u_f = psi / j.frame_width
+    if j.indoor_humidity is not None:
+        result.dew_point = dew_point(theta_i, j.indoor_humidity)
+        result.surface_rh = surface_relative_humidity(theta_i, j.indoor_humidity, theta_si)
+    result.warnings += cutoff_warnings(case, heat_loss, flanks)
+    phi_out = sum(heat_loss.surfaces[n].heat_flow for n in j.outside)
+    other = abs(phi + phi_out) / max(abs(phi), 1e-300)
+    if other > 1e-6:
+        result.warnings.append(
+            f"{100 * other:.2g} % of the warm-side heat flow leaves through boundaries other "
+            "than the cold side; L2D counts only the warm side"
+        )
+    return result
+
+
+def cutoff_warnings(case: Case, solution: Solution, flanks: list[FlankingResult]) -> list[str]:
+    """Warn when an adiabatic cut-off plane lies nearer the junction than ISO 10211's minimum
+    distance (from memory: the larger of 1 m and three times the flanking thickness)."""
+    j = case.junction
+    assert j is not None
+    if j.centre is None:
+        return ["cut-off plane distances not checked: give junction.centre = [x, y]"]
+    thick = [f.thickness for f in j.flanking if f.thickness is not None]
+    thick += [f.cut.thickness for f in flanks if f.cut is not None]
+    need = max([1.0] + [3.0 * t for t in thick])
+    mesh = solution.mesh
+    adiabatic = mesh.b_boundary < 0
+    if not adiabatic.any():
+        return []
+    dist = np.hypot(*(mesh.b_centre[adiabatic] - np.asarray(j.centre)).T)
+    k = int(np.argmin(dist))
+    if dist[k] < need - 1e-9:
+        x, y = mesh.b_centre[adiabatic][k]
+        return [
+            f"an adiabatic cut-off plane at ({x:.3f}, {y:.3f}) m is {dist[k]:.2f} m from the "
+            f"junction centre, less than the {need:.2f} m ISO 10211 asks for; ψ may be biased"
+        ]
+    return []

@@ -1,0 +1,113 @@
+"""U-value of a flanking element from the model's own layers along a cut (ISO 6946 layer sum)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from fvheat.assembly.properties import conductivity
+from fvheat.case.model import Case
+from fvheat.mesh.mesh import Mesh
+
+Segment = tuple[tuple[float, float], tuple[float, float]]
+
+
+@dataclass(frozen=True)
+class LayerCut:
+    """The 1-D layer sequence along a cut: (material, thickness m, conductivity W/(m·K)) from
+    the first end to the second, with the surface resistances at the two ends (m²·K/W)."""
+
+    layers: tuple[tuple[str, float, float], ...]
+    r_start: float
+    r_end: float
+
+    @property
+    def thickness(self) -> float:
+        """Total thickness of the layers, m."""
+        return float(sum(d for _, d, _ in self.layers))
+
+    @property
+    def resistance(self) -> float:
+        """Total resistance R_si + Σ d/λ + R_se, m²·K/W."""
+        return self.r_start + sum(d / k for _, d, k in self.layers) + self.r_end
+
+    @property
+    def u_value(self) -> float:
+        """Thermal transmittance U = 1/R, W/(m²·K)."""
+        return 1.0 / self.resistance
+
+
+class CutError(ValueError):
+    """A cut that does not cross the body from one surface to another along a grid row."""
+
+
+def layer_cut(case: Case, mesh: Mesh, cut: Segment) -> LayerCut:
+    """Read the layers crossed by the axis-aligned segment ``cut`` (m).
+
+    The cut must lie inside one row (or column) of cells, not on a material interface, and
+    its ends must be on boundary faces whose boundaries are surface resistances (or
+    convection without radiation) or fixed temperatures (resistance 0).
+    """
+    g = mesh.grid
+    if g is None:
+        raise CutError("layer cuts need a rectilinear grid")
+    (x0, y0), (x1, y1) = cut
+    if y0 == y1 and x0 != x1:
+        along, lines, other, pos, (lo, hi) = 0, g.x, g.y, y0, sorted((x0, x1))
+    elif x0 == x1 and y0 != y1:
+        along, lines, other, pos, (lo, hi) = 1, g.y, g.x, x0, sorted((y0, y1))
+    else:
+        raise CutError("a cut must be a horizontal or vertical segment of non-zero length")
+    tol = 1e-9 * max(float(np.ptp(g.x)), float(np.ptp(g.y)), 1.0)
+    if np.any(np.abs(other - pos) <= tol):
+        raise CutError(
+            f"the cut runs along a grid line at {pos:g} m (a material edge); move it into a layer"
+        )
+    row = int(np.searchsorted(other, pos)) - 1
+    if not 0 <= row < other.size - 1:
+        raise CutError("the cut lies outside the model")
+    first, last = np.searchsorted(lines, [lo - tol, hi - tol])
+    if (
+        first >= lines.size
+        or last >= lines.size
+        or abs(lines[first] - lo) > tol
+        or abs(lines[last] - hi) > tol
+    ):
+        raise CutError("both ends of the cut must lie on the body's surfaces")
+    idx = g.cell_index[row, first:last] if along == 0 else g.cell_index[first:last, row]
+    if np.any(idx < 0):
+        raise CutError("the cut crosses a part outside the body")
+    k = conductivity(case, mesh)[idx]
+    d = np.diff(lines[first : last + 1])
+    names = [mesh.material_names[m] for m in mesh.material[idx]]
+    layers: list[tuple[str, float, float]] = []
+    for n, dd, kk in zip(names, d, k, strict=True):
+        if layers and layers[-1][0] == n:
+            layers[-1] = (n, layers[-1][1] + float(dd), float(kk))
+        else:
+            layers.append((n, float(dd), float(kk)))
+    normal = np.zeros(2)
+    normal[along] = -1.0
+    r_start = _surface_resistance(case, mesh, int(idx[0]), normal)
+    r_end = _surface_resistance(case, mesh, int(idx[-1]), -normal)
+    if (x1 < x0) or (y1 < y0):  # report from the cut's first point
+        layers.reverse()
+        r_start, r_end = r_end, r_start
+    return LayerCut(tuple(layers), r_start, r_end)
+
+
+def _surface_resistance(case: Case, mesh: Mesh, cell: int, normal: np.ndarray) -> float:
+    """Surface resistance (m²·K/W) of the boundary face of ``cell`` facing ``normal``."""
+    faces = np.flatnonzero((mesh.b_cell == cell) & (np.abs(mesh.b_normal @ normal - 1.0) < 1e-9))
+    if faces.size == 0 or mesh.b_boundary[faces[0]] < 0:
+        raise CutError("each end of the cut must be on a boundary with a surface resistance")
+    b = case.boundaries[int(mesh.b_boundary[faces[0]])]
+    if b.kind == "temperature":
+        return 0.0
+    if b.kind != "surface" or b.radiative or b.convection <= 0.0:
+        raise CutError(
+            f"boundary {b.name!r} at the end of the cut has no surface resistance "
+            "(give it `resistance` or `convection` without radiation)"
+        )
+    return 1.0 / b.convection

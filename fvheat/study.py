@@ -1,0 +1,119 @@
+"""A complete run of a case: the solve, and when a junction is declared the extra solves it
+needs (surface-temperature solve, refined-grid check) and its evaluation."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+from typing import Any
+
+from fvheat.case.model import Case
+from fvheat.evaluate.junction import JunctionResult, evaluate_junction
+from fvheat.mesh.mesh import Mesh
+from fvheat.mesh.rectilinear import build_mesh
+from fvheat.simulate import Progress, Solution, simulate
+
+#: ISO 10211 (from memory): the sum of absolute heat flows must change by less than 1 % when
+#: the subdivisions are doubled
+GRID_CHECK_LIMIT = 0.01
+#: refinement factor per direction: halves every cell size, at least doubling the cell count
+GRID_CHECK_REFINE = 2.0
+
+
+@dataclass(frozen=True)
+class GridCheck:
+    """Sum of absolute boundary heat flows (W/m) on the mesh and on a refined one."""
+
+    cells: int
+    cells_refined: int
+    total: float
+    total_refined: float
+
+    @property
+    def change(self) -> float:
+        """Relative change of the sum of absolute heat flows."""
+        return abs(self.total_refined - self.total) / self.total_refined
+
+    @property
+    def passed(self) -> bool:
+        return self.change < GRID_CHECK_LIMIT
+
+    def as_dict(self) -> dict[str, Any]:
+        return {
+            "cells": self.cells,
+            "cells_refined": self.cells_refined,
+            "sum_abs_heat_flow": self.total,
+            "sum_abs_heat_flow_refined": self.total_refined,
+            "change": self.change,
+            "limit": GRID_CHECK_LIMIT,
+            "pass": self.passed,
+        }
+
+
+@dataclass
+class Study:
+    """The main solution, the steady heat-loss solution of a junction (the main one when
+    steady), its surface-temperature solution and results, and the grid check."""
+
+    solution: Solution
+    junction: JunctionResult | None = None
+    surface_solution: Solution | None = None
+    grid: GridCheck | None = None
+
+
+def surface_case(case: Case) -> Case:
+    """The case with the junction's inside boundaries at the condensation surface resistance."""
+    j = case.junction
+    assert j is not None and j.condensation_resistance is not None
+    h = 1.0 / j.condensation_resistance
+    bounds = tuple(
+        replace(b, convection=h, resistance=j.condensation_resistance, emissivity=0.0)
+        if b.name in j.inside and b.kind == "surface"
+        else b
+        for b in case.boundaries
+    )
+    return replace(case, boundaries=bounds)
+
+
+def steady_case(case: Case) -> Case:
+    """The case without ``[time]``: the steady problem of its t = 0 conditions."""
+    return replace(case, time=None)
+
+
+def grid_check(case: Case, solution: Solution) -> GridCheck:
+    """Solve again with every cell size halved and compare Σ|Φ| over all boundaries."""
+    fine = simulate(case, mesh=build_mesh(case, refine=GRID_CHECK_REFINE), keep_fields=False)
+    return GridCheck(
+        cells=solution.mesh.n_cells,
+        cells_refined=fine.mesh.n_cells,
+        total=sum(abs(r.heat_flow) for r in solution.surfaces.values()),
+        total_refined=sum(abs(r.heat_flow) for r in fine.surfaces.values()),
+    )
+
+
+def run_study(
+    case: Case,
+    *,
+    mesh: Mesh | None = None,
+    progress: Progress | None = None,
+    check_grid: bool | None = None,
+) -> Study:
+    """Solve ``case`` and, if it declares a junction, everything the junction needs.
+
+    ``check_grid`` overrides the case's ``junction.grid_check`` (None: as the case says; a
+    case without a junction is grid-checked only when asked).
+    """
+    mesh = mesh if mesh is not None else build_mesh(case)
+    solution = simulate(case, mesh=mesh, progress=progress)
+    study = Study(solution)
+    j = case.junction
+    want_grid = check_grid if check_grid is not None else (j is not None and j.grid_check)
+    if j is None and not want_grid:
+        return study
+    base = solution if not case.transient else simulate(steady_case(case), mesh=mesh)
+    if j is not None:
+        if j.condensation_resistance is not None:
+            study.surface_solution = simulate(steady_case(surface_case(case)), mesh=mesh)
+        study.junction = evaluate_junction(steady_case(case), base, study.surface_solution)
+    if want_grid:
+        study.grid = grid_check(steady_case(case), base)
+    return study

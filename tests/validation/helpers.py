@@ -1,0 +1,67 @@
+"""Shared helpers of the validation tests: build cases from TOML text, run them, report numbers.
+
+Every case goes through the whole pipeline: TOML text is written to a file, read by
+:func:`fvheat.case.load.load_case` (with optional ``--set`` overrides) and solved by
+:func:`fvheat.simulate.simulate`.
+"""
+
+from __future__ import annotations
+
+import textwrap
+from collections.abc import Sequence
+from pathlib import Path
+
+import numpy as np
+
+from fvheat.case.load import load_case
+from fvheat.case.model import Case
+from fvheat.simulate import Solution, simulate
+
+
+def write_case(folder: Path, text: str, name: str = "case.toml") -> Path:
+    """Write the (dedented) TOML ``text`` to ``folder/name`` and return the path."""
+    path = Path(folder) / name
+    path.write_text(textwrap.dedent(text), encoding="utf-8")
+    return path
+
+
+def load(folder: Path, text: str, overrides: Sequence[str] = (), name: str = "case.toml") -> Case:
+    """Write the TOML ``text`` and load it as a validated :class:`Case`."""
+    return load_case(write_case(folder, text, name), overrides)
+
+
+def run(
+    folder: Path, text: str, overrides: Sequence[str] = (), name: str = "case.toml"
+) -> Solution:
+    """Write, load and solve the TOML case ``text``."""
+    return simulate(load(folder, text, overrides, name))
+
+
+def observed_order(h: Sequence[float], err: Sequence[float]) -> float:
+    """Slope of log(err) against log(h): the observed order of convergence."""
+    return float(np.polyfit(np.log(h), np.log(err), 1)[0])
+
+
+def report(check: str, **values: object) -> None:
+    """Print the measured numbers of a check (shown by ``pytest -s``)."""
+    parts = []
+    for key, value in values.items():
+        if isinstance(value, float):
+            parts.append(f"{key}={value:.3e}")
+        elif isinstance(value, list | tuple) and value and isinstance(value[0], float):
+            parts.append(f"{key}=[" + ", ".join(f"{v:.3e}" for v in value) + "]")
+        else:
+            parts.append(f"{key}={value}")
+    print(f"\n[validation] {check}: " + ", ".join(parts))
+
+
+def toml_list(values: Sequence[float]) -> str:
+    """A TOML array of numbers, written with full precision."""
+    return "[" + ", ".join(repr(float(v)) for v in values) + "]"
+
+
+def probes_toml(points: dict[str, Sequence[float]]) -> str:
+    """``[[probes]]`` entries for the named points (m)."""
+    return "".join(
+        f'\n[[probes]]\nname = "{name}"\nat = {toml_list(p)}\n' for name, p in points.items()
+    )
