@@ -9,13 +9,16 @@ import numpy as np
 
 from fvheat.assembly.system import System
 from fvheat.case.model import Case
-from fvheat.evaluate.balance import EnergyBalance, stored_heat_change
+from fvheat.assembly.enthalpy import EnthalpyModel
+from fvheat.evaluate.balance import EnergyBalance
+from fvheat.evaluate.fronts import FrontLines
 from fvheat.evaluate.probes import probe_operator
-from fvheat.evaluate.surfaces import SurfaceResult, boundary_heat_flows, surface_results
+from fvheat.evaluate.surfaces import SurfaceResult, surface_results
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.rectilinear import build_mesh
 from fvheat.solve.linear import Method
 from fvheat.solve.steady import solve_steady
+from fvheat.solve.phase_change import evolve_enthalpy, solve_steady_phase
 from fvheat.solve.transient import evolve
 
 #: called after every time step with (t, duration) in s
@@ -25,11 +28,14 @@ Progress = Callable[[float, float], None]
 @dataclass
 class History:
     """Saved states of a transient run: times (s), probe temperatures (°C, times × probes),
-    boundary heat flows (W/m, times × boundaries) and, if kept, the cell fields (°C)."""
+    boundary heat flows (W/m, times × boundaries), phase-change measures (frozen area m²,
+    front positions m; see :class:`~fvheat.evaluate.fronts.FrontLines`) and, if kept, the
+    cell fields (°C)."""
 
     times: list[float] = field(default_factory=list)
     probes: list[np.ndarray] = field(default_factory=list)
     flows: list[np.ndarray] = field(default_factory=list)
+    phase: list[dict[str, float | None]] = field(default_factory=list)
     fields: list[np.ndarray] = field(default_factory=list)
 
 
@@ -60,12 +66,14 @@ def simulate(
     """Solve ``case`` (steady, or transient when it has ``[time]``)."""
     mesh = mesh if mesh is not None else build_mesh(case)
     system = System.build(case, mesh)
+    model = EnthalpyModel.build(case, mesh)
     probe_op = probe_operator(mesh, np.array([p.at for p in case.probes]).reshape(-1, 2))
     names = [b.name for b in case.boundaries]
 
     if case.time is None:
-        temp = solve_steady(system, 0.0, method=method)
-        flows = boundary_heat_flows(system, temp, 0.0)
+        temp = _steady(system, model, method)
+        system = _at_phase(system, model, temp)
+        flows = system.boundary_flows(temp, 0.0)
         balance = EnergyBalance(dict(zip(names, map(float, flows), strict=True)), 0.0)
         return _solution(case, mesh, system, temp, 0.0, probe_op, balance, None)
 
@@ -73,35 +81,56 @@ def simulate(
     n_steps = round(ts.duration / ts.step)
     save = max(1, round(ts.save_every / ts.step))
     if ts.initial_temperature == "steady":
-        temp0 = solve_steady(system, 0.0, method=method)
+        temp0 = _steady(system, model, method)
     else:
         temp0 = np.full(mesh.n_cells, float(ts.initial_temperature))
     history = History()
+    lines = FrontLines.build(case, mesh, model)
 
-    def record(t: float, temp: np.ndarray, flows: np.ndarray) -> None:
+    def record(t: float, temp: np.ndarray) -> None:
         history.times.append(t)
         history.probes.append(probe_op @ temp)
-        history.flows.append(flows)
+        history.flows.append(_at_phase(system, model, temp).boundary_flows(temp, t))
+        history.phase.append(lines.measure(temp))
         if keep_fields:
             history.fields.append(temp.copy())
 
-    flows_old = boundary_heat_flows(system, temp0, 0.0)
-    record(0.0, temp0, flows_old)
+    record(0.0, temp0)
+    if model.active:
+        steps = evolve_enthalpy(
+            system, model, temp0, ts.step, n_steps, theta=ts.theta, method=method
+        )
+    else:
+        steps = evolve(system, temp0, ts.step, n_steps, theta=ts.theta, method=method)
     energy = np.zeros(len(names))
     temp, t = temp0, 0.0
-    for k, (t, temp) in enumerate(
-        evolve(system, temp0, ts.step, n_steps, theta=ts.theta, method=method), start=1
-    ):
-        flows = boundary_heat_flows(system, temp, t)
-        energy += ts.step * (ts.theta * flows + (1.0 - ts.theta) * flows_old)
-        flows_old = flows
+    for k, (t, temp, heat) in enumerate(steps, start=1):
+        energy += heat
         if k % save == 0 or k == n_steps:
-            record(t, temp, flows)
+            record(t, temp)
         if progress is not None:
             progress(t, ts.duration)
-    stored = stored_heat_change(system.capacity, temp0, temp)
+    stored = float(np.sum(model.enthalpy(temp) - model.enthalpy(temp0)))
     balance = EnergyBalance(dict(zip(names, map(float, energy), strict=True)), stored)
+    system = _at_phase(system, model, temp)
     return _solution(case, mesh, system, temp, t, probe_op, balance, history)
+
+
+def _steady(system: System, model: EnthalpyModel, method: Method) -> np.ndarray:
+    """Steady field, iterating on phase-dependent conductivity when there is one."""
+    temp = solve_steady(system, 0.0, method=method)
+    if model.variable_conductivity:
+        temp = solve_steady_phase(system, model, 0.0, temp, method=method)
+    return temp
+
+
+def _at_phase(system: System, model: EnthalpyModel, temp: np.ndarray) -> System:
+    """``system`` with the conductivities of the phases at ``temp`` (unchanged otherwise)."""
+    return (
+        system.with_conductivity(model.conductivity(temp))
+        if model.variable_conductivity
+        else system
+    )
 
 
 def _solution(case, mesh, system, temp, t, probe_op, balance, history) -> Solution:

@@ -7,7 +7,7 @@ surface sources and r(T, t) the non-linear radiating-surface terms.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 import scipy.sparse as sp
@@ -15,7 +15,7 @@ import scipy.sparse as sp
 from fvheat.assembly.boundary import SurfaceTerms
 from fvheat.assembly.conduction import conduction_matrix, face_conductance
 from fvheat.assembly.properties import conductivity, heat_capacity
-from fvheat.case.model import Case
+from fvheat.case.model import Boundary, Case
 from fvheat.mesh.mesh import Mesh
 
 
@@ -34,10 +34,13 @@ class System:
     def build(cls, case: Case, mesh: Mesh) -> System:
         """Assemble conduction, surface terms and capacities, vectorised over faces."""
         k = conductivity(case, mesh)
-        g = face_conductance(mesh, k)
-        surface = SurfaceTerms.build(mesh, case.boundaries, k)
-        m = conduction_matrix(mesh, g) + sp.diags(surface.diagonal(mesh.n_cells))
-        return cls(mesh, k, g, m.tocsr(), surface, heat_capacity(case, mesh))
+        g, m, surface = _operators(mesh, case.boundaries, k)
+        return cls(mesh, k, g, m, surface, heat_capacity(case, mesh))
+
+    def with_conductivity(self, k: np.ndarray) -> System:
+        """The same system with cell conductivities ``k`` (W/(m·K)), e.g. frozen ground."""
+        g, m, surface = _operators(self.mesh, self.surface.boundaries, k)
+        return replace(self, k=k, g=g, matrix=m, surface=surface)
 
     @property
     def n(self) -> int:
@@ -52,7 +55,23 @@ class System:
         """b(t): heat into each cell from the linear surface terms at T = 0 °C, W/m."""
         return self.surface.rhs(t, self.n)
 
+    def boundary_flows(self, temp: np.ndarray, t: float) -> np.ndarray:
+        """Heat flow into the body through each boundary (W/m), in the case's order."""
+        s = self.surface
+        _, flux, _ = s.surface_state(temp, t)
+        return np.bincount(s.bid, weights=flux, minlength=len(s.boundaries))
+
     def heat_in(self, temp: np.ndarray, t: float) -> tuple[np.ndarray, np.ndarray]:
         """F(T, t) per cell (W/m) and the diagonal of ∂r/∂T (W/(m·K)); M is constant."""
         r, dr = self.surface.radiative_terms(temp, t, self.n)
         return self.sources(t) - self.matrix @ temp + r, dr
+
+
+def _operators(
+    mesh: Mesh, boundaries: tuple[Boundary, ...], k: np.ndarray
+) -> tuple[np.ndarray, sp.csr_matrix, SurfaceTerms]:
+    """Face conductances, the matrix M and the surface terms for conductivities ``k``."""
+    g = face_conductance(mesh, k)
+    surface = SurfaceTerms.build(mesh, boundaries, k)
+    m = conduction_matrix(mesh, g) + sp.diags(surface.diagonal(mesh.n_cells))
+    return g, m.tocsr(), surface

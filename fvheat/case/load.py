@@ -44,6 +44,7 @@ from fvheat.case.model import (
     MeshSettings,
     Phase,
     Probe,
+    ProbeLine,
     Region,
     TimeSettings,
 )
@@ -754,6 +755,22 @@ def _probes(value: Any, ctx: Context) -> tuple[Probe, ...]:
     return tuple(probes)
 
 
+def _probe_lines(value: Any, ctx: Context) -> tuple[ProbeLine, ...]:
+    if value is None:
+        return ()
+    seen: dict[str, str] = {}
+    lines = []
+    for i, tbl in enumerate(tables(value, "probe_lines")):
+        path = join("probe_lines", i)
+        table(tbl, path, allowed=("name", "start", "end"), required=("name", "start", "end"))
+        start = point(tbl["start"], join(path, "start"))
+        end = point(tbl["end"], join(path, "end"))
+        if start == end:
+            raise Invalid(join(path, "end"), "must differ from start (a line needs a length)")
+        lines.append(ProbeLine(name(tbl["name"], join(path, "name"), seen), start, end))
+    return tuple(lines)
+
+
 SCHEMES = ("backward_euler", "crank_nicolson")
 
 
@@ -816,6 +833,7 @@ register_section("regions", _regions)
 register_section("boundaries", _boundaries)
 register_section("probes", _probes)
 register_section("time", _time)
+register_section("probe_lines", _probe_lines)
 register_section("junction", parse_junction)
 register_check(check_junction_side_kinds)
 

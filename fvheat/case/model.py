@@ -113,6 +113,16 @@ class Probe:
     at: tuple[float, float]
 
 
+@dataclass(frozen=True)
+class ProbeLine:
+    """A named line from ``start`` to ``end`` (m) along which a phase-change front position
+    is reported (distance from ``start``)."""
+
+    name: str
+    start: tuple[float, float]
+    end: tuple[float, float]
+
+
 Scheme = Literal["backward_euler", "crank_nicolson"]
 
 
@@ -188,6 +198,7 @@ class Case:
     boundaries: tuple[Boundary, ...]
     probes: tuple[Probe, ...] = ()
     time: TimeSettings | None = None
+    probe_lines: tuple[ProbeLine, ...] = ()
     junction: Junction | None = None
 
     @property

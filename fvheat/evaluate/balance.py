@@ -4,8 +4,6 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-import numpy as np
-
 
 @dataclass(frozen=True)
 class EnergyBalance:
@@ -45,8 +43,3 @@ class EnergyBalance:
             "relative": self.relative,
             "boundary": dict(self.boundary),
         }
-
-
-def stored_heat_change(capacity: np.ndarray, temp_start: np.ndarray, temp_end: np.ndarray) -> float:
-    """Σ C·(T_end − T_start), J/m, with ``capacity`` per cell in J/(m·K)."""
-    return float(capacity @ (temp_end - temp_start))

@@ -32,13 +32,6 @@ class SurfaceResult:
         }
 
 
-def boundary_heat_flows(system: System, temp: np.ndarray, t: float) -> np.ndarray:
-    """Heat flow into the body through each boundary (W/m), ordered as the case's boundaries."""
-    s = system.surface
-    _, flux, _ = s.surface_state(temp, t)
-    return np.bincount(s.bid, weights=flux, minlength=len(s.boundaries))
-
-
 def surface_results(system: System, temp: np.ndarray, t: float) -> dict[str, SurfaceResult]:
     """Heat flow and face-temperature extremes of every boundary at time ``t`` (s)."""
     s = system.surface

@@ -12,6 +12,7 @@ import numpy as np
 from fvheat import __version__
 from fvheat.cautions import CAUTION
 from fvheat.output.files import atomic_write_text
+from fvheat.simulate import Solution
 from fvheat.study import Study
 
 
@@ -45,6 +46,7 @@ def build_summary(study: Study, overrides: tuple[str, ...] = ()) -> dict[str, An
             float(np.max(solution.temperature)),
         ],
         "energy_balance": solution.balance.as_dict(),
+        **_phase_change(solution),
         "caution": CAUTION,
     }
     if study.junction is not None:
@@ -57,3 +59,11 @@ def build_summary(study: Study, overrides: tuple[str, ...] = ()) -> dict[str, An
 def write_summary(path: str | Path, summary: dict[str, Any]) -> Path:
     """Write the summary as indented JSON, atomically."""
     return atomic_write_text(path, json.dumps(summary, indent=2, allow_nan=False) + "\n")
+
+
+def _phase_change(solution: Solution) -> dict[str, Any]:
+    """Frozen area (m²) and front positions (m) at the end time, when there is latent heat."""
+    h = solution.history
+    if h is None or not h.phase or not h.phase[-1]:
+        return {}
+    return {"phase_change": dict(h.phase[-1])}

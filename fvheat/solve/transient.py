@@ -19,6 +19,11 @@ from fvheat.solve.linear import Method
 from fvheat.solve.nonlinear import NewtonSolver
 
 
+#: what a stepper yields after each step: time (s), cell temperatures (°C), and the heat that
+#: entered through each boundary during the step (J/m), θ-weighted as the scheme balanced it
+Step = tuple[float, np.ndarray, np.ndarray]
+
+
 def evolve(
     system: System,
     temp0: np.ndarray,
@@ -28,14 +33,16 @@ def evolve(
     theta: float = 1.0,
     t0: float = 0.0,
     method: Method = "auto",
-) -> Iterator[tuple[float, np.ndarray]]:
-    """Yield (t, T) after each of ``n_steps`` steps of ``step`` s from (t0, ``temp0``)."""
+) -> Iterator[Step]:
+    """Yield (t, T, boundary heat) after each of ``n_steps`` steps of ``step`` s from
+    (t0, ``temp0``)."""
     c_dt = system.capacity / step
     a = (sp.diags(c_dt) + theta * system.matrix).tocsr()
     newton = NewtonSolver(a, theta, method=method, repeated=True, linear=not system.nonlinear)
     temp = temp0.astype(float).copy()
     t = t0
     f_old, _ = system.heat_in(temp, t)
+    q_old = system.boundary_flows(temp, t)
     for k in range(1, n_steps + 1):
         t_new = t0 + k * step
         # all terms of the balance that do not depend on T¹
@@ -50,4 +57,6 @@ def evolve(
         temp = newton.solve(residual, temp)
         t = t_new
         f_old, _ = system.heat_in(temp, t)
-        yield t, temp
+        q_new = system.boundary_flows(temp, t)
+        yield t, temp, step * (theta * q_new + (1.0 - theta) * q_old)
+        q_old = q_new

@@ -1,0 +1,146 @@
+"""Sensible and latent heat: the volumetric enthalpy of every cell as a function of T.
+
+For a phase-change material with solidus T_s and liquidus T_l (°C), frozen heat capacity
+C_f = ρ_f c_f and unfrozen C_u = ρ c (J/(m³·K)) and latent heat ρ·L (J/m³, L in J/kg with
+the unfrozen density), the enthalpy per unit volume relative to the solidus is
+
+    h(T) = C_f (T − T_s)                                     T ≤ T_s
+    h(T) = C_m (T − T_s) + ρL (T − T_s)/(T_l − T_s)          T_s < T < T_l,  C_m = (C_f + C_u)/2
+    h(T) = C_m (T_l − T_s) + ρL + C_u (T − T_l)              T ≥ T_l
+
+piecewise linear and strictly increasing, so T(h) is explicit. The liquid (unfrozen)
+fraction is linear across the range, and so is the conductivity between k_f and k_u.
+Other materials have h(T) = C·T. Cell enthalpies below are per metre depth (J/m): h·V.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from fvheat.case.model import Case
+from fvheat.mesh.mesh import Mesh
+
+
+@dataclass(frozen=True)
+class EnthalpyModel:
+    """Per-cell enthalpy parameters. ``pcm`` marks phase-change cells; elsewhere ``c_u`` is
+    the heat capacity and the other arrays are unused. Capacities are per cell (J/(m·K)),
+    latent heat per cell (J/m)."""
+
+    pcm: np.ndarray
+    c_f: np.ndarray
+    c_u: np.ndarray
+    latent: np.ndarray
+    t_s: np.ndarray
+    t_l: np.ndarray
+    k_f: np.ndarray
+    k_u: np.ndarray
+
+    @classmethod
+    def build(cls, case: Case, mesh: Mesh) -> EnthalpyModel:
+        """Spread the materials' phase-change data onto the cells."""
+        rows = []
+        for name in mesh.material_names:
+            m = case.materials[name]
+            cu = m.volumetric_heat_capacity or 0.0
+            if m.phase_change is None or m.latent_heat is None:
+                rows.append((0.0, cu, cu, 0.0, 0.0, 0.0, m.conductivity, m.conductivity))
+                continue
+            fz = m.frozen
+            rho_f = (fz.density if fz and fz.density else None) or m.density or 0.0
+            c_f = (fz.specific_heat if fz and fz.specific_heat else None) or m.specific_heat or 0.0
+            k_f = (fz.conductivity if fz and fz.conductivity else None) or m.conductivity
+            lat = (m.density or 0.0) * m.latent_heat
+            rows.append((1.0, rho_f * c_f, cu, lat, *m.phase_change, k_f, m.conductivity))
+        table = np.array(rows, dtype=float)[mesh.material]
+        v = mesh.volumes
+        return cls(
+            pcm=table[:, 0] > 0,
+            c_f=table[:, 1] * v,
+            c_u=table[:, 2] * v,
+            latent=table[:, 3] * v,
+            t_s=table[:, 4],
+            t_l=table[:, 5],
+            k_f=table[:, 6],
+            k_u=table[:, 7],
+        )
+
+    @property
+    def active(self) -> bool:
+        """True when some cell has a latent heat or a phase-dependent conductivity."""
+        return bool(self.pcm.any())
+
+    @property
+    def _c_m(self) -> np.ndarray:
+        return 0.5 * (self.c_f + self.c_u)
+
+    @property
+    def _width(self) -> np.ndarray:
+        return np.where(self.pcm, self.t_l - self.t_s, 1.0)
+
+    def enthalpy(self, temp: np.ndarray) -> np.ndarray:
+        """Cell enthalpy (J/m) at cell temperatures ``temp`` (°C)."""
+        p = self.pcm
+        out = self.c_u * temp
+        if not p.any():
+            return out
+        d = temp[p] - self.t_s[p]
+        w = self._width[p]
+        cm, lat = self._c_m[p], self.latent[p]
+        top = cm * w + lat  # enthalpy at the liquidus
+        out[p] = np.where(
+            d <= 0.0,
+            self.c_f[p] * d,
+            np.where(d < w, (cm + lat / w) * d, top + self.c_u[p] * (d - w)),
+        )
+        return out
+
+    def temperature(self, h: np.ndarray) -> np.ndarray:
+        """Cell temperature (°C) from cell enthalpy ``h`` (J/m): the inverse of :meth:`enthalpy`."""
+        p = self.pcm
+        out = np.divide(h, self.c_u, out=np.zeros_like(h), where=self.c_u > 0)
+        if not p.any():
+            return out
+        hp = h[p]
+        w = self._width[p]
+        cm, lat = self._c_m[p], self.latent[p]
+        top = cm * w + lat
+        out[p] = self.t_s[p] + np.where(
+            hp <= 0.0,
+            hp / self.c_f[p],
+            np.where(hp < top, hp / (cm + lat / w), w + (hp - top) / self.c_u[p]),
+        )
+        return out
+
+    def capacity(self, temp: np.ndarray) -> np.ndarray:
+        """dh/dT per cell (J/(m·K)): the apparent heat capacity of the segment ``temp`` is on
+        (at a kink, the segment above)."""
+        p = self.pcm
+        out = self.c_u.copy()
+        if p.any():
+            d = temp[p] - self.t_s[p]
+            w = self._width[p]
+            out[p] = np.where(
+                d < 0.0,
+                self.c_f[p],
+                np.where(d < w, self._c_m[p] + self.latent[p] / w, self.c_u[p]),
+            )
+        return out
+
+    def liquid_fraction(self, temp: np.ndarray) -> np.ndarray:
+        """Unfrozen (liquid) fraction 0–1 per cell; 1 for materials without phase change."""
+        frac = np.ones_like(temp)
+        p = self.pcm
+        frac[p] = np.clip((temp[p] - self.t_s[p]) / self._width[p], 0.0, 1.0)
+        return frac
+
+    def conductivity(self, temp: np.ndarray) -> np.ndarray:
+        """Cell conductivity (W/(m·K)), linear in the liquid fraction across the range."""
+        f = self.liquid_fraction(temp)
+        return self.k_f + f * (self.k_u - self.k_f)
+
+    @property
+    def variable_conductivity(self) -> bool:
+        return bool(np.any(self.pcm & (self.k_f != self.k_u)))
