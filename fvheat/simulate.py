@@ -2,24 +2,30 @@
 
 from __future__ import annotations
 
+import logging
 from collections.abc import Callable
 from dataclasses import dataclass, field
 
 import numpy as np
+import scipy.sparse as sp
 
+from fvheat.assembly.enthalpy import EnthalpyModel
 from fvheat.assembly.system import System
 from fvheat.case.model import Case
-from fvheat.assembly.enthalpy import EnthalpyModel
 from fvheat.evaluate.balance import EnergyBalance
+from fvheat.evaluate.condensation import CondensationHours
 from fvheat.evaluate.fronts import FrontLines
+from fvheat.evaluate.periodic import PeriodicResponse
 from fvheat.evaluate.probes import probe_operator
 from fvheat.evaluate.surfaces import SurfaceResult, surface_results
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.rectilinear import build_mesh
 from fvheat.solve.linear import Method
-from fvheat.solve.steady import solve_steady
 from fvheat.solve.phase_change import evolve_enthalpy, solve_steady_phase
+from fvheat.solve.steady import solve_steady
 from fvheat.solve.transient import evolve
+
+log = logging.getLogger(__name__)
 
 #: called after every time step with (t, duration) in s
 Progress = Callable[[float, float], None]
@@ -53,6 +59,8 @@ class Solution:
     probes: dict[str, float]
     balance: EnergyBalance
     history: History | None = None
+    periodic: PeriodicResponse | None = None
+    condensation: CondensationHours | None = None
 
 
 def simulate(
@@ -77,43 +85,81 @@ def simulate(
         balance = EnergyBalance(dict(zip(names, map(float, flows), strict=True)), 0.0)
         return _solution(case, mesh, system, temp, 0.0, probe_op, balance, None)
 
+    return _transient(case, mesh, system, model, probe_op, method, progress, keep_fields)
+
+
+def _transient(
+    case: Case,
+    mesh: Mesh,
+    system: System,
+    model: EnthalpyModel,
+    probe_op: sp.csr_matrix,
+    method: Method,
+    progress: Progress | None,
+    keep_fields: bool,
+) -> Solution:
+    """Time stepping; with ``[time] periodic`` cycles are repeated until they repeat."""
     ts = case.time
+    assert ts is not None
+    names = [b.name for b in case.boundaries]
     n_steps = round(ts.duration / ts.step)
     save = max(1, round(ts.save_every / ts.step))
     if ts.initial_temperature == "steady":
         temp0 = _steady(system, model, method)
     else:
         temp0 = np.full(mesh.n_cells, float(ts.initial_temperature))
-    history = History()
     lines = FrontLines.build(case, mesh, model)
+    cycles = 0
+    while True:
+        cycles += 1
+        history = History()
+        periodic = PeriodicResponse.start(case, system) if ts.periodic else None
+        hours = CondensationHours.start(case, system) if case.condensation else None
 
-    def record(t: float, temp: np.ndarray) -> None:
-        history.times.append(t)
-        history.probes.append(probe_op @ temp)
-        history.flows.append(_at_phase(system, model, temp).boundary_flows(temp, t))
-        history.phase.append(lines.measure(temp))
-        if keep_fields:
-            history.fields.append(temp.copy())
+        def record(t: float, temp: np.ndarray, history: History = history) -> None:
+            history.times.append(t)
+            history.probes.append(probe_op @ temp)
+            history.flows.append(_at_phase(system, model, temp).boundary_flows(temp, t))
+            history.phase.append(lines.measure(temp))
+            if keep_fields:
+                history.fields.append(temp.copy())
 
-    record(0.0, temp0)
-    if model.active:
-        steps = evolve_enthalpy(
-            system, model, temp0, ts.step, n_steps, theta=ts.theta, method=method
-        )
-    else:
-        steps = evolve(system, temp0, ts.step, n_steps, theta=ts.theta, method=method)
-    energy = np.zeros(len(names))
-    temp, t = temp0, 0.0
-    for k, (t, temp, heat) in enumerate(steps, start=1):
-        energy += heat
-        if k % save == 0 or k == n_steps:
-            record(t, temp)
-        if progress is not None:
-            progress(t, ts.duration)
+        record(0.0, temp0)
+        if model.active:
+            steps = evolve_enthalpy(
+                system, model, temp0, ts.step, n_steps, theta=ts.theta, method=method
+            )
+        else:
+            steps = evolve(system, temp0, ts.step, n_steps, theta=ts.theta, method=method)
+        energy = np.zeros(len(names))
+        temp, t = temp0, 0.0
+        for k, (t, temp, heat) in enumerate(steps, start=1):
+            energy += heat
+            if periodic is not None or hours is not None:
+                at_t = _at_phase(system, model, temp)
+                if periodic is not None:
+                    periodic.add(t, at_t.boundary_flows(temp, t))
+                if hours is not None:
+                    hours.add(at_t, temp, t, ts.step)
+            if k % save == 0 or k == n_steps:
+                record(t, temp)
+            if progress is not None:
+                progress(t, ts.duration)
+        change = float(np.max(np.abs(temp - temp0)))
+        if periodic is None or change < ts.periodic_tolerance or cycles >= ts.max_cycles:
+            break
+        log.debug("periodic cycle %d: largest change %.3g K", cycles, change)
+        temp0 = temp
     stored = float(np.sum(model.enthalpy(temp) - model.enthalpy(temp0)))
     balance = EnergyBalance(dict(zip(names, map(float, energy), strict=True)), stored)
     system = _at_phase(system, model, temp)
-    return _solution(case, mesh, system, temp, t, probe_op, balance, history)
+    solution = _solution(case, mesh, system, temp, t, probe_op, balance, history)
+    if periodic is not None:
+        periodic.cycles, periodic.change = cycles, change
+        solution.periodic = periodic
+    if hours is not None:
+        solution.condensation = hours
+    return solution
 
 
 def _steady(system: System, model: EnthalpyModel, method: Method) -> np.ndarray:

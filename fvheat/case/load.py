@@ -40,6 +40,7 @@ from fvheat.case.junction import check_junction_side_kinds, parse_junction
 from fvheat.case.model import (
     Boundary,
     Case,
+    Condensation,
     Material,
     MeshSettings,
     Phase,
@@ -644,9 +645,13 @@ def _signal(value: Any, path: str, ctx: Context, *, is_temperature: bool) -> Sig
 
 
 def _series(value: dict, path: str, ctx: Context, *, is_temperature: bool) -> Series:
-    tbl = table(value, path, allowed=("file", "column"), required=("file", "column"))
+    tbl = table(
+        value, path, allowed=("file", "column", "scale", "period"), required=("file", "column")
+    )
     fname = string(tbl, "file", path)
     column = string(tbl, "column", path)
+    scale = number(tbl, "scale", path, required=False, default=1.0)
+    period = number(tbl, "period", path, required=False, gt=0)
     csv_path = ctx.folder / fname
     header, rows = _read_csv(csv_path, fname, join(path, "file"), ctx)
     if column not in header:
@@ -674,9 +679,16 @@ def _series(value: dict, path: str, ctx: Context, *, is_temperature: bool) -> Se
                 f"{fname} line {line}: {values[k]:g} °C in column {column!r} is not above "
                 "absolute zero (-273.15 °C)",
             )
+    if period is not None and period <= times[-1] - times[0]:
+        raise Invalid(
+            join(path, "period"),
+            f"period = {period:g} s must exceed the table's span ({times[-1] - times[0]:g} s): "
+            "the last row is followed by the first row of the next period",
+        )
+    values = values * scale
     times.flags.writeable = False
     values.flags.writeable = False
-    return Series(times=times, values=values, source=str(csv_path), column=column)
+    return Series(times=times, values=values, source=str(csv_path), column=column, period=period)
 
 
 def _cell(cells: list[str], col: int, header: list[str], fname: str, line: int, path: str) -> float:
@@ -781,7 +793,16 @@ def _time(value: Any, ctx: Context) -> TimeSettings | None:
     tbl = table(
         value,
         path,
-        allowed=("duration", "step", "initial_temperature", "save_every", "scheme"),
+        allowed=(
+            "duration",
+            "step",
+            "initial_temperature",
+            "save_every",
+            "scheme",
+            "periodic",
+            "periodic_tolerance",
+            "max_cycles",
+        ),
         required=("duration", "step", "initial_temperature"),
     )
     duration = number(tbl, "duration", path, gt=0)
@@ -817,12 +838,77 @@ def _time(value: Any, ctx: Context) -> TimeSettings | None:
             f"(results are saved at time steps), e.g. {lower:g} or {lower + step:g}",
         )
     scheme = string(tbl, "scheme", path, required=False, default="backward_euler", choices=SCHEMES)
+    periodic = tbl.get("periodic", False)
+    if not isinstance(periodic, bool):
+        raise Invalid("time.periodic", f"expected true or false, got {describe(periodic)}")
+    max_cycles = number(tbl, "max_cycles", path, required=False, default=200, ge=1)
+    if max_cycles != int(max_cycles):
+        raise Invalid("time.max_cycles", f"expected a whole number, got {max_cycles:g}")
     return TimeSettings(
         duration=duration,
         step=step,
         initial_temperature=initial,
         save_every=save_every,
         scheme=scheme,
+        periodic=periodic,
+        periodic_tolerance=number(
+            tbl, "periodic_tolerance", path, required=False, default=1e-4, gt=0
+        ),
+        max_cycles=int(max_cycles),
+    )
+
+
+def _condensation(value: Any, ctx: Context) -> Condensation | None:
+    """``[condensation]``: surfaces to check, room air temperature and humidity (%)."""
+    if value is None:
+        return None
+    path = "condensation"
+    tbl = table(
+        value,
+        path,
+        allowed=("boundaries", "air_temperature", "relative_humidity", "mould_threshold"),
+        required=("boundaries", "relative_humidity"),
+    )
+    known = {b.name: b for b in ctx.parsed["boundaries"]}
+    names = tbl["boundaries"]
+    if isinstance(names, str):
+        names = [names]
+    if not isinstance(names, list) or not names or not all(isinstance(n, str) for n in names):
+        raise Invalid(
+            join(path, "boundaries"), f"expected a list of boundary names, got {describe(names)}"
+        )
+    for n in names:
+        if n not in known:
+            raise Invalid(
+                join(path, "boundaries"),
+                f"no boundary is called {n!r}; boundaries: {', '.join(known)}",
+            )
+    if "air_temperature" in tbl:
+        air = _signal(
+            tbl["air_temperature"], join(path, "air_temperature"), ctx, is_temperature=True
+        )
+    else:
+        air = known[names[0]].air_temperature or known[names[0]].temperature
+        if air is None:
+            raise Invalid(
+                join(path, "air_temperature"),
+                f"required: boundary {names[0]!r} has no air temperature to take the room's from",
+            )
+    rh = _signal(
+        tbl["relative_humidity"], join(path, "relative_humidity"), ctx, is_temperature=False
+    )
+    values = rh.values if isinstance(rh, Series) else np.array([rh.at(0.0)])
+    if isinstance(rh, Cosine):
+        values = np.array([rh.mean - abs(rh.amplitude), rh.mean + abs(rh.amplitude)])
+    if np.any(values <= 0) or np.any(values > 100):
+        raise Invalid(join(path, "relative_humidity"), "must stay within (0, 100] %")
+    return Condensation(
+        boundaries=tuple(names),
+        air_temperature=air,
+        relative_humidity=rh,
+        mould_threshold=number(
+            tbl, "mould_threshold", path, required=False, default=80.0, gt=0, le=100
+        ),
     )
 
 
@@ -834,6 +920,7 @@ register_section("boundaries", _boundaries)
 register_section("probes", _probes)
 register_section("time", _time)
 register_section("probe_lines", _probe_lines)
+register_section("condensation", _condensation)
 register_section("junction", parse_junction)
 register_check(check_junction_side_kinds)
 
@@ -866,7 +953,7 @@ def _series_cover_run(case: Case) -> None:
     for i, boundary in enumerate(case.boundaries):
         for key in ("air_temperature", "radiant_temperature", "temperature", "heat_flux"):
             sig = getattr(boundary, key)
-            if not isinstance(sig, Series):
+            if not isinstance(sig, Series) or sig.period is not None:
                 continue
             start, end = float(sig.times[0]), float(sig.times[-1])
             what = f"the series ({Path(sig.source).name}, column {sig.column!r})"

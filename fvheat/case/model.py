@@ -123,6 +123,17 @@ class ProbeLine:
     end: tuple[float, float]
 
 
+@dataclass(frozen=True)
+class Condensation:
+    """Condensation-risk hours on the surfaces of ``boundaries`` during a transient run: room
+    air at ``air_temperature`` (°C) and ``relative_humidity`` (%), mould threshold (%)."""
+
+    boundaries: tuple[str, ...]
+    air_temperature: Signal
+    relative_humidity: Signal
+    mould_threshold: float = 80.0
+
+
 Scheme = Literal["backward_euler", "crank_nicolson"]
 
 
@@ -131,7 +142,10 @@ class TimeSettings:
     """Transient run: ``duration``, ``step`` and ``save_every`` in s.
 
     ``initial_temperature`` is a value in °C or ``"steady"`` (the steady field of the
-    t = 0 conditions).
+    t = 0 conditions). With ``periodic`` the run repeats ``duration`` (one period of the
+    boundary conditions) until the largest cell-temperature change from one cycle to the
+    next is below ``periodic_tolerance`` (K), at most ``max_cycles`` times; results are
+    those of the last cycle.
     """
 
     duration: float
@@ -139,6 +153,9 @@ class TimeSettings:
     initial_temperature: float | Literal["steady"]
     save_every: float
     scheme: Scheme = "backward_euler"
+    periodic: bool = False
+    periodic_tolerance: float = 1e-4
+    max_cycles: int = 200
 
     @property
     def theta(self) -> float:
@@ -199,6 +216,7 @@ class Case:
     probes: tuple[Probe, ...] = ()
     time: TimeSettings | None = None
     probe_lines: tuple[ProbeLine, ...] = ()
+    condensation: Condensation | None = None
     junction: Junction | None = None
 
     @property

@@ -49,18 +49,31 @@ class Cosine:
 class Series:
     """A tabulated series ``(times, values)`` read from a CSV column, linearly interpolated.
 
-    ``times`` are strictly increasing seconds. Outside the table the end values are held;
-    the case loader rejects runs that extend beyond the table.
+    ``times`` are strictly increasing seconds. With ``period`` (s) the table repeats with
+    that period (a year of hourly weather looped over several years), interpolating across
+    the wrap from the last row to the first row of the next period. Without it, the end
+    values are held outside the table (the case loader rejects runs beyond the table).
+    ``values`` already include the case's ``scale`` factor.
     """
 
     times: np.ndarray = field(repr=False)
     values: np.ndarray = field(repr=False)
     source: str = ""
     column: str = ""
+    period: float | None = None
 
     def at(self, t: float | np.ndarray) -> float | np.ndarray:
         """Value at time ``t`` (s), linear interpolation between rows."""
-        out = np.interp(t, self.times, self.values)
+        if self.period is None:
+            out = np.interp(t, self.times, self.values)
+        else:
+            t0 = self.times[0]
+            local = t0 + np.mod(np.asarray(t, dtype=float) - t0, self.period)
+            out = np.interp(
+                local,
+                np.append(self.times, t0 + self.period),
+                np.append(self.values, self.values[0]),
+            )
         return float(out) if np.ndim(out) == 0 else out
 
     @property

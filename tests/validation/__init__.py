@@ -1,0 +1,1 @@
+"""Validation of fvheat against outside references (standards, textbooks, other libraries)."""
