@@ -14,28 +14,37 @@ def merge_close(values: np.ndarray, tol: float) -> np.ndarray:
     return v[keep]
 
 
+def size_function(
+    keys: np.ndarray, t: np.ndarray, max_cell: float, min_cell: float, growth: float
+) -> np.ndarray:
+    """Target cell size (m) at coordinates ``t``: h(t) = min(max_cell, min_j (a_j + s·|t − x_j|)).
+
+    Each key line x_j starts at a_j (``min_cell``, or less next to a shorter interval) and
+    sizes grow linearly away from it with slope s = ln(growth); taking the minimum over all
+    keys keeps the growth limit across neighbouring thin layers.
+    """
+    lengths = np.diff(keys)
+    left = np.concatenate([[np.inf], lengths])
+    right = np.concatenate([lengths, [np.inf]])
+    start = np.minimum(min_cell, np.minimum(left, right))
+    s = np.log(growth)
+    # With h = a + s·t and unit steps in ∫ dt/h, consecutive cells differ by exp(s) = growth;
+    # a = h0·s/(exp(s) − 1) makes the first cell h0.
+    a = start * s / np.expm1(s)
+    h = np.min(a[None, :] + s * np.abs(t[:, None] - keys[None, :]), axis=1)
+    return np.minimum(h, max_cell)
+
+
 def graded_lines(keys: np.ndarray, max_cell: float, min_cell: float, growth: float) -> np.ndarray:
     """Grid-line coordinates (m) containing every key coordinate.
 
-    Cells start at ``min_cell`` (or the length of a shorter neighbouring interval) at
-    each key line and grow away from it by at most about ``growth`` per cell, up to
-    ``max_cell``. Within an interval the target size is
-    h(t) = min(max_cell, a + ln(growth)·t), t the distance to the nearer key, and cells
-    are placed uniformly in the coordinate ∫ dt / h(t), which makes neighbour ratios
-    ``growth`` where the size is not capped.
+    Cells are placed uniformly in the coordinate ∫ dt / h(t) of :func:`size_function`,
+    integrated exactly on each linear piece between samples (samples cluster geometrically
+    towards the interval ends, where h is smallest), which makes neighbour ratios at most
+    about ``growth`` and no cell larger than ``max_cell``.
     """
     keys = np.asarray(keys, dtype=float)
     lengths = np.diff(keys)
-    # start size at each key: min_cell, but never larger than an adjacent interval
-    left = np.concatenate([[np.inf], lengths])
-    right = np.concatenate([lengths, [np.inf]])
-    h0 = np.minimum(min_cell, np.minimum(left, right))
-    # With h(t) = a + s·t and unit steps in ∫ dt/h, consecutive cells differ by the factor
-    # exp(s): s = ln(growth) gives exactly ``growth``, and a = h0·s/(exp(s) − 1) makes the
-    # first cell h0.
-    slope = np.log(growth)
-    h0 = h0 * slope / np.expm1(slope)
-
     pieces = [keys[:1]]
     for k, length in enumerate(lengths):
         if length <= min_cell:
@@ -45,23 +54,34 @@ def graded_lines(keys: np.ndarray, max_cell: float, min_cell: float, growth: flo
             n = int(np.ceil(length / max_cell - 1e-9))
             pieces.append(np.linspace(keys[k], keys[k + 1], n + 1)[1:])
             continue
-        # samples cluster geometrically towards both ends, where cells are smallest
-        g = np.geomspace(0.1 * min(h0[k], h0[k + 1]), length, _SAMPLES)
+        g = np.geomspace(1e-3 * min_cell, length, _SAMPLES)
         t = np.unique(np.concatenate([[0.0], g, length - g, [length]]).clip(0.0, length))
-        h = np.minimum.reduce(
-            [
-                np.full_like(t, max_cell),
-                h0[k] + slope * t,
-                h0[k + 1] + slope * (length - t),
-            ]
-        )
-        inv = 1.0 / h
-        cum = np.concatenate([[0.0], np.cumsum(0.5 * (inv[1:] + inv[:-1]) * np.diff(t))])
-        n = max(1, int(np.ceil(cum[-1] - 1e-6)))
-        # no cell may exceed max_cell even after rounding
-        n = max(n, int(np.ceil(length / max_cell - 1e-9)))
-        targets = np.linspace(0.0, cum[-1], n + 1)[1:]
-        inner = keys[k] + np.interp(targets, cum, t)
-        inner[-1] = keys[k + 1]
-        pieces.append(inner)
+        h = size_function(keys, keys[k] + t, max_cell, min_cell, growth)
+        cum = np.concatenate([[0.0], np.cumsum(_piece_integral(np.diff(t), h[:-1], h[1:]))])
+        n = max(1, int(np.ceil(cum[-1] - 1e-6)), int(np.ceil(length / max_cell - 1e-9)))
+        targets = np.linspace(0.0, cum[-1], n + 1)[1:-1]
+        pieces.append(keys[k] + _invert(targets, t, h, cum))
+        pieces.append(keys[k + 1 : k + 2])
     return np.concatenate(pieces)
+
+
+def _piece_integral(dt: np.ndarray, h0: np.ndarray, h1: np.ndarray) -> np.ndarray:
+    """∫ dt/h over pieces where h runs linearly from h0 to h1: dt·ln(h1/h0)/(h1 − h0)."""
+    dh = h1 - h0
+    flat = np.abs(dh) <= 1e-12 * h0
+    safe = np.where(flat, 1.0, dh)
+    return np.where(flat, dt / h0, dt * np.log(h1 / h0) / safe)
+
+
+def _invert(targets: np.ndarray, t: np.ndarray, h: np.ndarray, cum: np.ndarray) -> np.ndarray:
+    """Coordinates where the cumulative integral reaches ``targets`` (exact per linear piece)."""
+    i = np.clip(np.searchsorted(cum, targets, side="right") - 1, 0, t.size - 2)
+    dt = t[i + 1] - t[i]
+    slope = (h[i + 1] - h[i]) / dt
+    rem = targets - cum[i]
+    flat = np.abs(slope) <= 1e-12
+    # h(τ) = h_i + slope·τ;  ∫0^τ dτ/h = ln(1 + slope·τ/h_i)/slope = rem
+    tau = np.where(
+        flat, rem * h[i], h[i] * np.expm1(np.where(flat, 0.0, slope) * rem) / np.where(flat, 1.0, slope)
+    )
+    return t[i] + np.minimum(tau, dt)

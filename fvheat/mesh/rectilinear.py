@@ -166,9 +166,10 @@ def attach_boundaries(case: Case, mesh: Mesh) -> Mesh:
     """Mark the exterior faces lying on each boundary's segments (later boundaries win).
 
     On a grid-aligned segment a face belongs to it when its centre lies on the segment and
-    it is parallel to it. On a sloped segment the body's edge is stepped: faces whose centre
-    lies within half a cell diagonal of the segment belong to it, with ``b_exchange`` the
-    projection |n_face · n_segment| so the stepped faces sum to the segment's length.
+    it is parallel to it. On a sloped segment the body's edge is stepped: exterior faces
+    whose centre lies within half a cell diagonal of the segment and that look out on the
+    segment's outer side belong to it, with ``b_exchange`` their projection
+    |n_face · n_segment| scaled so the stepped faces sum to the segment's true length.
     """
     bid = mesh.b_boundary.copy()
     exch = mesh.b_exchange.copy()
@@ -197,8 +198,15 @@ def attach_boundaries(case: Case, mesh: Mesh) -> Mesh:
                 on = (off <= tol) & (along > tol) & (along < length - tol) & (proj > 0.5)
                 exch_e = np.ones_like(proj)
             else:
-                on = (off <= reach) & (along > -tol) & (along < length + tol) & (proj > 0.0)
-                exch_e = proj
+                near = (off <= reach) & (along > -tol) & (along < length + tol)
+                # keep the faces looking out on the side the staircase faces mostly look to
+                # (not those of a neighbouring straight edge at a shared corner), and scale
+                # their projections so the stepped faces sum to the true length
+                side = nrm @ n
+                outward = np.sign(np.sum(mesh.b_area[near] * side[near]))
+                on = near & (side * outward > 0.0)
+                total = float(np.sum(mesh.b_area[on] * proj[on]))
+                exch_e = proj * (length / total if total > 0 else 1.0)
             if not on.any():
                 raise CaseError(
                     f"segment {list(map(list, (p0, p1)))} lies on no exterior edge of the body "
