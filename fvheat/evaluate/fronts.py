@@ -19,8 +19,11 @@ SAMPLES = 401
 @dataclass(frozen=True)
 class FrontLines:
     """Precomputed operators: frozen area Σ V·(1 − f) over phase-change cells (m²) and, per
-    probe line, the distance (m) from its start to the first point where the interpolated
-    unfrozen fraction f crosses ½ (None when it does not)."""
+    probe line, the distances (m) from its start to the first (``front_<line>``) and the last
+    (``front_far_<line>``) point where the interpolated unfrozen fraction f crosses ½ (None
+    when it does not). On a line down from a frozen surface the first crossing is the frost
+    depth; once a thaw starts at the surface it is the thaw front and the last crossing is
+    the frost depth."""
 
     model: EnthalpyModel
     volumes: np.ndarray
@@ -53,19 +56,14 @@ class FrontLines:
             "frozen_area": float(np.sum(self.volumes[self.model.pcm] * (1.0 - f[self.model.pcm])))
         }
         for name, op, dist in zip(self.names, self.samplers, self.distances, strict=True):
-            out[f"front_{name}"] = _first_crossing(op @ f - 0.5, dist)
+            x = _crossings(op @ f - 0.5, dist)
+            out[f"front_{name}"] = float(x[0]) if x.size else None
+            out[f"front_far_{name}"] = float(x[-1]) if x.size else None
         return out
 
 
-def _first_crossing(g: np.ndarray, dist: np.ndarray) -> float | None:
-    """Distance where ``g`` first changes sign (linear interpolation), None if never."""
-    sign = np.sign(g)
-    k = np.flatnonzero(sign[:-1] * sign[1:] <= 0)
-    k = k[(g[k] != g[k + 1]) | (g[k] == 0)]
-    if k.size == 0:
-        return None
-    i = int(k[0])
-    if g[i] == g[i + 1]:
-        return float(dist[i])
-    w = g[i] / (g[i] - g[i + 1])
-    return float(dist[i] + w * (dist[i + 1] - dist[i]))
+def _crossings(g: np.ndarray, dist: np.ndarray) -> np.ndarray:
+    """Distances where ``g`` changes sign, linearly interpolated, in order along the line."""
+    k = np.flatnonzero(np.sign(g[:-1]) * np.sign(g[1:]) < 0)
+    w = g[k] / (g[k] - g[k + 1])
+    return dist[k] + w * (dist[k + 1] - dist[k])
