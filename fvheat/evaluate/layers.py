@@ -45,9 +45,10 @@ class CutError(ValueError):
 def layer_cut(case: Case, mesh: Mesh, cut: Segment) -> LayerCut:
     """Read the layers crossed by the axis-aligned segment ``cut`` (m).
 
-    The cut must lie inside one row (or column) of cells, not on a material interface, and
-    its ends must be on boundary faces whose boundaries are surface resistances (or
-    convection without radiation) or fixed temperatures (resistance 0).
+    The cut must lie inside one row (or column) of cells, or on a grid line with the same
+    layers and end conditions on both sides (a line the mesher put inside a layer), not on
+    a material interface; its ends must be on boundary faces whose boundaries are surface
+    resistances (or convection without radiation) or fixed temperatures (resistance 0).
     """
     g = mesh.grid
     if g is None:
@@ -60,12 +61,46 @@ def layer_cut(case: Case, mesh: Mesh, cut: Segment) -> LayerCut:
     else:
         raise CutError("a cut must be a horizontal or vertical segment of non-zero length")
     tol = 1e-9 * max(float(np.ptp(g.x)), float(np.ptp(g.y)), 1.0)
-    if np.any(np.abs(other - pos) <= tol):
-        raise CutError(
-            f"the cut runs along a grid line at {pos:g} m (a material edge); move it into a layer"
-        )
+    on_line = np.flatnonzero(np.abs(other - pos) <= tol)
+    if on_line.size:
+        # A grid line: acceptable only when the rows (columns) on both sides read the same
+        # layers, i.e. the line is one the mesher placed inside a layer, not a material edge.
+        k = int(on_line[0])
+        sides = []
+        for row in (k - 1, k):
+            try:
+                sides.append(_read(case, mesh, along, lines, row, lo, hi, tol, cut))
+            except CutError:
+                sides.append(None)
+        if sides[0] is None or sides[0] != sides[1]:
+            raise CutError(
+                f"the cut runs along a material edge (the grid line at {pos:g} m has different "
+                "layers or surfaces on its two sides); move it into a layer"
+            )
+        return sides[0]
     row = int(np.searchsorted(other, pos)) - 1
     if not 0 <= row < other.size - 1:
+        raise CutError("the cut lies outside the model")
+    return _read(case, mesh, along, lines, row, lo, hi, tol, cut)
+
+
+def _read(
+    case: Case,
+    mesh: Mesh,
+    along: int,
+    lines: np.ndarray,
+    row: int,
+    lo: float,
+    hi: float,
+    tol: float,
+    cut: Segment,
+) -> LayerCut:
+    """The layers of grid row (``along`` = 0) or column (``along`` = 1) ``row`` between the
+    grid lines at ``lo`` and ``hi`` (m), reported from the cut's first point."""
+    g = mesh.grid
+    assert g is not None
+    (x0, y0), (x1, y1) = cut
+    if not 0 <= row < (g.y.size if along == 0 else g.x.size) - 1:
         raise CutError("the cut lies outside the model")
     first, last = np.searchsorted(lines, [lo - tol, hi - tol])
     if (

@@ -1,0 +1,131 @@
+"""Temperature factor f_Rsi, the two-resistance run, dew point and surface humidity.
+
+1. For a plane wall, θ_si = θ_i − U·R_si·(θ_i − θ_e), so f_Rsi = 1 − U·R_si. Source:
+   ISO 13788 definition of f_Rsi with the 1-D layer sum of ISO 6946. Tolerance 1e-9
+   (finite volumes are exact for 1-D layers; round-off only).
+2. With ``condensation_resistance = 0.25`` (ISO 13788's R_si for surface temperatures),
+   f_Rsi comes from a second solve with R_si = 0.25: f_Rsi = 1 − U'·0.25 with
+   U' = 1/(0.25 + Σd/λ + R_se), while L2D and ψ come from the heat-loss solve with the
+   case's own R_si (0.13). Same source and tolerance.
+3. Dew point by the Magnus formula over water, p_sat = 611.2·exp(17.62·θ/(243.12 + θ)) Pa
+   (coefficients of the WMO Guide to Meteorological Instruments, 2008, Annex 4.B, from
+   memory). Hand value for 20 °C and 50 % RH: γ = ln 0.5 + 17.62·20/263.12
+   = −0.693147 + 1.339313 = 0.646166; θ_d = 243.12·0.646166/(17.62 − 0.646166)
+   = 157.0958/16.973834 = 9.2552 °C; tolerance 2e-4 K (hand rounding). Psychrometric
+   tables give 9.3 °C (common practice), checked within 0.1 K. Surface RH at θ_si is
+   φ·p_sat(θ_i)/p_sat(θ_si) (same formula), checked to 1e-12 against a re-computation,
+   and is 100 % at the dew point.
+"""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+
+from fvheat.evaluate.humidity import dew_point, surface_relative_humidity
+
+from .helpers import iso6946_u, materials_toml, num, regions_toml, seg, study, surface_toml
+
+T_IN, T_OUT = 20.0, -5.0
+R_SI, R_SE, R_COND = 0.13, 0.04, 0.25
+HEIGHT = 2.0
+
+# solid 215 mm brick wall, unplastered: poor enough to condense at 50 % RH
+BRICK = [("brick", 0.215, 0.77)]
+# the same with 100 mm of mineral wool outside and render
+INSULATED = [("brick", 0.215, 0.77), ("wool", 0.10, 0.035), ("render", 0.02, 1.0)]
+
+
+def wall_toml(layers, junction_extra: str = "") -> str:
+    regions, x = [], 0.0
+    for name, d, _ in layers:
+        regions.append((name, (x, 0.0, x + d, HEIGHT)))
+        x += d
+    return f"""
+title = "plane wall: surface temperatures"
+[mesh]
+max_cell = 0.05
+min_cell = 0.005
+{materials_toml({n: k for n, _, k in layers})}
+{regions_toml(regions)}
+{surface_toml("inside", [((0.0, 0.0), (0.0, HEIGHT))], T_IN, R_SI)}
+{surface_toml("outside", [((x, 0.0), (x, HEIGHT))], T_OUT, R_SE)}
+[junction]
+inside = ["inside"]
+outside = ["outside"]
+centre = [0.0, 0.0]
+{junction_extra}
+[[junction.flanking]]
+name = "wall"
+length = {num(HEIGHT)}
+cut = {seg(((0.0, 0.5), (x, 0.5)))}
+"""
+
+
+def _dl(layers):
+    return [(d, k) for _, d, k in layers]
+
+
+@pytest.mark.parametrize("layers", [BRICK, INSULATED], ids=["brick", "insulated"])
+def test_f_rsi_of_plane_wall(tmp_path, layers):
+    """f_Rsi = 1 − U·R_si (1e-9), from the heat-loss solve."""
+    j = study(tmp_path, wall_toml(layers)).junction
+    u = iso6946_u(_dl(layers), R_SI, R_SE)
+    assert j.f_rsi == pytest.approx(1.0 - u * R_SI, rel=1e-9)
+    assert j.theta_si_min == pytest.approx(T_IN - u * R_SI * (T_IN - T_OUT), rel=1e-9)
+    assert "heat-loss" in j.f_rsi_from
+
+
+@pytest.mark.parametrize("layers", [BRICK, INSULATED], ids=["brick", "insulated"])
+def test_two_resistance_run(tmp_path, layers):
+    """f_Rsi from the R_si = 0.25 solve (1 − U'·0.25), ψ and L2D from the R_si = 0.13 one."""
+    s = study(tmp_path, wall_toml(layers, f"condensation_resistance = {R_COND}"))
+    j = s.junction
+    u = iso6946_u(_dl(layers), R_SI, R_SE)
+    u_cond = iso6946_u(_dl(layers), R_COND, R_SE)
+    assert j.f_rsi == pytest.approx(1.0 - u_cond * R_COND, rel=1e-9)
+    assert "0.25" in j.f_rsi_from
+    # heat loss from the 0.13 solve: L2D = U·l, ψ = 0, the flanking U read with R_si 0.13
+    assert j.l2d == pytest.approx(u * HEIGHT, rel=1e-9)
+    assert j.flanking[0].u_value == pytest.approx(u, rel=1e-12)
+    assert abs(j.psi) < 1e-9
+    # the surface solve itself carries U'·l·Δθ
+    q_cond = s.surface_solution.surfaces["inside"].heat_flow
+    assert q_cond == pytest.approx(u_cond * HEIGHT * (T_IN - T_OUT), rel=1e-9)
+    assert s.solution.surfaces["inside"].heat_flow == pytest.approx(j.heat_flow, rel=1e-15)
+
+
+def _magnus(theta: float) -> float:
+    """Saturation pressure over water, Pa (WMO 2008 Magnus coefficients, from memory)."""
+    return 611.2 * math.exp(17.62 * theta / (243.12 + theta))
+
+
+def test_dew_point_hand_value():
+    """Magnus dew point of 20 °C / 50 % RH: hand value 9.2552 °C; tables 9.3 °C."""
+    td = dew_point(20.0, 0.5)
+    assert td == pytest.approx(9.2552, abs=2e-4)
+    assert td == pytest.approx(9.3, abs=0.1)
+    assert surface_relative_humidity(20.0, 0.5, td) == pytest.approx(1.0, rel=1e-12)
+    assert surface_relative_humidity(20.0, 0.5, 20.0) == pytest.approx(0.5, rel=1e-15)
+
+
+@pytest.mark.parametrize(
+    ("layers", "condenses", "mould"),
+    [(BRICK, True, True), (INSULATED, False, False)],
+    ids=["brick", "insulated"],
+)
+def test_junction_humidity_check(tmp_path, layers, condenses, mould):
+    """Dew point and surface RH of a junction at 50 % RH: the solid brick wall at
+    R_si = 0.25 has θ_si = 9.0 °C, below the 9.26 °C dew point (condensation, RH > 80 %);
+    the insulated one stays far above it."""
+    extra = f"condensation_resistance = {R_COND}\nindoor_humidity = 50\nf_rsi_limit = 0.75"
+    j = study(tmp_path, wall_toml(layers, extra)).junction
+    assert j.dew_point == pytest.approx(9.2552, abs=2e-4)
+    rh = 0.5 * _magnus(T_IN) / _magnus(j.theta_si_min)
+    assert j.surface_rh == pytest.approx(rh, rel=1e-12)
+    d = j.as_dict()
+    assert d["condensation_at_theta_si_min"] is condenses
+    assert d["mould_risk_rh_80"] is mould
+    assert d["f_Rsi_pass"] is (not condenses)
+    assert d["surface_rh_at_theta_si_min"] == j.surface_rh
