@@ -61,13 +61,13 @@ class Study:
 
 
 def surface_case(case: Case) -> Case:
-    """The case with the junction's inside boundaries at the condensation surface resistance."""
+    """The case with the junction's inside boundaries at their condensation surface resistances."""
     j = case.junction
     assert j is not None and j.condensation_resistance is not None
-    h = 1.0 / j.condensation_resistance
+    r = j.condensation_resistance
     bounds = tuple(
-        replace(b, convection=h, resistance=j.condensation_resistance, emissivity=0.0)
-        if b.name in j.inside and b.kind == "surface"
+        replace(b, convection=1.0 / r[b.name], resistance=r[b.name], emissivity=0.0)
+        if b.name in r and b.kind == "surface"
         else b
         for b in case.boundaries
     )
@@ -96,14 +96,16 @@ def run_study(
     mesh: Mesh | None = None,
     progress: Progress | None = None,
     check_grid: bool | None = None,
+    keep_fields: bool = True,
 ) -> Study:
     """Solve ``case`` and, if it declares a junction, everything the junction needs.
 
     ``check_grid`` overrides the case's ``junction.grid_check`` (None: as the case says; a
-    case without a junction is grid-checked only when asked).
+    case without a junction is grid-checked only when asked). ``keep_fields``: keep the cell
+    field of every saved time of a transient run (only field outputs need them).
     """
     mesh = mesh if mesh is not None else build_mesh(case)
-    solution = simulate(case, mesh=mesh, progress=progress)
+    solution = simulate(case, mesh=mesh, progress=progress, keep_fields=keep_fields)
     study = Study(solution)
     j = case.junction
     want_grid = check_grid if check_grid is not None else (j is not None and j.grid_check)

@@ -51,6 +51,7 @@ from fvheat.case.model import (
 )
 from fvheat.case.overrides import apply_overrides
 from fvheat.case.signals import Constant, Cosine, Series, Signal
+from fvheat.case.solver import parse_solver
 from fvheat.errors import CaseError
 from fvheat.properties.cavity import cavity_dimensions, equivalent_conductivity
 from fvheat.properties.library import LibraryMaterial, UnknownMaterialError, lookup
@@ -174,14 +175,13 @@ _MATERIAL_KEYS = (
 
 
 def _materials(value: Any, ctx: Context) -> dict[str, Material]:
+    """``[materials.NAME]`` tables; optional when regions use library names only."""
     if value is None:
-        raise Invalid("materials", "required: at least one [materials.NAME] table")
+        return {}
     if not isinstance(value, dict):
         raise Invalid(
             "materials", f"expected a table of [materials.NAME] tables, got {describe(value)}"
         )
-    if not value:
-        raise Invalid("materials", "define at least one material as [materials.NAME]")
     seen: dict[str, str] = {}
     return {key: _material(key, spec, seen) for key, spec in value.items()}
 
@@ -922,6 +922,7 @@ register_section("time", _time)
 register_section("probe_lines", _probe_lines)
 register_section("condensation", _condensation)
 register_section("junction", parse_junction)
+register_section("solver", parse_solver)
 register_check(check_junction_side_kinds)
 
 

@@ -184,9 +184,10 @@ class Junction:
     """Thermal-bridge evaluation (ISO 10211): warm-side and cold-side boundaries, flanking
     elements, the dimension system of their lengths, and the surface-temperature checks.
 
-    ``condensation_resistance`` (m²·K/W), when given, is the inside surface resistance of a
-    second solve used for f_Rsi and θ_si,min (ISO 13788 uses 0.25); ``f_rsi_limit`` is the
-    pass/fail criterion; ``indoor_humidity`` (0–1) enables the dew-point check;
+    ``condensation_resistance`` (m²·K/W per inside boundary name), when given, holds the
+    inside surface resistances of a second solve used for f_Rsi and θ_si,min (ISO 13788
+    uses 0.25 on opaque surfaces, 0.13 on glazing and frames; from memory); ``f_rsi_limit`` is the
+    pass/fail criterion, applied to the ``f_rsi_boundaries`` (default: all inside ones); ``indoor_humidity`` (0–1) enables the dew-point check;
     ``frame_width`` (m) turns the ψ of a frame section with an insulating panel into U_f
     (ISO 10077-2); ``centre`` (m) locates the junction for the cut-off-plane check.
     """
@@ -195,12 +196,34 @@ class Junction:
     outside: tuple[str, ...]
     flanking: tuple[Flanking, ...] = ()
     dimensions: Dimensions = "internal"
-    condensation_resistance: float | None = None
+    condensation_resistance: dict[str, float] | None = None
     f_rsi_limit: float | None = None
+    f_rsi_boundaries: tuple[str, ...] | None = None
     indoor_humidity: float | None = None
     frame_width: float | None = None
     centre: tuple[float, float] | None = None
     grid_check: bool = False
+
+
+SolverMethod = Literal["auto", "direct", "amg"]
+
+
+@dataclass(frozen=True)
+class SolverSettings:
+    """Linear-solver choice, the ``[solver]`` table (see :mod:`fvheat.solve.linear`).
+
+    ``method``: ``"direct"`` (sparse LU factorisation), ``"amg"`` (conjugate gradients with
+    an algebraic-multigrid preconditioner) or ``"auto"``: AMG-CG for a steady solve of more
+    than ``amg_above`` cells or a time-stepping matrix of more than ``transient_amg_above``
+    cells, the factorisation otherwise. ``tolerance``: relative residual at which AMG-CG
+    stops; ``max_iterations``: its iteration limit per solve.
+    """
+
+    method: SolverMethod = "auto"
+    tolerance: float = 1e-10
+    max_iterations: int = 200
+    amg_above: int = 50_000
+    transient_amg_above: int = 2_000_000
 
 
 @dataclass(frozen=True)
@@ -218,6 +241,7 @@ class Case:
     probe_lines: tuple[ProbeLine, ...] = ()
     condensation: Condensation | None = None
     junction: Junction | None = None
+    solver: SolverSettings = field(default_factory=SolverSettings)
 
     @property
     def transient(self) -> bool:

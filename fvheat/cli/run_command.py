@@ -26,6 +26,7 @@ def run_case(
     quiet: bool,
     as_json: bool,
     grid_check: bool | None = None,
+    plots: bool = True,
 ) -> Study:
     """Validate (before anything is written), solve, write the outputs, print results."""
     from fvheat.output.summary import build_summary, write_summary
@@ -47,6 +48,9 @@ def run_case(
     write_summary(out / "summary.json", summary)
     if case.transient:
         write_timeseries(out / "timeseries.csv", study.solution)
+    from fvheat.output.folder import write_outputs
+
+    write_outputs(study, out, plots=plots)
     if as_json:
         sys.stdout.write(json.dumps(summary, indent=2) + "\n")
     elif not quiet:
@@ -152,7 +156,7 @@ def _junction_table(study: Study):
         t.add_row("U_f", f"{j.u_f:.3f} W/(m²·K)")
     verdict = "" if j.f_rsi_pass is None else (" pass" if j.f_rsi_pass else " FAIL")
     limit = "" if j.f_rsi_limit is None else f" (limit {j.f_rsi_limit:g}){verdict}"
-    t.add_row("f_Rsi", f"{j.f_rsi:.3f}{limit}")
+    t.add_row("f_Rsi", f"{j.f_rsi:.4f}{limit}")
     t.add_row(
         "θ_si,min",
         f"{j.theta_si_min:.2f} °C at ({j.theta_si_min_at[0]:.3f}, {j.theta_si_min_at[1]:.3f}) m",

@@ -165,11 +165,13 @@ def evaluate_junction(
     psi = l2d - sum(f.u_value * f.length for f in flanks)
 
     src = surface if surface is not None else heat_loss
-    coldest = min(j.inside, key=lambda n: src.surfaces[n].min_temperature)
+    coldest = min(j.f_rsi_boundaries or j.inside, key=lambda n: src.surfaces[n].min_temperature)
     theta_si = src.surfaces[coldest].min_temperature
     f_rsi = (theta_si - theta_e) / dtheta
     f_from = (
-        f"surface-temperature solve with R_si = {j.condensation_resistance:g} m²·K/W"
+        "surface-temperature solve with R_si = "
+        + ", ".join(f"{r:g} ({n})" for n, r in (j.condensation_resistance or {}).items())
+        + " m²·K/W"
         if surface is not None
         else "heat-loss solve (inside surface resistances as given)"
     )
@@ -197,8 +199,8 @@ def evaluate_junction(
     other = abs(phi + phi_out) / max(abs(phi), 1e-300)
     if other > 1e-6:
         result.warnings.append(
-            f"{100 * other:.2g} % of the warm-side heat flow leaves through boundaries other "
-            "than the cold side; L2D counts only the warm side"
+            f"the warm-side and cold-side heat flows differ by {100 * other:.2g} %: heat also "
+            "crosses boundaries of neither side; L2D counts only the warm side"
         )
     return result
 
@@ -208,6 +210,8 @@ def cutoff_warnings(case: Case, solution: Solution, flanks: list[FlankingResult]
     distance (from memory: the larger of 1 m and three times the flanking thickness)."""
     j = case.junction
     assert j is not None
+    if j.frame_width is not None:
+        return _frame_panel_warnings(j, flanks)
     if j.centre is None:
         return ["cut-off plane distances not checked: give junction.centre = [x, y]"]
     thick = [f.thickness for f in j.flanking if f.thickness is not None]
@@ -226,3 +230,18 @@ def cutoff_warnings(case: Case, solution: Solution, flanks: list[FlankingResult]
             f"junction centre, less than the {need:.2f} m ISO 10211 asks for; ψ may be biased"
         ]
     return []
+
+
+#: ISO 10077-2 (from memory): the insulating panel must show at least 190 mm beyond the frame
+MIN_PANEL_WIDTH = 0.19
+
+
+def _frame_panel_warnings(j: Junction, flanks: list[FlankingResult]) -> list[str]:
+    """Frame sections follow ISO 10077-2's geometry rule instead of ISO 10211's cut-off
+    distances: the visible panel width (the flanking length) must be at least 190 mm."""
+    return [
+        f"flanking element {f.name!r} is {1000 * f.length:.0f} mm wide; ISO 10077-2 asks for a "
+        f"visible panel width of at least {1000 * MIN_PANEL_WIDTH:.0f} mm"
+        for f in flanks
+        if f.length < MIN_PANEL_WIDTH - 1e-9
+    ]

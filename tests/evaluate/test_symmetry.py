@@ -24,7 +24,7 @@ BOXES = [
     ("floor_ins", (-1.2, 0.2, 0.0, 0.23)),
     ("screed", (-1.2, 0.23, 0.0, 0.28)),
 ]
-# a 1:1.6 chamfer; a 45° one puts cell centres exactly on the sloped edge, see the xfail below
+# a 1:1.6 chamfer; a 45° one puts cell centres exactly on the sloped edge (tested below)
 UPSTAND = [(1.25, 0.2), (1.4, 0.2), (1.4, 0.5), (1.3, 0.5), (1.25, 0.42)]
 CAVITY = (0.24, 0.05, 0.3, 0.15)  # a closed air void in the slab inside the wool plane
 INSIDE = [
@@ -114,12 +114,6 @@ def test_mirrored_junction_same_results(tmp_path):
     assert ja.psi > 0.3
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="known: points_in_polygon's even-odd ray test counts a cell centre lying exactly "
-    "on a sloped edge as inside on right-facing edges and outside on left-facing ones, so a "
-    "45° chamfer paints differently once mirrored",
-)
 def test_mirrored_45_degree_chamfer_paints_the_same(tmp_path):
     """The painted cells of a 45° chamfer mirror too (same cell count)."""
     chamfer = [(1.25, 0.2), (1.4, 0.2), (1.4, 0.5), (1.3, 0.5), (1.25, 0.45)]

@@ -1,0 +1,121 @@
+"""Reading a results folder written by ``fvheat run``: summary, inputs, fields, time series.
+
+Plots and the report are drawn from the folder, so ``fvheat plot DIR`` and
+``fvheat report DIR`` reproduce what the run wrote.
+"""
+
+from __future__ import annotations
+
+import csv
+import json
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+from fvheat.errors import CaseError
+from fvheat.output.fields import FIELDS_DIR, META_FILE, read_field
+from fvheat.output.inputs import INPUTS_FILE
+from fvheat.output.view import FieldView
+
+SUMMARY_FILE = "summary.json"
+TIMESERIES_FILE = "timeseries.csv"
+FIGURES_DIR = "figures"
+
+
+@dataclass(frozen=True)
+class TimeSeries:
+    """Saved times (s), probe temperatures (°C) and boundary heat flows (W/m) by name."""
+
+    times: np.ndarray
+    probes: dict[str, np.ndarray]
+    flows: dict[str, np.ndarray]
+
+
+@dataclass
+class ResultsFolder:
+    """A results folder and its ``summary.json``; other files are read on demand."""
+
+    path: Path
+    summary: dict[str, Any]
+    _meta: dict[str, Any] | None = field(default=None, repr=False)
+
+    @classmethod
+    def open(cls, path: str | Path) -> ResultsFolder:
+        """Open ``path``; :class:`CaseError` when it holds no readable ``summary.json``."""
+        path = Path(path)
+        f = path / SUMMARY_FILE
+        if not f.is_file():
+            raise CaseError(
+                "no summary.json here; give the folder `fvheat run CASE --out DIR` wrote",
+                file=str(path),
+            )
+        try:
+            summary = json.loads(f.read_text(encoding="utf-8"))
+        except (OSError, ValueError) as err:
+            raise CaseError(f"cannot read it: {err}", file=str(f)) from None
+        if not isinstance(summary, dict) or "boundaries" not in summary:
+            raise CaseError("not an fvheat summary (no 'boundaries')", file=str(f))
+        return cls(path, summary)
+
+    @property
+    def title(self) -> str:
+        return str(self.summary.get("title", ""))
+
+    @property
+    def transient(self) -> bool:
+        return self.summary.get("mode") == "transient"
+
+    def inputs(self) -> dict[str, Any] | None:
+        """``inputs.json``, or None when the folder has none."""
+        f = self.path / INPUTS_FILE
+        if not f.is_file():
+            return None
+        return json.loads(f.read_text(encoding="utf-8"))
+
+    @property
+    def has_fields(self) -> bool:
+        return (self.path / FIELDS_DIR / META_FILE).is_file()
+
+    def field_meta(self) -> dict[str, Any]:
+        """The field index (grid lines, names, files); CaseError when missing."""
+        if self._meta is None:
+            f = self.path / FIELDS_DIR / META_FILE
+            if not f.is_file():
+                raise CaseError(
+                    "no field files (fields/fields.json); run the case again to write them",
+                    file=str(self.path),
+                )
+            self._meta = json.loads(f.read_text(encoding="utf-8"))
+        return self._meta
+
+    def field_times(self) -> list[float]:
+        """Times (s) of the saved fields."""
+        return [float(e["time_s"]) for e in self.field_meta()["files"]]
+
+    def field(self, index: int = -1) -> FieldView:
+        """Saved field number ``index`` (default: the last one, i.e. the end time)."""
+        return read_field(self.path, index, self.field_meta())
+
+    def timeseries(self) -> TimeSeries | None:
+        """``timeseries.csv`` split into probes and boundaries, or None when absent."""
+        f = self.path / TIMESERIES_FILE
+        if not f.is_file():
+            return None
+        with f.open(newline="", encoding="utf-8") as fh:
+            rows = list(csv.reader(fh))
+        # an empty cell is a value that does not exist at that time (e.g. no front yet)
+        values = [[v if v else "nan" for v in row] for row in rows[1:]]
+        header, data = rows[0], np.array(values, dtype=float).reshape(-1, len(rows[0]))
+        probes = {
+            h.removeprefix("temperature_"): data[:, k]
+            for k, h in enumerate(header)
+            if h.startswith("temperature_")
+        }
+        flows = {
+            h.removeprefix("heat_flow_"): data[:, k]
+            for k, h in enumerate(header)
+            if h.startswith("heat_flow_")
+        }
+        return TimeSeries(data[:, header.index("time_s")], probes, flows)
