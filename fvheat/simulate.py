@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import logging
 from collections.abc import Callable
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 import scipy.sparse as sp
@@ -20,7 +20,7 @@ from fvheat.evaluate.probes import probe_operator
 from fvheat.evaluate.surfaces import SurfaceResult, surface_results
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.rectilinear import build_mesh
-from fvheat.solve.linear import Method
+from fvheat.solve.linear import Method, SolverChoice
 from fvheat.solve.phase_change import evolve_enthalpy, solve_steady_phase
 from fvheat.solve.steady import solve_steady
 from fvheat.solve.transient import evolve
@@ -71,7 +71,11 @@ def simulate(
     progress: Progress | None = None,
     keep_fields: bool = True,
 ) -> Solution:
-    """Solve ``case`` (steady, or transient when it has ``[time]``)."""
+    """Solve ``case`` (steady, or transient when it has ``[time]``).
+
+    ``method`` other than ``"auto"`` overrides the method of the case's ``[solver]`` table.
+    """
+    solver = case.solver if method == "auto" else replace(case.solver, method=method)
     mesh = mesh if mesh is not None else build_mesh(case)
     system = System.build(case, mesh)
     model = EnthalpyModel.build(case, mesh)
@@ -79,13 +83,13 @@ def simulate(
     names = [b.name for b in case.boundaries]
 
     if case.time is None:
-        temp = _steady(system, model, method)
+        temp = _steady(system, model, solver)
         system = _at_phase(system, model, temp)
         flows = system.boundary_flows(temp, 0.0)
         balance = EnergyBalance(dict(zip(names, map(float, flows), strict=True)), 0.0)
         return _solution(case, mesh, system, temp, 0.0, probe_op, balance, None)
 
-    return _transient(case, mesh, system, model, probe_op, method, progress, keep_fields)
+    return _transient(case, mesh, system, model, probe_op, solver, progress, keep_fields)
 
 
 def _transient(
@@ -94,7 +98,7 @@ def _transient(
     system: System,
     model: EnthalpyModel,
     probe_op: sp.csr_matrix,
-    method: Method,
+    method: SolverChoice,
     progress: Progress | None,
     keep_fields: bool,
 ) -> Solution:
@@ -162,7 +166,7 @@ def _transient(
     return solution
 
 
-def _steady(system: System, model: EnthalpyModel, method: Method) -> np.ndarray:
+def _steady(system: System, model: EnthalpyModel, method: SolverChoice) -> np.ndarray:
     """Steady field, iterating on phase-dependent conductivity when there is one."""
     temp = solve_steady(system, 0.0, method=method)
     if model.variable_conductivity:

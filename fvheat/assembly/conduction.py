@@ -17,17 +17,25 @@ def face_conductance(mesh: Mesh, k: np.ndarray) -> np.ndarray:
     return mesh.face_area / (mesh.d_owner / k[mesh.owner] + mesh.d_neighbour / k[mesh.neighbour])
 
 
-def conduction_matrix(mesh: Mesh, g: np.ndarray) -> sp.csr_matrix:
-    """Symmetric matrix K (W/(m·K)) with (K·T)_i = Σ_faces G (T_i − T_j): heat leaving cell i.
+def conduction_matrix(
+    mesh: Mesh, g: np.ndarray, diagonal: np.ndarray | None = None
+) -> sp.csr_matrix:
+    """Symmetric matrix K (W/(m·K)) with (K·T)_i = Σ_faces G (T_i − T_j): heat leaving cell i,
+    plus ``diagonal`` (W/(m·K) per cell, e.g. the linear surface terms) when given.
 
-    Assembled in one COO pass from the face arrays.
+    One COO pass from the face arrays: the off-diagonal −G of both triangles and the
+    diagonal summed per cell beforehand (2·faces + cells entries, no duplicates to merge).
     """
     n = mesh.n_cells
     o, nb = mesh.owner, mesh.neighbour
-    rows = np.concatenate([o, nb, o, nb])
-    cols = np.concatenate([o, nb, nb, o])
-    vals = np.concatenate([g, g, -g, -g])
-    return sp.coo_matrix((vals, (rows, cols)), shape=(n, n)).tocsr()
+    diag = np.bincount(o, weights=g, minlength=n) + np.bincount(nb, weights=g, minlength=n)
+    if diagonal is not None:
+        diag += diagonal
+    cells = np.arange(n, dtype=o.dtype)
+    rows = np.concatenate([nb, cells, o])
+    cols = np.concatenate([o, cells, nb])
+    vals = np.concatenate([-g, diag, -g])
+    return sp.csr_matrix((vals, (rows, cols)), shape=(n, n))
 
 
 def face_flux(mesh: Mesh, g: np.ndarray, t: np.ndarray) -> np.ndarray:

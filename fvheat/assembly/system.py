@@ -73,5 +73,5 @@ def _operators(
     """Face conductances, the matrix M and the surface terms for conductivities ``k``."""
     g = face_conductance(mesh, k)
     surface = SurfaceTerms.build(mesh, boundaries, k)
-    m = conduction_matrix(mesh, g) + sp.diags(surface.diagonal(mesh.n_cells))
-    return g, m.tocsr(), surface
+    m = conduction_matrix(mesh, g, surface.diagonal(mesh.n_cells))
+    return g, m, surface

@@ -186,8 +186,9 @@ class Junction:
 
     ``condensation_resistance`` (m²·K/W per inside boundary name), when given, holds the
     inside surface resistances of a second solve used for f_Rsi and θ_si,min (ISO 13788
-    uses 0.25 on opaque surfaces, 0.13 on glazing and frames; from memory); ``f_rsi_limit`` is the
-    pass/fail criterion, applied to the ``f_rsi_boundaries`` (default: all inside ones); ``indoor_humidity`` (0–1) enables the dew-point check;
+    uses 0.25 on opaque surfaces, 0.13 on glazing and frames; from memory);
+    ``f_rsi_limit`` is the pass/fail criterion, applied over the ``f_rsi_boundaries``
+    (default: all inside ones); ``indoor_humidity`` (0–1) enables the dew-point check;
     ``frame_width`` (m) turns the ψ of a frame section with an insulating panel into U_f
     (ISO 10077-2); ``centre`` (m) locates the junction for the cut-off-plane check.
     """

@@ -56,11 +56,23 @@ def run(
             show_default=False,
         ),
     ] = None,
+    no_plots: Annotated[
+        bool, typer.Option("--no-plots", help="Skip the figures (the slowest output).")
+    ] = False,
 ) -> None:
-    """Solve a case and write summary.json (and timeseries.csv when transient) to OUT."""
+    """Solve a case; write summary.json, timeseries.csv (transient), fields, cells.csv,
+    figures and report.html to OUT."""
     from fvheat.cli.run_command import run_case
 
-    run_case(case_file, out, tuple(set_ or ()), quiet=quiet, as_json=as_json, grid_check=grid_check)
+    run_case(
+        case_file,
+        out,
+        tuple(set_ or ()),
+        quiet=quiet,
+        as_json=as_json,
+        grid_check=grid_check,
+        plots=not no_plots,
+    )
 
 
 @app.command()
@@ -79,10 +91,163 @@ def materials() -> None:
     print_library()
 
 
+ResultsArg = Annotated[
+    Path, typer.Argument(help="Results folder written by `fvheat run`.", show_default=False)
+]
+
+
+@app.command()
+def plot(
+    folder: ResultsArg,
+    range_: Annotated[
+        tuple[float, float] | None,
+        typer.Option("--range", help="Temperature colour range LO HI (°C).", show_default=False),
+    ] = None,
+    zoom: Annotated[
+        tuple[float, float, float, float] | None,
+        typer.Option("--zoom", help="Window X0 Y0 X1 Y1 (m).", show_default=False),
+    ] = None,
+    quiet: QuietOpt = False,
+) -> None:
+    """Redraw the figures of a results folder into FOLDER/figures."""
+    from fvheat.cli.plot_command import plot_folder
+
+    plot_folder(folder, range_, zoom, quiet=quiet)
+
+
+@app.command()
+def report(folder: ResultsArg, quiet: QuietOpt = False) -> None:
+    """Rebuild report.html and report.md of a results folder."""
+    from fvheat.cli.report_command import report_folder
+
+    report_folder(folder, quiet=quiet)
+
+
+@app.command()
+def sweep(
+    case_file: CaseArg,
+    vary: Annotated[
+        list[str] | None,
+        typer.Option(
+            "--vary",
+            help="Vary a case key: dotted.path=v1,v2,... (repeatable).",
+            show_default=False,
+        ),
+    ] = None,
+    variants: Annotated[
+        Path | None,
+        typer.Option(
+            "--variants", help="Variants file (.csv or .toml), one per row.", show_default=False
+        ),
+    ] = None,
+    zip_: Annotated[
+        bool, typer.Option("--zip", help="Pair the --vary lists instead of the full grid.")
+    ] = False,
+    set_: SetOpt = None,
+    jobs: Annotated[
+        int | None,
+        typer.Option("--jobs", "-j", help="Worker processes [default: cores].", show_default=False),
+    ] = None,
+    out: Annotated[
+        Path | None,
+        typer.Option(
+            "--out", "-o", help="Sweep folder [default: CASE-STEM_sweep].", show_default=False
+        ),
+    ] = None,
+    table: Annotated[
+        Path | None,
+        typer.Option("--table", help="Also write the sweep's table as CSV.", show_default=False),
+    ] = None,
+    retry_failed: Annotated[
+        bool, typer.Option("--retry-failed", help="Run failed variants again.")
+    ] = False,
+    plots: Annotated[
+        bool, typer.Option("--plots", help="Also draw every variant's figures (slow).")
+    ] = False,
+    scheduler: Annotated[
+        str | None,
+        typer.Option(
+            "--scheduler", help="Run on a Dask cluster at this address.", show_default=False
+        ),
+    ] = None,
+    quiet: QuietOpt = False,
+) -> int:
+    """Run many variants of a case in parallel into OUT/sweep.sqlite; rerun to resume."""
+    from fvheat.cli.sweep_command import sweep_case
+
+    return sweep_case(
+        case_file,
+        vary or [],
+        variants,
+        zipped=zip_,
+        fixed=tuple(set_ or ()),
+        jobs=jobs,
+        out=out,
+        table=table,
+        retry_failed=retry_failed,
+        plots=plots,
+        scheduler=scheduler,
+        quiet=quiet,
+    )
+
+
+@app.command()
+def collect(
+    sources: Annotated[
+        list[Path],
+        typer.Argument(
+            help="Run folders, sweep folders or sweep.sqlite files.", show_default=False
+        ),
+    ],
+    csv_file: Annotated[
+        Path | None,
+        typer.Option(
+            "--csv", help="Write the table here instead of printing it.", show_default=False
+        ),
+    ] = None,
+    quiet: QuietOpt = False,
+) -> None:
+    """Gather many runs' summaries (or a sweep's results) into one CSV table."""
+    from fvheat.cli.collect_command import collect_runs
+
+    collect_runs(sources, csv_file, quiet=quiet)
+
+
+@app.command("sweep-plot")
+def sweep_plot(
+    folder: Annotated[
+        Path, typer.Argument(help="Sweep folder or its sweep.sqlite.", show_default=False)
+    ],
+    x: Annotated[str, typer.Option("--x", help="Varied key on the x axis.", show_default=False)],
+    y: Annotated[
+        str, typer.Option("--y", help="Result on the y axis, e.g. psi.", show_default=False)
+    ],
+    series: Annotated[
+        str | None,
+        typer.Option("--series", help="Varied key: one line per value.", show_default=False),
+    ] = None,
+    where: Annotated[
+        list[str] | None,
+        typer.Option("--where", help="Keep rows with key=value (repeatable).", show_default=False),
+    ] = None,
+    out: Annotated[
+        Path | None,
+        typer.Option(
+            "--out", "-o", help="PNG file [default: in the sweep folder].", show_default=False
+        ),
+    ] = None,
+    quiet: QuietOpt = False,
+) -> None:
+    """Plot a sweep result against a varied parameter, one line per value of another."""
+    from fvheat.cli.sweep_plot_command import plot_sweep
+
+    plot_sweep(folder, x, y, series, where or [], out, quiet=quiet)
+
+
 def main(argv: list[str] | None = None) -> int:
     """Entry point: run the app and map fvheat errors to exit codes and one-line messages."""
     try:
-        app(args=argv, prog_name="fvheat", standalone_mode=False)
+        code = app(args=argv, prog_name="fvheat", standalone_mode=False)
     except CaseError as err:
         print(f"fvheat: error: {err}", file=sys.stderr)
         return 2
@@ -101,7 +266,9 @@ def main(argv: list[str] | None = None) -> int:
         if isinstance(err, click.exceptions.Exit):
             return err.exit_code
         raise
-    return 0
+    return (
+        code if isinstance(code, int) and not isinstance(code, bool) else 0
+    )  # sweep: 1 if any failed
 
 
 if __name__ == "__main__":

@@ -81,7 +81,6 @@ def _invert(targets: np.ndarray, t: np.ndarray, h: np.ndarray, cum: np.ndarray) 
     rem = targets - cum[i]
     flat = np.abs(slope) <= 1e-12
     # h(τ) = h_i + slope·τ;  ∫0^τ dτ/h = ln(1 + slope·τ/h_i)/slope = rem
-    tau = np.where(
-        flat, rem * h[i], h[i] * np.expm1(np.where(flat, 0.0, slope) * rem) / np.where(flat, 1.0, slope)
-    )
+    s = np.where(flat, 1.0, slope)
+    tau = np.where(flat, rem * h[i], h[i] * np.expm1(np.where(flat, 0.0, slope) * rem) / s)
     return t[i] + np.minimum(tau, dt)

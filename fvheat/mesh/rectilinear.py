@@ -84,82 +84,98 @@ def faces_from_grid(
 ) -> Mesh:
     """Build the face arrays of a rectilinear grid whose cells carry material ``mat``.
 
-    Boundary faces come out adiabatic (``b_boundary`` = −1); see :func:`attach_boundaries`.
+    Cells are numbered row by row (y outer, x inner). Interior faces come first on the
+    vertical grid lines (owner left of neighbour), then on the horizontal ones (owner
+    below). Boundary faces come out adiabatic (``b_boundary`` = −1); see
+    :func:`attach_boundaries`. Work is O(cells), gathers over index arrays only.
     """
     active = mat >= 0
+    n = int(np.count_nonzero(active))
     index = np.full(mat.shape, -1, dtype=np.int64)
-    index[active] = np.arange(int(active.sum()))
+    index[active] = np.arange(n)
     dx, dy = np.diff(x), np.diff(y)
     xc, yc = 0.5 * (x[1:] + x[:-1]), 0.5 * (y[1:] + y[:-1])
-    DX, DY = np.meshgrid(dx, dy)
-    XC, YC = np.meshgrid(xc, yc)
+    rows, cols = np.nonzero(active)  # row-major, the order of the cell numbers
+    centres = np.column_stack([xc[cols], yc[rows]])
+    volumes = dx[cols] * dy[rows]
 
-    centres = np.column_stack([XC[active], YC[active]])
-    volumes = (DX * DY)[active]
+    # axis 0: vertical line x[i] between columns i − 1 (a) and i (b) of cell row j;
+    # axis 1: horizontal line y[j] between rows j − 1 (a) and j (b) of cell column i
+    half_x = 0.5 * np.concatenate([[0.0], dx, [0.0]])  # padded: cell column c at c + 1
+    half_y = 0.5 * np.concatenate([[0.0], dy, [0.0]])
 
-    # Pad with inactive cells so every grid cell has four neighbours.
-    pidx = np.pad(index, 1, constant_values=-1)
-    own, nbr, area, d_o, d_n, fc, fn = [], [], [], [], [], [], []
-    b_cell, b_area, b_dist, b_c, b_n = [], [], [], [], []
-    # axis 0: faces on vertical grid lines (a left of b); axis 1: horizontal lines (a below b)
-    for axis in (0, 1):
+    def geometry(axis: int, j: np.ndarray, i: np.ndarray) -> tuple[np.ndarray, ...]:
+        """Face length, half widths of the a- and b-cells, face centre x and y."""
         if axis == 0:
-            a, b = pidx[1:-1, :-1], pidx[1:-1, 1:]  # left/right cell of each vertical line
-            fx = np.broadcast_to(x[None, :], a.shape)
-            fy = np.broadcast_to(yc[:, None], a.shape)
-            length = np.broadcast_to(dy[:, None], a.shape)
-            half_a = np.broadcast_to(0.5 * np.pad(dx, (1, 0))[None, :], a.shape)
-            half_b = np.broadcast_to(0.5 * np.pad(dx, (0, 1))[None, :], a.shape)
-            normal = (1.0, 0.0)
-        else:
-            a, b = pidx[:-1, 1:-1], pidx[1:, 1:-1]  # below/above cell of each horizontal line
-            fx = np.broadcast_to(xc[None, :], a.shape)
-            fy = np.broadcast_to(y[:, None], a.shape)
-            length = np.broadcast_to(dx[None, :], a.shape)
-            half_a = np.broadcast_to(0.5 * np.pad(dy, (1, 0))[:, None], a.shape)
-            half_b = np.broadcast_to(0.5 * np.pad(dy, (0, 1))[:, None], a.shape)
-            normal = (0.0, 1.0)
-        n = np.array(normal)
-        inner = (a >= 0) & (b >= 0)
-        own.append(a[inner])
-        nbr.append(b[inner])
-        area.append(length[inner])
-        d_o.append(half_a[inner])
-        d_n.append(half_b[inner])
-        fc.append(np.column_stack([fx[inner], fy[inner]]))
-        fn.append(np.tile(n, (int(inner.sum()), 1)))
-        for cell, half, sign in ((a, half_a, 1.0), (b, half_b, -1.0)):
-            other = b if sign > 0 else a
-            ext = (cell >= 0) & (other < 0)
-            b_cell.append(cell[ext])
-            b_area.append(length[ext])
-            b_dist.append(half[ext])
-            b_c.append(np.column_stack([fx[ext], fy[ext]]))
-            b_n.append(np.tile(sign * n, (int(ext.sum()), 1)))
+            return dy[j], half_x[i], half_x[i + 1], x[i], yc[j]
+        return dx[i], half_y[j], half_y[j + 1], xc[i], y[j]
 
-    nb = sum(c.size for c in b_cell)
+    inner, outer = [], []
+    for axis, pad in ((0, ((0, 0), (1, 1))), (1, ((1, 1), (0, 0)))):
+        (ji, ii, a, b), (ja, ia, ca), (jb, ib, cb) = _axis_faces(
+            np.pad(index, pad, constant_values=-1), axis
+        )
+        area, h_a, h_b, fx, fy = geometry(axis, ji, ii)
+        inner.append((a, b, area, h_a, h_b, fx, fy, np.full(a.size, axis)))
+        # the a-cell's exterior face looks to +axis, the b-cell's to −axis
+        area, h_a, _, fx, fy = geometry(axis, ja, ia)
+        outer.append((ca, area, h_a, fx, fy, np.full(ca.size, axis), np.ones(ca.size)))
+        area, _, h_b, fx, fy = geometry(axis, jb, ib)
+        outer.append((cb, area, h_b, fx, fy, np.full(cb.size, axis), -np.ones(cb.size)))
+    own, nbr, area, d_o, d_n, fx, fy, f_axis = (np.concatenate(c) for c in zip(*inner, strict=True))
+    b_cell, b_area, b_dist, bx, by, b_axis, b_sign = (
+        np.concatenate(c) for c in zip(*outer, strict=True)
+    )
+    nf, nb = own.size, b_cell.size
+    face_normal = np.zeros((nf, 2))
+    face_normal[np.arange(nf), f_axis] = 1.0
+    b_normal = np.zeros((nb, 2))
+    b_normal[np.arange(nb), b_axis] = b_sign
     return Mesh(
         centres=centres,
         volumes=volumes,
         material=mat[active].astype(np.int32),
         material_names=material_names,
-        owner=np.concatenate(own),
-        neighbour=np.concatenate(nbr),
-        face_area=np.concatenate(area),
-        d_owner=np.concatenate(d_o),
-        d_neighbour=np.concatenate(d_n),
-        face_centre=np.concatenate(fc),
-        face_normal=np.concatenate(fn),
-        b_cell=np.concatenate(b_cell),
-        b_area=np.concatenate(b_area),
-        b_dist=np.concatenate(b_dist),
-        b_centre=np.concatenate(b_c),
-        b_normal=np.concatenate(b_n),
+        owner=own,
+        neighbour=nbr,
+        face_area=area,
+        d_owner=d_o,
+        d_neighbour=d_n,
+        face_centre=np.column_stack([fx, fy]),
+        face_normal=face_normal,
+        b_cell=b_cell,
+        b_area=b_area,
+        b_dist=b_dist,
+        b_centre=np.column_stack([bx, by]),
+        b_normal=b_normal,
         b_boundary=np.full(nb, -1, dtype=np.int32),
         b_exchange=np.ones(nb),
         boundary_names=boundary_names,
         grid=RectGrid(x=x, y=y, cell_index=index),
     )
+
+
+def _axis_faces(padded: np.ndarray, axis: int) -> tuple[tuple[np.ndarray, ...], ...]:
+    """Faces of the grid lines across ``axis`` of a cell-index array padded with −1.
+
+    Returns, for interior faces, exterior faces of the lower-side cell (a) and exterior
+    faces of the upper-side cell (b): (face-grid rows, face-grid columns, cells...) with
+    both cells (a, b) for interior faces and the one active cell for exterior ones.
+    """
+    if axis == 0:
+        a, b = padded[:, :-1], padded[:, 1:]
+    else:
+        a, b = padded[:-1, :], padded[1:, :]
+    has_a, has_b = a >= 0, b >= 0
+    out = []
+    for mask, cells in (
+        (has_a & has_b, (a, b)),
+        (has_a & ~has_b, (a,)),
+        (has_b & ~has_a, (b,)),
+    ):
+        j, i = np.nonzero(mask)
+        out.append((j, i, *(c[j, i] for c in cells)))
+    return tuple(out)
 
 
 def attach_boundaries(case: Case, mesh: Mesh) -> Mesh:

@@ -32,3 +32,19 @@ def atomic_write(
 def atomic_write_text(path: str | Path, text: str) -> Path:
     """Write ``text`` (UTF-8) to ``path`` atomically."""
     return atomic_write(path, lambda fh: fh.write(text))
+
+
+def atomic_write_file(path: str | Path, write: Callable[[Path], None]) -> Path:
+    """For writers that want a file name (meshio): call ``write(tmp)`` with a temporary path
+    next to ``path`` that keeps its suffix, then rename it to ``path``."""
+    path = Path(path)
+    path.parent.mkdir(parents=True, exist_ok=True)
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.stem}.", suffix=path.suffix, dir=path.parent)
+    os.close(fd)
+    try:
+        write(Path(tmp))
+        os.replace(tmp, path)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise
+    return path

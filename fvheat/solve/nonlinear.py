@@ -2,9 +2,14 @@
 
 The systems solved here have the form R(x) = c − A·x + s·r(x), where A is a constant
 sparse matrix and r(x) acts per cell (surface radiation), so the Jacobian system is
-(A − s·diag(∂r/∂x))·Δx = R. The factorisation of that matrix is kept across iterations
-(and across calls: :class:`NewtonSolver` remembers it) and rebuilt only when the
-iteration stops contracting fast, i.e. a chord method that becomes full Newton when needed.
+(A − s·diag(∂r/∂x))·Δx = R. What is kept across iterations (and across calls:
+:class:`NewtonSolver` remembers it) depends on the linear solver:
+
+- direct: the factorisation of the Jacobian, rebuilt only when the iteration stops
+  contracting fast, i.e. a chord method that becomes full Newton when needed;
+- AMG-CG: the multigrid hierarchy of the first Jacobian, used as the preconditioner of CG
+  on each new Jacobian (only the radiative diagonal of surface cells changes), i.e. full
+  Newton with no multigrid setup after the first.
 """
 
 from __future__ import annotations
@@ -16,7 +21,14 @@ import numpy as np
 import scipy.sparse as sp
 
 from fvheat.errors import ConvergenceError
-from fvheat.solve.linear import LinearSolver, Method, make_solver
+from fvheat.solve.linear import (
+    AmgSolver,
+    DirectSolver,
+    LinearSolver,
+    SolverChoice,
+    choose_method,
+    solver_settings,
+)
 
 log = logging.getLogger(__name__)
 
@@ -26,8 +38,10 @@ Residual = Callable[[np.ndarray], tuple[np.ndarray, np.ndarray]]
 class NewtonSolver:
     """Solves c − A·x + s·r(x) = 0 repeatedly (steady solve or every implicit time step).
 
-    ``tol`` is the largest accepted temperature correction, K. With ``linear`` (r ≡ 0)
-    one step is exact and no convergence check is made.
+    ``scale`` is s; ``method`` a method name or the case's solver settings; ``repeated``
+    tells that A serves many solves (time steps). ``tol`` is the largest accepted
+    temperature correction, K. With ``linear`` (r ≡ 0) one step is exact and no
+    convergence check is made.
     """
 
     def __init__(
@@ -35,7 +49,7 @@ class NewtonSolver:
         a: sp.csr_matrix,
         scale: float = 1.0,
         *,
-        method: Method = "auto",
+        method: SolverChoice = "auto",
         repeated: bool = False,
         tol: float = 1e-10,
         max_iter: int = 100,
@@ -44,28 +58,45 @@ class NewtonSolver:
     ):
         self.a = a
         self.scale = scale
-        self.method: Method = method
-        self.repeated = repeated
+        self.settings = solver_settings(method)
+        self.kind = choose_method(a.shape[0], self.settings, repeated=repeated)
         self.tol = tol
         self.max_iter = max_iter
         self.slow = slow
         self.linear = linear
         self._solver: LinearSolver | None = None
-        self.factorisations = 0
+        self._amg: AmgSolver | None = None
+        self._dr0 = np.zeros(0)
+        self.factorisations = 0  # factorisations or AMG hierarchies built
         self.iterations = 0
 
-    def _factorise(self, dr: np.ndarray) -> None:
-        self._solver = make_solver(
-            self.a - sp.diags(self.scale * dr), self.method, repeated=self.repeated
-        )
+    def _prepare(self, dr: np.ndarray) -> None:
+        """Make the solver of the Jacobian for the radiative derivative ``dr`` (W/(m·K))."""
+        if self.kind == "amg":
+            if self._amg is None:
+                # the hierarchy of the first Jacobian (A alone can be singular when every
+                # exchanging surface radiates only)
+                s = self.settings
+                self._dr0 = dr.copy()
+                self._amg = AmgSolver(
+                    self._jacobian(dr), tolerance=s.tolerance, max_iterations=s.max_iterations
+                )
+                self.factorisations += 1
+            self._solver = self._amg.with_diagonal(-self.scale * (dr - self._dr0))
+            return
+        self._solver = DirectSolver(self._jacobian(dr))
         self.factorisations += 1
+
+    def _jacobian(self, dr: np.ndarray) -> sp.csr_matrix:
+        """A − s·diag(dr)."""
+        return (self.a - sp.diags(self.scale * dr)).tocsr() if np.any(dr) else self.a
 
     def solve(self, residual: Residual, x0: np.ndarray) -> np.ndarray:
         """Iterate from ``x0``; ``residual(x)`` returns (R(x), ∂r/∂x diagonal)."""
         x = x0.copy()
         res, dr = residual(x)
-        if self._solver is None:
-            self._factorise(dr)
+        if self._solver is None or (self.kind == "amg" and not self.linear):
+            self._prepare(dr)
         prev = np.inf
         for it in range(1, self.max_iter + 1):
             assert self._solver is not None
@@ -78,9 +109,11 @@ class NewtonSolver:
             if size <= self.tol:
                 return x
             res, dr = residual(x)
-            if size > self.slow * prev:
+            if self.kind == "amg":  # a new operator costs nothing: full Newton
+                self._prepare(dr)
+            elif size > self.slow * prev:
                 log.debug("Newton iteration %d contracting slowly; refactorising", it)
-                self._factorise(dr)
+                self._prepare(dr)
             prev = size
         raise ConvergenceError(
             f"non-linear iteration did not converge in {self.max_iter} iterations "

@@ -5,19 +5,26 @@ from __future__ import annotations
 import numpy as np
 
 from fvheat.assembly.system import System
-from fvheat.solve.linear import Method, make_solver
+from fvheat.solve.linear import SolverChoice, make_solver
 from fvheat.solve.nonlinear import NewtonSolver
 
 
 def solve_steady(
-    system: System, t: float = 0.0, *, method: Method = "auto", guess: np.ndarray | None = None
+    system: System,
+    t: float = 0.0,
+    *,
+    method: SolverChoice = "auto",
+    guess: np.ndarray | None = None,
 ) -> np.ndarray:
-    """Steady cell temperatures (°C) for the boundary values at time ``t`` (s)."""
+    """Steady cell temperatures (°C) for the boundary values at time ``t`` (s).
+
+    ``method`` is a method name or the case's solver settings (:mod:`fvheat.solve.linear`).
+    """
     b = system.sources(t)
     if not system.nonlinear:
         return make_solver(system.matrix, method).solve(b)
     if guess is None:
-        # start from the solution with radiation switched off: a sound first guess
+        # a uniform field at the mean reference temperature of the surfaces
         guess = np.full(system.n, float(np.mean(system.surface.values(t)[0])))
     newton = NewtonSolver(system.matrix, 1.0, method=method)
 

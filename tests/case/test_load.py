@@ -287,31 +287,31 @@ def test_parse_case_from_dict_does_not_mutate_input(tmp_path: Path):
 
 
 @dataclass(frozen=True)
-class _CaseWithSolver(Case):
-    solver: float | None = None
+class _CaseWithExtra(Case):
+    extra: float | None = None
 
 
 def test_sections_can_be_registered(tmp_path: Path, monkeypatch: pytest.MonkeyPatch):
     seen = {}
 
-    def solver(value, ctx):
+    def extra(value, ctx):
         seen["materials"] = list(ctx.parsed["materials"])  # earlier sections are visible
         if value is None:
             return None
-        tbl = table(value, "solver", allowed=("tolerance",))
-        return number(tbl, "tolerance", "solver", gt=0)
+        tbl = table(value, "extra", allowed=("tolerance",))
+        return number(tbl, "tolerance", "extra", gt=0)
 
     monkeypatch.setattr("fvheat.case.load.SECTIONS", dict(SECTIONS))
-    monkeypatch.setattr("fvheat.case.load.Case", _CaseWithSolver)
-    register_section("solver", solver)
-    case = load_case(write(tmp_path, CASE + "\n[solver]\ntolerance = 1e-9\n"))
-    assert case.solver == 1e-9
+    monkeypatch.setattr("fvheat.case.load.Case", _CaseWithExtra)
+    register_section("extra", extra)
+    case = load_case(write(tmp_path, CASE + "\n[extra]\ntolerance = 1e-9\n"))
+    assert case.extra == 1e-9
     assert seen == {"materials": ["concrete", "insulation"]}
-    assert load_case(write(tmp_path, CASE, "plain.toml")).solver is None
-    with pytest.raises(CaseError, match=r"case.toml: solver.tolerance: must be greater than 0"):
-        load_case(tmp_path / "case.toml", ["solver.tolerance=0"])
+    assert load_case(write(tmp_path, CASE, "plain.toml")).extra is None
+    with pytest.raises(CaseError, match=r"case.toml: extra.tolerance: must be greater than 0"):
+        load_case(tmp_path / "case.toml", ["extra.tolerance=0"])
     with pytest.raises(ValueError, match="already registered"):
-        register_section("solver", solver)
+        register_section("extra", extra)
 
 
 # --- errors --------------------------------------------------------------------------------
