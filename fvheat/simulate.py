@@ -129,9 +129,16 @@ def _transient(
                 history.fields.append(temp.copy())
 
         record(0.0, temp0)
-        if model.active:
+        if model.active or ts.adaptive_tolerance is not None:
             steps = evolve_enthalpy(
-                system, model, temp0, ts.step, n_steps, theta=ts.theta, method=method
+                system,
+                model,
+                temp0,
+                ts.step,
+                n_steps,
+                theta=ts.theta,
+                method=method,
+                tolerance=ts.adaptive_tolerance,
             )
         else:
             steps = evolve(system, temp0, ts.step, n_steps, theta=ts.theta, method=method)

@@ -802,6 +802,7 @@ def _time(value: Any, ctx: Context) -> TimeSettings | None:
             "periodic",
             "periodic_tolerance",
             "max_cycles",
+            "adaptive_tolerance",
         ),
         required=("duration", "step", "initial_temperature"),
     )
@@ -855,6 +856,7 @@ def _time(value: Any, ctx: Context) -> TimeSettings | None:
             tbl, "periodic_tolerance", path, required=False, default=1e-4, gt=0
         ),
         max_cycles=int(max_cycles),
+        adaptive_tolerance=number(tbl, "adaptive_tolerance", path, required=False, gt=0),
     )
 
 

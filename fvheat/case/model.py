@@ -145,7 +145,8 @@ class TimeSettings:
     t = 0 conditions). With ``periodic`` the run repeats ``duration`` (one period of the
     boundary conditions) until the largest cell-temperature change from one cycle to the
     next is below ``periodic_tolerance`` (K), at most ``max_cycles`` times; results are
-    those of the last cycle.
+    those of the last cycle. With ``adaptive_tolerance`` (K) every step is subdivided where
+    step doubling shows a larger temperature error (outputs stay at the step times).
     """
 
     duration: float
@@ -156,6 +157,7 @@ class TimeSettings:
     periodic: bool = False
     periodic_tolerance: float = 1e-4
     max_cycles: int = 200
+    adaptive_tolerance: float | None = None
 
     @property
     def theta(self) -> float:
