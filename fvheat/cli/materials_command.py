@@ -6,6 +6,7 @@ from __future__ import annotations
 def print_library() -> None:
     """Print every library material with its design values and source."""
     from rich.console import Console
+    from rich.markup import escape
     from rich.table import Table
 
     from fvheat.properties.library import library
