@@ -3,28 +3,15 @@ read by :func:`fvheat.case.load.load_case` and run by :func:`fvheat.study.run_st
 
 from __future__ import annotations
 
-import textwrap
 from collections.abc import Sequence
 from pathlib import Path
 
-from fvheat.case.load import load_case
-from fvheat.case.model import Case
+from casefiles import load, write_case  # noqa: F401  (re-exported for the tests here)
+
 from fvheat.study import Study, run_study
 
 Point = tuple[float, float]
 Segment = tuple[Point, Point]
-
-
-def write_case(folder: Path, text: str, name: str = "case.toml") -> Path:
-    """Write the (dedented) TOML ``text`` to ``folder/name`` and return the path."""
-    path = Path(folder) / name
-    path.write_text(textwrap.dedent(text), encoding="utf-8")
-    return path
-
-
-def load(folder: Path, text: str, overrides: Sequence[str] = (), name: str = "case.toml") -> Case:
-    """Write the TOML ``text`` and load it as a validated case."""
-    return load_case(write_case(folder, text, name), overrides)
 
 
 def study(

@@ -7,27 +7,13 @@ Every case goes through the whole pipeline: TOML text is written to a file, read
 
 from __future__ import annotations
 
-import textwrap
 from collections.abc import Sequence
 from pathlib import Path
 
 import numpy as np
+from casefiles import load, write_case  # noqa: F401  (re-exported for the tests here)
 
-from fvheat.case.load import load_case
-from fvheat.case.model import Case
 from fvheat.simulate import Solution, simulate
-
-
-def write_case(folder: Path, text: str, name: str = "case.toml") -> Path:
-    """Write the (dedented) TOML ``text`` to ``folder/name`` and return the path."""
-    path = Path(folder) / name
-    path.write_text(textwrap.dedent(text), encoding="utf-8")
-    return path
-
-
-def load(folder: Path, text: str, overrides: Sequence[str] = (), name: str = "case.toml") -> Case:
-    """Write the TOML ``text`` and load it as a validated :class:`Case`."""
-    return load_case(write_case(folder, text, name), overrides)
 
 
 def run(
