@@ -146,12 +146,17 @@ def sweep(
     set_: SetOpt = None,
     jobs: Annotated[
         int | None,
-        typer.Option("--jobs", "-j", help="Worker processes [default: cores].", show_default=False),
+        typer.Option(
+            "--jobs",
+            "-j",
+            help="Worker processes (default: all cores); with --scheduler: variants in flight.",
+            show_default=False,
+        ),
     ] = None,
     out: Annotated[
         Path | None,
         typer.Option(
-            "--out", "-o", help="Sweep folder [default: CASE-STEM_sweep].", show_default=False
+            "--out", "-o", help="Sweep folder (default: CASE-STEM_sweep).", show_default=False
         ),
     ] = None,
     table: Annotated[
@@ -233,7 +238,7 @@ def sweep_plot(
     out: Annotated[
         Path | None,
         typer.Option(
-            "--out", "-o", help="PNG file [default: in the sweep folder].", show_default=False
+            "--out", "-o", help="PNG file (default: in the sweep folder).", show_default=False
         ),
     ] = None,
     quiet: QuietOpt = False,

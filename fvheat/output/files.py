@@ -3,11 +3,21 @@ so an interrupted or failed run never leaves a half-written file behind."""
 
 from __future__ import annotations
 
+import functools
 import os
 import tempfile
 from collections.abc import Callable
 from pathlib import Path
 from typing import IO
+
+
+@functools.cache
+def _file_mode() -> int:
+    """Permissions of a newly created file under the process umask (mkstemp makes 0600);
+    read once per process."""
+    mask = os.umask(0)
+    os.umask(mask)
+    return 0o666 & ~mask
 
 
 def atomic_write(
@@ -22,6 +32,7 @@ def atomic_write(
             fd, "wb" if binary else "w", **({} if binary else {"newline": "", "encoding": "utf-8"})
         ) as fh:
             write(fh)
+        os.chmod(tmp, _file_mode())
         os.replace(tmp, path)
     except BaseException:
         Path(tmp).unlink(missing_ok=True)
@@ -43,6 +54,7 @@ def atomic_write_file(path: str | Path, write: Callable[[Path], None]) -> Path:
     os.close(fd)
     try:
         write(Path(tmp))
+        os.chmod(tmp, _file_mode())
         os.replace(tmp, path)
     except BaseException:
         Path(tmp).unlink(missing_ok=True)

@@ -1,0 +1,207 @@
+"""Field files for general-purpose viewers (VTU through meshio) and ``cells.csv``.
+
+Layout in the results folder::
+
+    fields/field.vtu                      steady run
+    fields/field_0000.vtu, ... field.pvd  transient run: one file per saved time + PVD index
+    fields/fields.json                    grid lines, material and boundary names, file list
+    cells.csv                             cell centres, material, temperature, heat flux
+
+Each VTU holds the body's cells as quads (in the solver's cell order) followed by the
+exterior faces as line cells. Cell data (SI units, temperatures in °C):
+
+- ``temperature``: cell temperature on quads, surface (face) temperature on lines;
+- ``heat_flux``: heat-flux vector q (W/m², z = 0); on lines the normal flow −q_in·n_out;
+- ``material``: material index on quads (−1 on lines);
+- ``boundary``: boundary index on lines (−1 adiabatic, and on quads);
+- ``surface_heat_flux``: heat flow into the body per face length (W/m²) on lines, NaN on quads.
+"""
+
+from __future__ import annotations
+
+import csv
+import json
+from pathlib import Path
+from typing import Any
+from xml.sax.saxutils import quoteattr
+
+import numpy as np
+
+from fvheat.mesh.mesh import RectGrid
+from fvheat.output.files import atomic_write, atomic_write_file, atomic_write_text
+from fvheat.output.view import FieldView, field_view
+from fvheat.simulate import Solution
+
+FIELDS_DIR = "fields"
+META_FILE = "fields.json"
+FORMAT = "fvheat-fields-1"
+
+
+def _node_ids(grid: RectGrid, pts: np.ndarray) -> np.ndarray:
+    """Index of the grid node at each point (m), nodes numbered row by row."""
+    x, y = grid.x, grid.y
+    tol = 1e-9 * max(float(np.ptp(x)), float(np.ptp(y)), 1.0)
+    i = np.clip(np.searchsorted(x, pts[..., 0] - tol), 0, x.size - 1)
+    j = np.clip(np.searchsorted(y, pts[..., 1] - tol), 0, y.size - 1)
+    return j * x.size + i
+
+
+def to_meshio(view: FieldView):
+    """The view as a :class:`meshio.Mesh`: quads for cells, lines for exterior faces."""
+    import meshio
+
+    g = view.grid
+    nx = g.x.size
+    rows, cols = np.nonzero(g.cell_index >= 0)  # row-major: the solver's cell order
+    order = np.argsort(g.cell_index[rows, cols])
+    rows, cols = rows[order], cols[order]
+    n0 = rows * nx + cols
+    quads = np.column_stack([n0, n0 + 1, n0 + nx + 1, n0 + nx])
+    lines = _node_ids(g, view.face_ends)
+    used, inverse = np.unique(np.concatenate([quads.ravel(), lines.ravel()]), return_inverse=True)
+    quads = inverse[: quads.size].reshape(-1, 4)
+    lines = inverse[quads.size :].reshape(-1, 2)
+    points = np.column_stack([g.x[used % nx], g.y[used // nx], np.zeros(used.size)])
+
+    n_faces = view.face_boundary.size
+    normal = outward_normals(view.face_ends)
+    face_vec = -view.face_flux[:, None] * normal
+    zeros_c, zeros_f = np.zeros((view.n_cells, 1)), np.zeros((n_faces, 1))
+    cell_data = {
+        "temperature": [view.temperature, view.face_temperature],
+        "heat_flux": [np.hstack([view.flux, zeros_c]), np.hstack([face_vec, zeros_f])],
+        "material": [view.material.astype(np.int32), np.full(n_faces, -1, np.int32)],
+        "boundary": [
+            np.full(view.n_cells, -1, np.int32),
+            view.face_boundary.astype(np.int32),
+        ],
+        "surface_heat_flux": [np.full(view.n_cells, np.nan), view.face_flux],
+    }
+    return meshio.Mesh(points, [("quad", quads), ("line", lines)], cell_data=cell_data)
+
+
+def outward_normals(ends: np.ndarray) -> np.ndarray:
+    """Unit outward normals (m, 2) of exterior faces whose ``ends`` are ordered as in
+    :class:`FieldView` (the normal is the direction end 0 → end 1 turned clockwise)."""
+    d = ends[:, 1] - ends[:, 0]
+    return np.column_stack([d[:, 1], -d[:, 0]]) / np.hypot(d[:, 0], d[:, 1])[:, None]
+
+
+def from_meshio(mesh, meta: dict[str, Any], time: float = 0.0) -> FieldView:
+    """Rebuild a :class:`FieldView` from a VTU written by :func:`to_meshio` and its index."""
+    x = np.asarray(meta["grid"]["x"], float)
+    y = np.asarray(meta["grid"]["y"], float)
+    blocks = {b.type: k for k, b in enumerate(mesh.cells)}
+    q, ln = blocks["quad"], blocks["line"]
+    pts = mesh.points[:, :2]
+    centres = pts[mesh.cells[q].data].mean(axis=1)
+    i = np.searchsorted(x, centres[:, 0]) - 1
+    j = np.searchsorted(y, centres[:, 1]) - 1
+    index = np.full((y.size - 1, x.size - 1), -1, dtype=np.int64)
+    index[j, i] = np.arange(centres.shape[0])
+    cd = mesh.cell_data
+    return FieldView(
+        grid=RectGrid(x=x, y=y, cell_index=index),
+        centres=centres,
+        material=np.asarray(cd["material"][q], dtype=np.int32),
+        material_names=tuple(meta["materials"]),
+        temperature=np.asarray(cd["temperature"][q], float),
+        flux=np.asarray(cd["heat_flux"][q], float)[:, :2],
+        face_ends=pts[mesh.cells[ln].data],
+        face_boundary=np.asarray(cd["boundary"][ln], dtype=np.int32),
+        boundary_names=tuple(meta["boundaries"]),
+        face_temperature=np.asarray(cd["temperature"][ln], float),
+        face_flux=np.asarray(cd["surface_heat_flux"][ln], float),
+        time=time,
+    )
+
+
+def write_vtu(path: str | Path, view: FieldView) -> Path:
+    """Write one field as VTU (binary, zlib), atomically."""
+    import meshio
+
+    m = to_meshio(view)
+    return atomic_write_file(path, lambda tmp: meshio.write(tmp, m, file_format="vtu"))
+
+
+def write_pvd(path: str | Path, entries: list[tuple[float, str]]) -> Path:
+    """Write a ParaView collection index of (time s, file name relative to ``path``)."""
+    body = "\n".join(
+        f'    <DataSet timestep="{t!r}" group="" part="0" file={quoteattr(f)}/>' for t, f in entries
+    )
+    text = (
+        '<?xml version="1.0"?>\n<VTKFile type="Collection" version="0.1">\n'
+        f"  <Collection>\n{body}\n  </Collection>\n</VTKFile>\n"
+    )
+    return atomic_write_text(path, text)
+
+
+def write_fields(solution: Solution, out: str | Path) -> list[Path]:
+    """Write the field files of a run into ``out/fields`` (see the module docstring)."""
+    folder = Path(out) / FIELDS_DIR
+    g = solution.mesh.grid
+    assert g is not None
+    h = solution.history
+    written: list[Path] = []
+    if h is None or not h.fields:
+        states = [(solution.time, solution.temperature, "field.vtu")]
+    else:
+        states = [
+            (t, f, f"field_{k:04d}.vtu")
+            for k, (t, f) in enumerate(zip(h.times, h.fields, strict=True))
+        ]
+    for t, temp, name in states:
+        written.append(write_vtu(folder / name, field_view(solution, temp, t)))
+    entries = [(float(t), name) for t, _, name in states]
+    if len(states) > 1 or solution.case.transient:
+        written.append(write_pvd(folder / "field.pvd", entries))
+    meta = {
+        "format": FORMAT,
+        "grid": {"x": g.x.tolist(), "y": g.y.tolist()},
+        "materials": list(solution.mesh.material_names),
+        "boundaries": list(solution.mesh.boundary_names),
+        "files": [{"time_s": t, "file": f} for t, f in entries],
+    }
+    written.append(atomic_write_text(folder / META_FILE, json.dumps(meta, indent=1) + "\n"))
+    return written
+
+
+def read_meta(out: str | Path) -> dict[str, Any]:
+    """The field index ``fields/fields.json`` of a results folder."""
+    return json.loads((Path(out) / FIELDS_DIR / META_FILE).read_text(encoding="utf-8"))
+
+
+def read_field(out: str | Path, index: int = -1, meta: dict[str, Any] | None = None) -> FieldView:
+    """Read saved field number ``index`` (default: the last, i.e. the end time) of a folder."""
+    import meshio
+
+    meta = meta if meta is not None else read_meta(out)
+    entry = meta["files"][index]
+    mesh = meshio.read(Path(out) / FIELDS_DIR / entry["file"])
+    return from_meshio(mesh, meta, float(entry["time_s"]))
+
+
+def write_cells_csv(path: str | Path, view: FieldView) -> Path:
+    """Write ``cells.csv``: cell centre (m), material, temperature (°C), heat flux (W/m²)."""
+    names = np.asarray(view.material_names, dtype=object)[view.material]
+    rows = zip(
+        view.centres[:, 0],
+        view.centres[:, 1],
+        names,
+        view.temperature,
+        view.flux[:, 0],
+        view.flux[:, 1],
+        strict=True,
+    )
+
+    def write(fh) -> None:
+        w = csv.writer(fh)
+        w.writerow(
+            ["x_m", "y_m", "material", "temperature_C", "heat_flux_x_W_m2", "heat_flux_y_W_m2"]
+        )
+        w.writerows(
+            [repr(float(a)), repr(float(b)), m, repr(float(t)), repr(float(qx)), repr(float(qy))]
+            for a, b, m, t, qx, qy in rows
+        )
+
+    return atomic_write(path, write)

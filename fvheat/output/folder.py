@@ -1,0 +1,47 @@
+"""Everything ``fvheat run`` writes after ``summary.json``: inputs, field files, cells.csv,
+figures and the report."""
+
+from __future__ import annotations
+
+import logging
+from pathlib import Path
+
+from fvheat.output.fields import write_cells_csv, write_fields
+from fvheat.output.inputs import write_inputs
+from fvheat.output.report import write_report
+from fvheat.output.results import FIGURES_DIR, ResultsFolder
+from fvheat.output.view import field_view
+from fvheat.study import Study
+
+log = logging.getLogger(__name__)
+
+CELLS_FILE = "cells.csv"
+
+
+def write_outputs(study: Study, out: str | Path, *, plots: bool = True) -> list[Path]:
+    """Write inputs.json, fields/, cells.csv, figures/ (unless ``plots`` is False) and
+    report.html / report.md into ``out``, which must already hold summary.json."""
+    out = Path(out)
+    sol = study.solution
+    written = [write_inputs(out, sol.case, sol.mesh)]
+    if sol.mesh.grid is None:  # field files and figures need the rectilinear grid
+        log.warning("no rectilinear grid: field files and figures are not written")
+        return [*written, *write_report(ResultsFolder.open(out))]
+    written += write_fields(sol, out)
+    written.append(write_cells_csv(out / CELLS_FILE, field_view(sol)))
+    folder = ResultsFolder.open(out)
+    if plots:
+        from fvheat.output.plots.figures import draw_figures
+
+        for r in draw_figures(folder):
+            written += [out / r.png] + ([out / r.svg] if r.svg else [])
+    else:
+        # figures left by an earlier run in this folder must not appear in the new report
+        from fvheat.output.plots.figures import INDEX_FILE
+
+        stale = out / FIGURES_DIR / INDEX_FILE
+        if stale.is_file():
+            log.info("removing %s: figures of an earlier run", stale)
+            stale.unlink()
+    written += write_report(folder)
+    return written

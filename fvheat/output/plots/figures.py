@@ -1,0 +1,190 @@
+"""Draw every figure of a results folder into ``DIR/figures`` with an index of captions.
+
+Files: ``temperature``, ``heat_flux``, ``mesh`` (.png and .svg), and for a transient run
+``probes``, ``heat_flows`` and ``snapshots``; ``figures.json`` lists them with captions
+(the report reads it).
+"""
+
+from __future__ import annotations
+
+import json
+import logging
+from dataclasses import asdict, dataclass
+from pathlib import Path
+from typing import Any
+
+from fvheat.output.files import atomic_write_text
+from fvheat.output.plots import layers, style
+from fvheat.output.plots.heatflux import heat_flux_figure
+from fvheat.output.plots.meshplot import mesh_figure
+from fvheat.output.plots.temperature import coldest_point, temperature_figure, time_label
+from fvheat.output.plots.transient import (
+    flow_figure,
+    probe_figure,
+    snapshot_figure,
+    snapshot_indices,
+)
+from fvheat.output.results import FIGURES_DIR, ResultsFolder
+
+log = logging.getLogger(__name__)
+
+INDEX_FILE = "figures.json"
+SCREENING = "Screening result: to be checked by a competent person."
+
+
+@dataclass(frozen=True)
+class FigureRecord:
+    """One drawn figure: short name, file names relative to the results folder, caption."""
+
+    name: str
+    png: str
+    svg: str | None
+    caption: str
+
+
+def _when(folder: ResultsFolder, t: float) -> str:
+    return time_label(t) if folder.transient else "steady state"
+
+
+def _save(
+    fig, folder: ResultsFolder, name: str, caption: str, *, vector: bool = True
+) -> FigureRecord:
+    files = style.save(fig, folder.path / FIGURES_DIR / name, vector=vector)
+    rel = [str(p.relative_to(folder.path).as_posix()) for p in files]
+    return FigureRecord(name, rel[0], rel[1] if len(rel) > 1 else None, caption)
+
+
+def draw_figures(
+    folder: ResultsFolder | str | Path,
+    *,
+    vrange: tuple[float, float] | None = None,
+    zoom: layers.Window | None = None,
+) -> list[FigureRecord]:
+    """Draw all figures of ``folder`` (colour range ``vrange`` °C and window ``zoom``
+    (x0, y0, x1, y1) m apply to the temperature maps; ``zoom`` also to flux and mesh)."""
+    folder = folder if isinstance(folder, ResultsFolder) else ResultsFolder.open(folder)
+    s = folder.summary
+    title = folder.title
+    view = folder.field()
+    when = _when(folder, view.time)
+    notes = _view_notes(vrange, zoom)
+    records = []
+
+    marked = coldest_point(s)
+    fig = temperature_figure(
+        view,
+        title=title,
+        subtitle=when,
+        marked=marked,
+        vrange=vrange,
+        zoom=zoom,
+        caption=SCREENING,
+    )
+    records.append(_save(fig, folder, "temperature", _temperature_caption(s, when, marked) + notes))
+
+    fig = heat_flux_figure(view, title=title, subtitle=when, zoom=zoom)
+    records.append(
+        _save(
+            fig,
+            folder,
+            "heat_flux",
+            f"Heat-flux density |q| (W/m², log scale), {when}, reconstructed from the solver's "
+            "face heat flows. Lines are heat paths starting where heat enters the body, at "
+            "equal steps of the entering heat flow; in a steady field each band between two "
+            "lines carries the same heat flow." + notes,
+        )
+    )
+
+    fig = mesh_figure(view, title=title, zoom=zoom)
+    records.append(
+        _save(
+            fig,
+            folder,
+            "mesh",
+            f"Computational mesh: {view.n_cells} cells coloured by material, boundaries "
+            "coloured and named; unmarked exterior edges are adiabatic." + notes,
+            vector=False,
+        )
+    )
+
+    if folder.transient:
+        records += _transient(folder, title, vrange, zoom, notes)
+    index = [asdict(r) for r in records]
+    atomic_write_text(
+        folder.path / FIGURES_DIR / INDEX_FILE,
+        json.dumps(index, indent=2, ensure_ascii=False) + "\n",
+    )
+    log.info("drew %d figures in %s", len(records), folder.path / FIGURES_DIR)
+    return records
+
+
+def _view_notes(vrange, zoom) -> str:
+    out = ""
+    if vrange is not None:
+        out += f" Colour range fixed at {vrange[0]:g} to {vrange[1]:g} °C."
+    if zoom is not None:
+        out += f" Window x {zoom[0]:g} to {zoom[2]:g} m, y {zoom[1]:g} to {zoom[3]:g} m."
+    return out
+
+
+def _temperature_caption(s: dict[str, Any], when: str, marked) -> str:
+    text = (
+        f"Temperature field (°C), {when}, with isotherms, material outlines and the "
+        "boundaries coloured and named."
+    )
+    if marked is not None:
+        text += (
+            f" The diamond marks {marked.label} = {marked.value:.2f} °C at "
+            f"({marked.x:.3f}, {marked.y:.3f}) m"
+        )
+        j = s.get("junction")
+        if j is not None and j.get("f_Rsi_from"):
+            text += f", taken from the {j['f_Rsi_from']}"
+            if "condensation" in str(j["f_Rsi_from"]) or "R_si =" in str(j["f_Rsi_from"]):
+                text += "; the map shows the heat-loss solve"
+        text += "."
+    return text + " " + SCREENING
+
+
+def _transient(folder: ResultsFolder, title: str, vrange, zoom, notes: str) -> list[FigureRecord]:
+    out = []
+    ts = folder.timeseries()
+    if ts is not None:
+        if ts.probes:
+            fig = probe_figure(ts.times, ts.probes, title=title)
+            out.append(_save(fig, folder, "probes", "Probe temperatures (°C) at every saved time."))
+        fig = flow_figure(ts.times, ts.flows, title=title)
+        out.append(
+            _save(
+                fig,
+                folder,
+                "heat_flows",
+                "Heat flow through each boundary (W/m per metre of junction, positive into "
+                "the body) at every saved time.",
+            )
+        )
+    times = folder.field_times()
+    if len(times) > 1:
+        idx = snapshot_indices(len(times))
+        views = [folder.field(int(i)) for i in idx]
+        fig = snapshot_figure(views, title=title, vrange=vrange, zoom=zoom)
+        when = ", ".join(time_label(v.time).removeprefix("t = ") for v in views)
+        out.append(
+            _save(
+                fig,
+                folder,
+                "snapshots",
+                f"Temperature field (°C) at {when}, on one colour scale." + notes,
+                vector=False,
+            )
+        )
+    return out
+
+
+def read_index(folder: ResultsFolder) -> list[FigureRecord]:
+    """The figures listed in ``figures/figures.json`` whose PNG exists (empty if none)."""
+    f = folder.path / FIGURES_DIR / INDEX_FILE
+    if not f.is_file():
+        return []
+    records = [FigureRecord(**r) for r in json.loads(f.read_text(encoding="utf-8"))]
+    return [r for r in records if (folder.path / r.png).is_file()]

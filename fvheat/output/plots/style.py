@@ -1,0 +1,168 @@
+"""The look of fvheat figures: sizes for an A4 page, colours, fonts, and saving.
+
+Figures are plain :class:`matplotlib.figure.Figure` objects (no pyplot, no global backend
+state), rendered with Agg, so plotting works headless and inside other programs.
+"""
+
+from __future__ import annotations
+
+import io
+from contextlib import contextmanager
+from pathlib import Path
+
+from fvheat.output.files import atomic_write
+
+#: width of the text block of an A4 page with 20 mm margins, inches
+PAGE_WIDTH = 6.7
+#: tallest field plot, inches
+MAX_AXES_HEIGHT = 6.4
+#: resolution of PNG files, dots per inch
+PNG_DPI = 200
+
+#: temperature: perceptually uniform, readable in grey and with colour-vision deficiency
+TEMPERATURE_CMAP = "cividis"
+#: heat-flux magnitude (log scale)
+FLUX_CMAP = "magma"
+#: boundary edge colours, in the order of the case's boundaries
+BOUNDARY_COLOURS = (
+    "#c8553d",
+    "#1d7874",
+    "#6a4c93",
+    "#e07a1f",
+    "#3a5a80",
+    "#7f8c2a",
+    "#b23a6f",
+    "#4c4c4c",
+)
+ADIABATIC_COLOUR = "#9a9a9a"
+#: fill colours of materials in the mesh plot
+MATERIAL_COLOURS = (
+    "#d8c8a0",
+    "#a9c6dd",
+    "#c7d8a4",
+    "#e4b7a6",
+    "#c5b8da",
+    "#efd98f",
+    "#b3d7cb",
+    "#d3d3d3",
+    "#e8c4d8",
+    "#bfcad6",
+)
+OUTLINE_COLOUR = "#262626"
+#: marker of the coldest surface point; not used anywhere else in a figure
+COLDEST_COLOUR = "#ff2bd6"
+LINE_COLOURS = ("#1d7874", "#c8553d", "#6a4c93", "#e07a1f", "#3a5a80", "#7f8c2a", "#b23a6f")
+
+RC = {
+    "font.size": 8.0,
+    "axes.titlesize": 9.0,
+    "axes.labelsize": 8.0,
+    "xtick.labelsize": 7.5,
+    "ytick.labelsize": 7.5,
+    "legend.fontsize": 7.5,
+    "axes.edgecolor": "#555555",
+    "axes.linewidth": 0.6,
+    "xtick.color": "#444444",
+    "ytick.color": "#444444",
+    "xtick.major.width": 0.6,
+    "ytick.major.width": 0.6,
+    "axes.titlelocation": "left",
+    "axes.titleweight": "bold",
+    "axes.spines.top": False,
+    "axes.spines.right": False,
+    "figure.facecolor": "white",
+    "savefig.facecolor": "white",
+    "svg.hashsalt": "fvheat",
+    "path.simplify": True,
+}
+
+
+@contextmanager
+def style():
+    """Context in which fvheat figures are built (fonts, spines, colours)."""
+    import matplotlib
+
+    with matplotlib.rc_context(RC):
+        yield
+
+
+def new_figure(width: float, height: float):
+    """A Figure (inches) with constrained layout and an Agg canvas."""
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=(width, height), layout="constrained")
+    FigureCanvasAgg(fig)
+    return fig
+
+
+def axes_size(dx: float, dy: float, *, extra_width: float = 1.5) -> tuple[float, float]:
+    """Size (in) of a map's axes for a ``dx`` × ``dy`` (m) window at equal aspect."""
+    s = min((PAGE_WIDTH - extra_width) / dx, MAX_AXES_HEIGHT / dy)
+    return dx * s, dy * s
+
+
+def field_size(dx: float, dy: float, *, extra_width: float = 1.5) -> tuple[float, float]:
+    """Figure size (in) for a map of a ``dx`` × ``dy`` (m) window at equal aspect, with room
+    for a colour bar (``extra_width``) and a legend below."""
+    w, h = axes_size(dx, dy, extra_width=extra_width)
+    return min(PAGE_WIDTH, max(w + extra_width, 3.6)), max(h + 1.6, 2.4)
+
+
+def legend_columns(fig, labels: list[str], fontsize: float = 7.5, most: int = 4) -> int:
+    """How many legend entries fit side by side across the figure."""
+    entry = max((len(t) for t in labels), default=1) * 0.6 * fontsize + 3.5 * fontsize
+    return int(max(1, min(most, len(labels), (0.95 * fig.get_figwidth() * 72) // entry)))
+
+
+def wrap(text: str, fig, fontsize: float = 9.0, share: float = 0.95) -> str:
+    """``text`` wrapped to ``share`` of the figure's width (about 0.6 em per character)."""
+    import textwrap
+
+    chars = max(20, int(share * fig.get_figwidth() * 72 / (0.6 * fontsize)))
+    return "\n".join(textwrap.wrap(text, chars)) if text else text
+
+
+def headings(fig, ax, title: str, subtitle: str = "", note: str = "") -> None:
+    """Bold figure title, a plain subtitle above the axes (left) and a small grey note
+    (right), wrapped so that they do not run into each other."""
+    if title:
+        fig.suptitle(wrap(title, fig, 9.5), x=0.02, ha="left", fontsize=9.5, fontweight="bold")
+    if subtitle:
+        share = 0.5 if note else 0.95
+        ax.set_title(
+            wrap(subtitle, fig, 8.0, share=share), fontsize=8.0, fontweight="normal", loc="left"
+        )
+    if note:
+        ax.set_title(
+            wrap(note, fig, 6.5, share=0.4),
+            loc="right",
+            fontsize=6.5,
+            fontweight="normal",
+            color="#555555",
+        )
+
+
+def save(fig, path: str | Path, *, vector: bool = True) -> list[Path]:
+    """Write ``fig`` as ``path`` with suffix .png and, if ``vector``, .svg; atomically.
+
+    The layout is computed once, for the PNG, and reused for the SVG.
+    """
+    path = Path(path)
+    out = []
+    for suffix, opts in (
+        (".png", {"dpi": PNG_DPI}),
+        (".svg", {"dpi": PNG_DPI, "metadata": {"Date": None}}),
+    ):
+        if suffix == ".svg":
+            if not vector:
+                break
+            fig.set_layout_engine("none")
+        buf = io.BytesIO()
+        fig.savefig(buf, format=suffix[1:], **opts)
+        out.append(
+            atomic_write(
+                path.with_suffix(suffix), lambda fh, b=buf: fh.write(b.getvalue()), binary=True
+            )
+        )
+    return out
