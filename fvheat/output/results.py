@@ -26,11 +26,15 @@ FIGURES_DIR = "figures"
 
 @dataclass(frozen=True)
 class TimeSeries:
-    """Saved times (s), probe temperatures (°C) and boundary heat flows (W/m) by name."""
+    """Saved times (s), probe temperatures (°C) and boundary heat flows (W/m) by name, and
+    with latent heat the frozen area (m², None without) and front positions (m, NaN where
+    there is no front) by column name without its unit suffix."""
 
     times: np.ndarray
     probes: dict[str, np.ndarray]
     flows: dict[str, np.ndarray]
+    frozen_area: np.ndarray | None = None
+    fronts: dict[str, np.ndarray] = field(default_factory=dict)
 
 
 @dataclass
@@ -118,4 +122,8 @@ class ResultsFolder:
             for k, h in enumerate(header)
             if h.startswith("heat_flow_")
         }
-        return TimeSeries(data[:, header.index("time_s")], probes, flows)
+        fronts = {
+            h.removesuffix("_m"): data[:, k] for k, h in enumerate(header) if h.startswith("front_")
+        }
+        frozen = data[:, header.index("frozen_area_m2")] if "frozen_area_m2" in header else None
+        return TimeSeries(data[:, header.index("time_s")], probes, flows, frozen, fronts)

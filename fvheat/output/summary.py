@@ -48,9 +48,7 @@ def build_summary(study: Study, overrides: tuple[str, ...] = ()) -> dict[str, An
         "energy_balance": solution.balance.as_dict(),
         **_phase_change(solution),
         **({"periodic": solution.periodic.as_dict()} if solution.periodic else {}),
-        **(
-            {"condensation": solution.condensation.as_dict()} if solution.condensation else {}
-        ),
+        **({"condensation": solution.condensation.as_dict()} if solution.condensation else {}),
         "caution": CAUTION,
     }
     if study.junction is not None:

@@ -20,6 +20,7 @@ from fvheat.output.plots.meshplot import mesh_figure
 from fvheat.output.plots.temperature import coldest_point, temperature_figure, time_label
 from fvheat.output.plots.transient import (
     flow_figure,
+    front_figure,
     probe_figure,
     snapshot_figure,
     snapshot_indices,
@@ -163,6 +164,18 @@ def _transient(folder: ResultsFolder, title: str, vrange, zoom, notes: str) -> l
                 "the body) at every saved time.",
             )
         )
+        if ts.fronts or ts.frozen_area is not None:
+            fig = front_figure(ts.times, ts.fronts, ts.frozen_area, title=title)
+            out.append(
+                _save(
+                    fig,
+                    folder,
+                    "fronts",
+                    "Phase-change fronts along the probe lines (distance from each line's start "
+                    "to where the ground is half frozen: first and far crossing) and the frozen "
+                    "area (dashed, right axis).",
+                )
+            )
     times = folder.field_times()
     if len(times) > 1:
         idx = snapshot_indices(len(times))

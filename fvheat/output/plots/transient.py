@@ -72,6 +72,35 @@ def flow_figure(times: np.ndarray, flows: dict[str, np.ndarray], *, title: str =
     return fig
 
 
+def front_figure(
+    times: np.ndarray,
+    fronts: dict[str, np.ndarray],
+    frozen_area: np.ndarray | None,
+    *,
+    title: str = "",
+):
+    """Phase-change front positions along the probe lines (m from each line's start) and
+    the frozen area (m², second axis) against time."""
+    fig = _series_figure(
+        times,
+        fronts,
+        "front position along the line (m)",
+        title,
+        "phase-change fronts (first and far crossings of half-frozen) and frozen area",
+        style.LINE_COLOURS,
+    )
+    ax = fig.axes[0]
+    ax.set_ylim(bottom=0.0)
+    ax.invert_yaxis()  # depth reads downwards
+    if frozen_area is not None:
+        t, _, _ = time_axis(np.asarray(times, float))
+        ax2 = ax.twinx()
+        ax2.plot(t, frozen_area, color="#777777", lw=1.0, ls="--", label="frozen area")
+        ax2.set_ylabel("frozen area (m²)", color="#555555")
+        ax2.set_ylim(bottom=0.0)
+    return fig
+
+
 def snapshot_indices(n_saved: int, count: int = 4) -> np.ndarray:
     """``count`` saved-field indices spread evenly from the first to the last."""
     return np.unique(np.round(np.linspace(0, n_saved - 1, min(count, n_saved))).astype(int))
