@@ -271,9 +271,8 @@ def main(argv: list[str] | None = None) -> int:
         if isinstance(err, click.exceptions.Exit):
             return err.exit_code
         raise
-    return (
-        code if isinstance(code, int) and not isinstance(code, bool) else 0
-    )  # sweep: 1 if any failed
+    # a command may return its exit code (sweep: 1 when a variant failed)
+    return code if isinstance(code, int) and not isinstance(code, bool) else 0
 
 
 if __name__ == "__main__":

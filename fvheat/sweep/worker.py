@@ -1,0 +1,67 @@
+"""What a worker process does for one variant: the same pipeline as ``fvheat run``, with
+its outputs in the variant's folder. Workers never touch the sweep's database."""
+
+from __future__ import annotations
+
+import json
+import logging
+import time
+import traceback
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from fvheat.errors import FvheatError
+from fvheat.sweep.results import main_results
+
+log = logging.getLogger(__name__)
+
+
+@dataclass(frozen=True)
+class Task:
+    """One variant to run: its database row id, absolute case file path, all overrides
+    (the sweep's fixed ones, then the variant's), absolute output folder, and whether to
+    draw the figures (the slowest output; off unless asked for)."""
+
+    id: int
+    case_file: str
+    overrides: tuple[str, ...]
+    out: str
+    plots: bool = False
+
+
+@dataclass(frozen=True)
+class Outcome:
+    """``status`` "done" (with ``results``) or "failed" (with a one-line ``message``);
+    ``seconds`` is the wall time the worker spent."""
+
+    status: str
+    message: str | None = None
+    results: dict[str, float] = field(default_factory=dict)
+    seconds: float = 0.0
+
+
+def run_task(task: Task) -> Outcome:
+    """Run one variant exactly as ``fvheat run CASE --set ... --out DIR --quiet --no-plots``
+    (or with figures, when ``task.plots``) does and return its main results; any error
+    becomes a failed :class:`Outcome`, never an exception."""
+    from fvheat.cli.run_command import run_case  # the very function ``fvheat run`` calls
+
+    t0 = time.perf_counter()
+    out = Path(task.out)
+    try:
+        run_case(
+            Path(task.case_file), out, task.overrides, quiet=True, as_json=False, plots=task.plots
+        )
+        summary = json.loads((out / "summary.json").read_text(encoding="utf-8"))
+        results = main_results(summary)
+    except FvheatError as err:
+        return Outcome("failed", _one_line(str(err)), seconds=time.perf_counter() - t0)
+    except Exception as err:  # a bug or a resource problem: record it, keep sweeping
+        log.debug("variant %d failed:\n%s", task.id, traceback.format_exc())
+        message = f"{type(err).__name__}: {_one_line(str(err))}"
+        return Outcome("failed", message, seconds=time.perf_counter() - t0)
+    return Outcome("done", None, results, time.perf_counter() - t0)
+
+
+def _one_line(text: str) -> str:
+    return " ".join(text.split())
