@@ -40,7 +40,7 @@ def run(
     out: Annotated[
         Path | None,
         typer.Option(
-            "--out", "-o", help="Output folder [default: CASE-STEM_results].", show_default=False
+            "--out", "-o", help="Output folder (default: CASE-STEM_results).", show_default=False
         ),
     ] = None,
     set_: SetOpt = None,

@@ -12,7 +12,9 @@ def print_library() -> None:
     from fvheat.properties.library import library
 
     t = Table(
-        title=escape("built-in materials: use by name in a region, or [materials.X] library = NAME"),
+        title=escape(
+            "built-in materials: use by name in a region, or [materials.X] library = NAME"
+        ),
         title_justify="left",
     )
     for col, just in (

@@ -4,13 +4,14 @@ from __future__ import annotations
 
 import json
 import sys
-import time
 from pathlib import Path
 
 from fvheat.case.load import load_case
 from fvheat.cautions import CAUTION
 from fvheat.mesh.rectilinear import build_mesh
-from fvheat.study import Study, run_study
+from fvheat.run import run_to_folder
+from fvheat.simulate import Progress
+from fvheat.study import Study
 
 
 def default_out(case_file: Path) -> Path:
@@ -28,33 +29,20 @@ def run_case(
     grid_check: bool | None = None,
     plots: bool = True,
 ) -> Study:
-    """Validate (before anything is written), solve, write the outputs, print results."""
-    from fvheat.output.summary import build_summary, write_summary
-    from fvheat.output.timeseries import write_timeseries
-
-    case = load_case(case_file, overrides)
-    mesh = build_mesh(case)
+    """:func:`fvheat.run.run_to_folder`, with a progress bar and the results printed."""
     out = out if out is not None else default_out(case_file)
-    t0 = time.perf_counter()
-    if case.transient and not quiet and not as_json:
-        study = _with_progress(
-            lambda p: run_study(case, mesh=mesh, progress=p, check_grid=grid_check)
-        )
-    else:
-        study = run_study(case, mesh=mesh, check_grid=grid_check)
-    elapsed = time.perf_counter() - t0
-    summary = build_summary(study, overrides)
-    summary["solve_seconds"] = elapsed
-    write_summary(out / "summary.json", summary)
-    if case.transient:
-        write_timeseries(out / "timeseries.csv", study.solution)
-    from fvheat.output.folder import write_outputs
+    show = not quiet and not as_json
 
-    write_outputs(study, out, plots=plots)
+    def job(progress: Progress | None) -> tuple[Study, dict]:
+        return run_to_folder(
+            case_file, out, overrides, grid_check=grid_check, plots=plots, progress=progress
+        )
+
+    study, summary = _with_progress(job) if show else job(None)
     if as_json:
         sys.stdout.write(json.dumps(summary, indent=2) + "\n")
     elif not quiet:
-        _print_results(study, out, elapsed)
+        _print_results(study, out, summary["solve_seconds"])
         if study.junction is not None:
             for w in study.junction.warnings:
                 print(f"fvheat: warning: {w}", file=sys.stderr)

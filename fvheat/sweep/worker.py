@@ -3,7 +3,6 @@ its outputs in the variant's folder. Workers never touch the sweep's database.""
 
 from __future__ import annotations
 
-import json
 import logging
 import time
 import traceback
@@ -44,15 +43,13 @@ def run_task(task: Task) -> Outcome:
     """Run one variant exactly as ``fvheat run CASE --set ... --out DIR --quiet --no-plots``
     (or with figures, when ``task.plots``) does and return its main results; any error
     becomes a failed :class:`Outcome`, never an exception."""
-    from fvheat.cli.run_command import run_case  # the very function ``fvheat run`` calls
+    from fvheat.run import run_to_folder  # the very pipeline ``fvheat run`` calls
 
     t0 = time.perf_counter()
-    out = Path(task.out)
     try:
-        run_case(
-            Path(task.case_file), out, task.overrides, quiet=True, as_json=False, plots=task.plots
+        _, summary = run_to_folder(
+            Path(task.case_file), Path(task.out), task.overrides, plots=task.plots
         )
-        summary = json.loads((out / "summary.json").read_text(encoding="utf-8"))
         results = main_results(summary)
     except FvheatError as err:
         return Outcome("failed", _one_line(str(err)), seconds=time.perf_counter() - t0)
