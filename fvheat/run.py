@@ -25,7 +25,6 @@ def run_to_folder(
     """Validate and mesh (before anything is written), solve, then write ``summary.json``,
     ``timeseries.csv`` (transient) and the other outputs into ``out``. Returns the study and
     the summary dictionary (with ``solve_seconds``, the wall time of the solves)."""
-    from fvheat.output.folder import write_outputs
     from fvheat.output.summary import build_summary, write_summary
     from fvheat.output.timeseries import write_timeseries
 
@@ -38,5 +37,7 @@ def run_to_folder(
     write_summary(out / "summary.json", summary)
     if case.transient:
         write_timeseries(out / "timeseries.csv", study.solution)
+    from fvheat.output.folder import write_outputs  # imported once the summary is out
+
     write_outputs(study, out, plots=plots)
     return study, summary

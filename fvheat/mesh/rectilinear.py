@@ -110,27 +110,34 @@ def faces_from_grid(
             return dy[j], half_x[i], half_x[i + 1], x[i], yc[j]
         return dx[i], half_y[j], half_y[j + 1], xc[i], y[j]
 
-    inner, outer = [], []
-    for axis, pad in ((0, ((0, 0), (1, 1))), (1, ((1, 1), (0, 0)))):
-        (ji, ii, a, b), (ja, ia, ca), (jb, ib, cb) = _axis_faces(
-            np.pad(index, pad, constant_values=-1), axis
-        )
-        area, h_a, h_b, fx, fy = geometry(axis, ji, ii)
-        inner.append((a, b, area, h_a, h_b, fx, fy, np.full(a.size, axis)))
+    # one pass per axis finds the faces; the output arrays are filled slice by slice
+    groups = [
+        _axis_faces(np.pad(index, pad, constant_values=-1), axis)
+        for axis, pad in ((0, ((0, 0), (1, 1))), (1, ((1, 1), (0, 0))))
+    ]
+    nf = sum(g[0][0].size for g in groups)
+    nb = sum(g[1][0].size + g[2][0].size for g in groups)
+    own, nbr = np.empty(nf, dtype=np.int64), np.empty(nf, dtype=np.int64)
+    area, d_o, d_n = np.empty(nf), np.empty(nf), np.empty(nf)
+    face_centre, face_normal = np.empty((nf, 2)), np.zeros((nf, 2))
+    b_cell = np.empty(nb, dtype=np.int64)
+    b_area, b_dist = np.empty(nb), np.empty(nb)
+    b_centre, b_normal = np.empty((nb, 2)), np.zeros((nb, 2))
+    f0 = b0 = 0
+    for axis, ((j, i, a, b), *exterior) in enumerate(groups):
+        s = slice(f0, f0 + j.size)
+        own[s], nbr[s] = a, b
+        area[s], d_o[s], d_n[s], face_centre[s, 0], face_centre[s, 1] = geometry(axis, j, i)
+        face_normal[s, axis] = 1.0
+        f0 = s.stop
         # the a-cell's exterior face looks to +axis, the b-cell's to −axis
-        area, h_a, _, fx, fy = geometry(axis, ja, ia)
-        outer.append((ca, area, h_a, fx, fy, np.full(ca.size, axis), np.ones(ca.size)))
-        area, _, h_b, fx, fy = geometry(axis, jb, ib)
-        outer.append((cb, area, h_b, fx, fy, np.full(cb.size, axis), -np.ones(cb.size)))
-    own, nbr, area, d_o, d_n, fx, fy, f_axis = (np.concatenate(c) for c in zip(*inner, strict=True))
-    b_cell, b_area, b_dist, bx, by, b_axis, b_sign = (
-        np.concatenate(c) for c in zip(*outer, strict=True)
-    )
-    nf, nb = own.size, b_cell.size
-    face_normal = np.zeros((nf, 2))
-    face_normal[np.arange(nf), f_axis] = 1.0
-    b_normal = np.zeros((nb, 2))
-    b_normal[np.arange(nb), b_axis] = b_sign
+        for side, (j, i, cell) in zip((1.0, -1.0), exterior, strict=True):
+            s = slice(b0, b0 + j.size)
+            length, h_a, h_b, fx, fy = geometry(axis, j, i)
+            b_cell[s], b_area[s], b_dist[s] = cell, length, h_a if side > 0 else h_b
+            b_centre[s, 0], b_centre[s, 1] = fx, fy
+            b_normal[s, axis] = side
+            b0 = s.stop
     return Mesh(
         centres=centres,
         volumes=volumes,
@@ -141,12 +148,12 @@ def faces_from_grid(
         face_area=area,
         d_owner=d_o,
         d_neighbour=d_n,
-        face_centre=np.column_stack([fx, fy]),
+        face_centre=face_centre,
         face_normal=face_normal,
         b_cell=b_cell,
         b_area=b_area,
         b_dist=b_dist,
-        b_centre=np.column_stack([bx, by]),
+        b_centre=b_centre,
         b_normal=b_normal,
         b_boundary=np.full(nb, -1, dtype=np.int32),
         b_exchange=np.ones(nb),

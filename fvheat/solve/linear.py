@@ -3,9 +3,10 @@
 Direct: SuperLU with the minimum-degree ordering on Aᵀ+A and symmetric mode (2–2.5× faster
 than the default column ordering on these matrices), factorised once and reused for every
 right-hand side. Iterative: conjugate gradients preconditioned by one V-cycle of a
-Ruge–Stüben algebraic multigrid hierarchy (pyamg), whose cost grows about linearly with the
-cell count. ``"auto"`` picks AMG-CG for large steady grids and the factorisation otherwise
-(limits in :class:`~fvheat.case.model.SolverSettings`, the case's ``[solver]`` table).
+Ruge–Stüben algebraic multigrid hierarchy (pyamg), whose cost and memory grow nearly
+linearly with the cell count (a factorisation's grow faster). ``"auto"`` picks AMG-CG for
+large steady grids and the factorisation otherwise (limits in
+:class:`~fvheat.case.model.SolverSettings`, the case's ``[solver]`` table).
 
 Every AMG-CG solve ends with a Galerkin correction along the constant vector: for a
 symmetric positive-definite A this never increases the error in the energy norm, and it
@@ -70,8 +71,8 @@ _controller = None
 
 @contextmanager
 def single_thread() -> Iterator[None]:
-    """Limit BLAS to one thread: with two OpenBLAS threads pyamg's setup time is erratic
-    (up to 30× slower) and the CG vector operations gain nothing."""
+    """Limit BLAS to one thread: with two OpenBLAS threads pyamg's setup time was measured
+    erratic on a 2-core machine (up to 30× slower), and the CG vector operations gain nothing."""
     global _controller
     if _controller is None:
         from threadpoolctl import ThreadpoolController
@@ -116,7 +117,7 @@ class AmgSolver:
         with single_thread():
             self._ml = pyamg.ruge_stuben_solver(self.a)
         log.debug("AMG hierarchy: %d levels", len(self._ml.levels))
-        self._precond = self._ml.aspreconditioner(cycle="V")
+        self._precond = v_cycle(self._ml)
         self._op: sp.csr_matrix | spla.LinearOperator = self.a
         self._total = float(self.a.sum())  # 1ᵀ·A·1, for the constant-vector correction
 
@@ -159,6 +160,28 @@ class AmgSolver:
             x += float(np.sum(b - self._op @ x)) / self._total
         log.debug("AMG-CG: %d iterations", count)
         return x
+
+
+def v_cycle(ml) -> spla.LinearOperator:
+    """One V-cycle of the pyamg hierarchy ``ml`` from a zero guess, as a preconditioner.
+
+    The same cycle as ``ml.aspreconditioner("V")`` without the two residual norms on the
+    finest level that pyamg's ``solve`` computes around every cycle for its stopping test.
+    """
+    levels = ml.levels
+
+    def cycle(k: int, b: np.ndarray) -> np.ndarray:
+        if k == len(levels) - 1:
+            return np.asarray(ml.coarse_solver(levels[k].A, b)).reshape(b.shape)
+        lev = levels[k]
+        x = np.zeros_like(b)
+        lev.presmoother(lev.A, x, b)
+        x += lev.P @ cycle(k + 1, lev.R @ (b - lev.A @ x))
+        lev.postsmoother(lev.A, x, b)
+        return x
+
+    a = levels[0].A
+    return spla.LinearOperator(a.shape, matvec=lambda b: cycle(0, np.ravel(b)), dtype=a.dtype)
 
 
 def make_solver(

@@ -91,6 +91,17 @@ class NewtonSolver:
         """A − s·diag(dr)."""
         return (self.a - sp.diags(self.scale * dr)).tocsr() if np.any(dr) else self.a
 
+    def solve_linear(self, b: np.ndarray, guess: np.ndarray) -> np.ndarray:
+        """Solve A·x = ``b`` (no radiative terms) with the kept factorisation or hierarchy;
+        AMG-CG starts from ``guess``."""
+        if self._solver is None:
+            self._prepare(np.zeros(b.size))
+        assert self._solver is not None
+        self.iterations += 1
+        if self.kind == "amg":
+            return guess + self._solver.solve(b - self.a @ guess)
+        return self._solver.solve(b)
+
     def solve(self, residual: Residual, x0: np.ndarray) -> np.ndarray:
         """Iterate from ``x0``; ``residual(x)`` returns (R(x), ∂r/∂x diagonal)."""
         x = x0.copy()

@@ -15,9 +15,8 @@ import numpy as np
 import scipy.sparse as sp
 
 from fvheat.assembly.system import System
-from fvheat.solve.linear import Method
+from fvheat.solve.linear import SolverChoice
 from fvheat.solve.nonlinear import NewtonSolver
-
 
 #: what a stepper yields after each step: time (s), cell temperatures (°C), and the heat that
 #: entered through each boundary during the step (J/m), θ-weighted as the scheme balanced it
@@ -32,7 +31,7 @@ def evolve(
     *,
     theta: float = 1.0,
     t0: float = 0.0,
-    method: Method = "auto",
+    method: SolverChoice = "auto",
 ) -> Iterator[Step]:
     """Yield (t, T, boundary heat) after each of ``n_steps`` steps of ``step`` s from
     (t0, ``temp0``)."""
@@ -41,12 +40,15 @@ def evolve(
     newton = NewtonSolver(a, theta, method=method, repeated=True, linear=not system.nonlinear)
     temp = temp0.astype(float).copy()
     t = t0
-    f_old, _ = system.heat_in(temp, t)
+    explicit = theta < 1.0  # the old time level enters the balance
+    f_old = system.heat_in(temp, t)[0] if explicit else None
     q_old = system.boundary_flows(temp, t)
     for k in range(1, n_steps + 1):
         t_new = t0 + k * step
         # all terms of the balance that do not depend on T¹
-        c = c_dt * temp + (1.0 - theta) * f_old + theta * system.sources(t_new)
+        c = c_dt * temp + theta * system.sources(t_new)
+        if f_old is not None:
+            c += (1.0 - theta) * f_old
 
         def residual(
             x: np.ndarray, t_new: float = t_new, c: np.ndarray = c
@@ -54,9 +56,13 @@ def evolve(
             r, dr = system.surface.radiative_terms(x, t_new, system.n)
             return c - a @ x + theta * r, dr
 
-        temp = newton.solve(residual, temp)
+        if system.nonlinear:
+            temp = newton.solve(residual, temp)
+        else:  # a·T¹ = c: one back-substitution
+            temp = newton.solve_linear(c, temp)
         t = t_new
-        f_old, _ = system.heat_in(temp, t)
+        if explicit:
+            f_old = system.heat_in(temp, t)[0]
         q_new = system.boundary_flows(temp, t)
         yield t, temp, step * (theta * q_new + (1.0 - theta) * q_old)
         q_old = q_new
