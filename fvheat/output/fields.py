@@ -116,12 +116,20 @@ def from_meshio(mesh, meta: dict[str, Any], time: float = 0.0) -> FieldView:
     )
 
 
+#: above this many cells VTU data are written uncompressed (zlib costs four times the write)
+COMPRESS_LIMIT = 250_000
+
+
 def write_vtu(path: str | Path, view: FieldView) -> Path:
-    """Write one field as VTU (binary, zlib), atomically."""
+    """Write one field as binary VTU (zlib-compressed up to ``COMPRESS_LIMIT`` cells),
+    atomically."""
     import meshio
 
     m = to_meshio(view)
-    return atomic_write_file(path, lambda tmp: meshio.write(tmp, m, file_format="vtu"))
+    compression = "zlib" if view.centres.shape[0] <= COMPRESS_LIMIT else None
+    return atomic_write_file(
+        path, lambda tmp: meshio.vtu.write(tmp, m, binary=True, compression=compression)
+    )
 
 
 def write_pvd(path: str | Path, entries: list[tuple[float, str]]) -> Path:

@@ -16,11 +16,15 @@ from fvheat.study import Study
 log = logging.getLogger(__name__)
 
 CELLS_FILE = "cells.csv"
+#: above this many cells cells.csv is not written (the VTU holds the same data, in binary):
+#: text output of millions of values costs more than the solve
+CELLS_CSV_LIMIT = 250_000
 
 
 def write_outputs(study: Study, out: str | Path, *, plots: bool = True) -> list[Path]:
-    """Write inputs.json, fields/, cells.csv, figures/ (unless ``plots`` is False) and
-    report.html / report.md into ``out``, which must already hold summary.json."""
+    """Write inputs.json, fields/, cells.csv (up to ``CELLS_CSV_LIMIT`` cells), figures/
+    (unless ``plots`` is False) and report.html / report.md into ``out``, which must
+    already hold summary.json."""
     out = Path(out)
     sol = study.solution
     written = [write_inputs(out, sol.case, sol.mesh)]
@@ -28,7 +32,12 @@ def write_outputs(study: Study, out: str | Path, *, plots: bool = True) -> list[
         log.warning("no rectilinear grid: field files and figures are not written")
         return [*written, *write_report(ResultsFolder.open(out))]
     written += write_fields(sol, out)
-    written.append(write_cells_csv(out / CELLS_FILE, field_view(sol)))
+    if sol.mesh.n_cells <= CELLS_CSV_LIMIT:
+        written.append(write_cells_csv(out / CELLS_FILE, field_view(sol)))
+    else:
+        log.info(
+            "%d cells: cells.csv not written (see fields/ for the same data)", sol.mesh.n_cells
+        )
     folder = ResultsFolder.open(out)
     if plots:
         from fvheat.output.plots.figures import draw_figures
