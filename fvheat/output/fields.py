@@ -116,17 +116,17 @@ def from_meshio(mesh, meta: dict[str, Any], time: float = 0.0) -> FieldView:
     )
 
 
-#: above this many cells VTU data are written uncompressed (zlib costs four times the write)
-COMPRESS_LIMIT = 250_000
+#: VTU data are zlib-compressed while a run's field files hold at most this many cell values
+#: in all; beyond, they are written uncompressed (compression costs four times the write)
+COMPRESS_BUDGET = 2_500_000
 
 
-def write_vtu(path: str | Path, view: FieldView) -> Path:
-    """Write one field as binary VTU (zlib-compressed up to ``COMPRESS_LIMIT`` cells),
-    atomically."""
+def write_vtu(path: str | Path, view: FieldView, *, compress: bool = True) -> Path:
+    """Write one field as binary VTU (zlib-compressed when ``compress``), atomically."""
     import meshio
 
     m = to_meshio(view)
-    compression = "zlib" if view.centres.shape[0] <= COMPRESS_LIMIT else None
+    compression = "zlib" if compress else None
     return atomic_write_file(
         path, lambda tmp: meshio.vtu.write(tmp, m, binary=True, compression=compression)
     )
@@ -158,8 +158,9 @@ def write_fields(solution: Solution, out: str | Path) -> list[Path]:
             (t, f, f"field_{k:04d}.vtu")
             for k, (t, f) in enumerate(zip(h.times, h.fields, strict=True))
         ]
+    compress = solution.mesh.n_cells * len(states) <= COMPRESS_BUDGET
     for t, temp, name in states:
-        written.append(write_vtu(folder / name, field_view(solution, temp, t)))
+        written.append(write_vtu(folder / name, field_view(solution, temp, t), compress=compress))
     entries = [(float(t), name) for t, _, name in states]
     if len(states) > 1 or solution.case.transient:
         written.append(write_pvd(folder / "field.pvd", entries))

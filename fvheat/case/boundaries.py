@@ -1,0 +1,155 @@
+"""Boundaries: surface conditions on segments of the exterior (``[[boundaries]]``)."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from fvheat.case.fields import (
+    Context,
+    Invalid,
+    describe,
+    join,
+    name,
+    number,
+    point,
+    table,
+    tables,
+)
+from fvheat.case.model import (
+    Boundary,
+)
+from fvheat.case.signals import Signal
+from fvheat.case.values import read_signal
+
+_SURFACE_KEYS = ("resistance", "convection", "emissivity", "radiant_temperature")
+_BOUNDARY_KEYS = ("name", "edges", "air_temperature", *_SURFACE_KEYS, "temperature", "heat_flux")
+
+
+def parse_boundaries(value: Any, ctx: Context) -> tuple[Boundary, ...]:
+    if value is None:
+        return ()
+    seen: dict[str, str] = {}
+    return tuple(
+        _boundary(tbl, join("boundaries", i), seen, ctx)
+        for i, tbl in enumerate(tables(value, "boundaries"))
+    )
+
+
+def _boundary(tbl: dict, path: str, seen: dict[str, str], ctx: Context) -> Boundary:
+    table(tbl, path, allowed=_BOUNDARY_KEYS, required=("name", "edges"))
+    bname = name(tbl["name"], join(path, "name"), seen)
+    edges = _edges(tbl["edges"], join(path, "edges"))
+    has_air, has_temp, has_flux = (
+        k in tbl for k in ("air_temperature", "temperature", "heat_flux")
+    )
+    surface_keys = [k for k in _SURFACE_KEYS if k in tbl]
+    if has_air and has_temp:
+        raise Invalid(
+            join(path, "temperature"),
+            "a boundary either exchanges heat with air (air_temperature) or has a fixed "
+            "temperature, not both",
+        )
+    if surface_keys and not has_air:
+        if has_temp:
+            raise Invalid(
+                join(path, surface_keys[0]),
+                "not allowed with a fixed temperature (it belongs to surface exchange with "
+                "air_temperature)",
+            )
+        raise Invalid(
+            join(path, "air_temperature"),
+            f"required with {surface_keys[0]}: the air temperature (°C) of the surface exchange",
+        )
+    if has_temp and has_flux:
+        raise Invalid(
+            join(path, "heat_flux"),
+            "not allowed with a fixed temperature (the temperature fixes the heat flow)",
+        )
+
+    def signal(key: str, *, is_temperature: bool) -> Signal | None:
+        if key not in tbl:
+            return None
+        return read_signal(tbl[key], join(path, key), ctx, is_temperature=is_temperature)
+
+    heat_flux = signal("heat_flux", is_temperature=False)
+    if has_temp:
+        return Boundary(
+            name=bname,
+            edges=edges,
+            kind="temperature",
+            temperature=signal("temperature", is_temperature=True),
+        )
+    if not has_air:
+        if heat_flux is None:
+            raise Invalid(
+                path,
+                "no condition given: add air_temperature with resistance (or convection and/or "
+                "emissivity), or temperature, or heat_flux",
+            )
+        return Boundary(name=bname, edges=edges, kind="flux", heat_flux=heat_flux)
+
+    air = signal("air_temperature", is_temperature=True)
+    resistance = number(tbl, "resistance", path, required=False, gt=0)
+    if resistance is not None:
+        for key in ("convection", "emissivity"):
+            if key in tbl:
+                raise Invalid(
+                    join(path, key),
+                    "not allowed with resistance (a combined surface resistance already "
+                    "includes convection and radiation); give resistance, or convection "
+                    "and/or emissivity",
+                )
+        convection = 1.0 / resistance
+    elif "convection" in tbl or "emissivity" in tbl:
+        convection = number(tbl, "convection", path, required=False, default=0.0, ge=0)
+    else:
+        raise Invalid(
+            join(path, "resistance"),
+            "a surface boundary (air_temperature) needs resistance (m²·K/W), or convection "
+            "(W/(m²·K)) and/or emissivity",
+        )
+    emissivity = number(tbl, "emissivity", path, required=False, default=0.0, gt=0, le=1)
+    if "radiant_temperature" in tbl and "emissivity" not in tbl:
+        raise Invalid(
+            join(path, "radiant_temperature"),
+            "needs emissivity (radiation is exchanged only when emissivity is given)",
+        )
+    radiant = signal("radiant_temperature", is_temperature=True) or air
+    return Boundary(
+        name=bname,
+        edges=edges,
+        kind="surface",
+        convection=convection,
+        emissivity=emissivity,
+        air_temperature=air,
+        radiant_temperature=radiant,
+        heat_flux=heat_flux,
+        resistance=resistance,
+    )
+
+
+Segment = tuple[tuple[float, float], tuple[float, float]]
+
+
+def _edges(value: Any, path: str) -> tuple[Segment, ...]:
+    if not isinstance(value, list) or not value:
+        raise Invalid(
+            path,
+            f"expected a non-empty array of segments [[[x0, y0], [x1, y1]], ...] (m), "
+            f"got {describe(value)}",
+        )
+    segments = []
+    for k, seg in enumerate(value):
+        spath = join(path, k)
+        if not (isinstance(seg, list) and len(seg) == 2 and all(isinstance(q, list) for q in seg)):
+            hint = ""
+            if isinstance(seg, list) and all(isinstance(v, int | float) for v in seg):
+                hint = "; for a single segment write edges = [[[x0, y0], [x1, y1]]]"
+            raise Invalid(
+                spath, f"expected a segment [[x0, y0], [x1, y1]], got {describe(seg)}{hint}"
+            )
+        start, end = point(seg[0], join(spath, 0)), point(seg[1], join(spath, 1))
+        if start == end:
+            raise Invalid(spath, "the segment has zero length (its two points coincide)")
+        segments.append((start, end))
+    return tuple(segments)

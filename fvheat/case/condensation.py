@@ -1,0 +1,75 @@
+"""The ``[condensation]`` table: surfaces and room humidity for condensation-risk hours."""
+
+from __future__ import annotations
+
+from typing import Any
+
+import numpy as np
+
+from fvheat.case.fields import (
+    Context,
+    Invalid,
+    describe,
+    join,
+    number,
+    table,
+)
+from fvheat.case.model import (
+    Condensation,
+)
+from fvheat.case.signals import Cosine, Series
+from fvheat.case.values import read_signal
+
+
+def parse_condensation(value: Any, ctx: Context) -> Condensation | None:
+    """``[condensation]``: surfaces to check, room air temperature and humidity (%)."""
+    if value is None:
+        return None
+    path = "condensation"
+    tbl = table(
+        value,
+        path,
+        allowed=("boundaries", "air_temperature", "relative_humidity", "mould_threshold"),
+        required=("boundaries", "relative_humidity"),
+    )
+    known = {b.name: b for b in ctx.parsed["boundaries"]}
+    names = tbl["boundaries"]
+    if isinstance(names, str):
+        names = [names]
+    if not isinstance(names, list) or not names or not all(isinstance(n, str) for n in names):
+        raise Invalid(
+            join(path, "boundaries"), f"expected a list of boundary names, got {describe(names)}"
+        )
+    for n in names:
+        if n not in known:
+            raise Invalid(
+                join(path, "boundaries"),
+                f"no boundary is called {n!r}; boundaries: {', '.join(known)}",
+            )
+    if "air_temperature" in tbl:
+        air = read_signal(
+            tbl["air_temperature"], join(path, "air_temperature"), ctx, is_temperature=True
+        )
+    else:
+        air = known[names[0]].air_temperature or known[names[0]].temperature
+        if air is None:
+            raise Invalid(
+                join(path, "air_temperature"),
+                f"required: boundary {names[0]!r} has no air temperature to take the room's from",
+            )
+    rh = read_signal(
+        tbl["relative_humidity"], join(path, "relative_humidity"), ctx, is_temperature=False
+    )
+    values = rh.values if isinstance(rh, Series) else np.array([rh.at(0.0)])
+    if isinstance(rh, Cosine):
+        values = np.array([rh.mean - abs(rh.amplitude), rh.mean + abs(rh.amplitude)])
+    if np.any(values <= 0) or np.any(values > 100):
+        raise Invalid(join(path, "relative_humidity"), "must stay within (0, 100] %")
+    return Condensation(
+        boundaries=tuple(names),
+        air_temperature=air,
+        relative_humidity=rh,
+        mould_threshold=number(
+            tbl, "mould_threshold", path, required=False, default=80.0, gt=0, le=100
+        ),
+    )

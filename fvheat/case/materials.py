@@ -1,0 +1,131 @@
+"""Materials: ``[materials.NAME]`` tables and built-in library entries."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from fvheat.case.fields import (
+    Context,
+    Invalid,
+    describe,
+    join,
+    name,
+    number,
+    table,
+    temperature,
+    to_number,
+)
+from fvheat.case.model import (
+    Material,
+    Phase,
+)
+from fvheat.properties.library import LibraryMaterial, UnknownMaterialError, lookup
+
+_MATERIAL_KEYS = (
+    "library",
+    "conductivity",
+    "density",
+    "specific_heat",
+    "emissivity",
+    "latent_heat",
+    "phase_change",
+    "frozen",
+)
+
+
+def parse_materials(value: Any, ctx: Context) -> dict[str, Material]:
+    """``[materials.NAME]`` tables; optional when regions use library names only."""
+    if value is None:
+        return {}
+    if not isinstance(value, dict):
+        raise Invalid(
+            "materials", f"expected a table of [materials.NAME] tables, got {describe(value)}"
+        )
+    seen: dict[str, str] = {}
+    return {key: _material(key, spec, seen) for key, spec in value.items()}
+
+
+def _material(key: str, spec: Any, seen: dict[str, str]) -> Material:
+    path = join("materials", key)
+    name(key, path, seen)
+    tbl = table(spec, path, allowed=_MATERIAL_KEYS)
+    latent = number(tbl, "latent_heat", path, required=False, ge=0)
+    phase_change = None
+    if "phase_change" in tbl:
+        solidus, liquidus = _phase_change(tbl["phase_change"], join(path, "phase_change"))
+        phase_change = (solidus, liquidus)
+    if latent is not None and phase_change is None:
+        raise Invalid(
+            join(path, "phase_change"),
+            "required with latent_heat: [solidus, liquidus] in °C, the range it is released over",
+        )
+    if phase_change is not None and latent is None:
+        raise Invalid(
+            join(path, "latent_heat"),
+            "required with phase_change: the latent heat in J/kg (0 for none)",
+        )
+    frozen = None
+    if "frozen" in tbl:
+        if phase_change is None:
+            raise Invalid(
+                join(path, "frozen"), "needs phase_change and latent_heat (when does it freeze?)"
+            )
+        fpath = join(path, "frozen")
+        ftbl = table(tbl["frozen"], fpath, allowed=("conductivity", "density", "specific_heat"))
+        frozen = Phase(**{k: number(ftbl, k, fpath, required=False, gt=0) for k in ftbl})
+    base = _library_entry(tbl["library"], join(path, "library")) if "library" in tbl else None
+    return Material(
+        name=key,
+        conductivity=number(
+            tbl,
+            "conductivity",
+            path,
+            required=base is None,
+            default=base.conductivity if base else None,
+            gt=0,
+        ),
+        density=number(tbl, "density", path, required=False, default=base and base.density, gt=0),
+        specific_heat=number(
+            tbl, "specific_heat", path, required=False, default=base and base.specific_heat, gt=0
+        ),
+        emissivity=number(
+            tbl, "emissivity", path, required=False, default=base and base.emissivity, gt=0, le=1
+        ),
+        latent_heat=latent,
+        phase_change=phase_change,
+        frozen=frozen,
+    )
+
+
+def _library_entry(value: Any, path: str) -> LibraryMaterial:
+    """The built-in material called ``value`` (``fvheat materials`` lists them)."""
+    if not isinstance(value, str):
+        raise Invalid(path, f"expected a library material name, got {describe(value)}")
+    try:
+        return lookup(value)
+    except UnknownMaterialError as err:
+        raise Invalid(path, str(err).strip("'\"")) from None
+
+
+def library_material(entry: LibraryMaterial) -> Material:
+    return Material(
+        name=entry.name,
+        conductivity=entry.conductivity,
+        density=entry.density,
+        specific_heat=entry.specific_heat,
+        emissivity=entry.emissivity,
+    )
+
+
+def _phase_change(value: Any, path: str) -> tuple[float, float]:
+    if not isinstance(value, list) or len(value) != 2:
+        raise Invalid(path, f"expected [solidus, liquidus] in °C, got {describe(value)}")
+    solidus = temperature(to_number(value[0], join(path, 0)), join(path, 0))
+    liquidus = temperature(to_number(value[1], join(path, 1)), join(path, 1))
+    if not solidus < liquidus:
+        raise Invalid(
+            path,
+            f"solidus {solidus:g} °C must be below liquidus {liquidus:g} °C "
+            "(phase_change = [solidus, liquidus])",
+        )
+    return solidus, liquidus

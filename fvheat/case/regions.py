@@ -1,0 +1,236 @@
+"""Regions: painted boxes and polygons of a material or an air cavity (``[[regions]]``)."""
+
+from __future__ import annotations
+
+from typing import Any
+
+import numpy as np
+
+from fvheat.case.fields import (
+    Context,
+    Invalid,
+    describe,
+    join,
+    number,
+    point,
+    string,
+    table,
+    tables,
+    to_number,
+)
+from fvheat.case.materials import library_material
+from fvheat.case.model import (
+    Material,
+    Region,
+)
+from fvheat.properties.cavity import cavity_dimensions, equivalent_conductivity
+from fvheat.properties.library import UnknownMaterialError, lookup
+
+
+def parse_regions(value: Any, ctx: Context) -> tuple[Region, ...]:
+    if value is None:
+        raise Invalid("regions", "required: at least one [[regions]] entry")
+    entries = tables(value, "regions")
+    if not entries:
+        raise Invalid("regions", "define at least one [[regions]] entry")
+    # library materials and cavities used by regions join the case's materials
+    materials: dict[str, Material] = ctx.parsed["materials"]
+    return tuple(_region(tbl, join("regions", i), materials) for i, tbl in enumerate(entries))
+
+
+def _region(tbl: dict, path: str, materials: dict[str, Material]) -> Region:
+    table(tbl, path, allowed=("material", "cavity", "box", "polygon"))
+    if ("material" in tbl) == ("cavity" in tbl):
+        raise Invalid(
+            path, 'give exactly one of material = "name" or cavity = { heat_flow = "+x", ... }'
+        )
+    vertices, is_box = _shape(tbl, path)
+    if "cavity" in tbl:
+        material = _cavity_material(tbl["cavity"], join(path, "cavity"), vertices)
+        materials[material.name] = material
+        return Region(material=material.name, vertices=vertices, is_box=is_box)
+    material = string(tbl, "material", path)
+    if material not in materials:
+        try:
+            materials[material] = library_material(lookup(material))
+        except UnknownMaterialError:
+            known = ", ".join(materials)
+            raise Invalid(
+                join(path, "material"),
+                f"unknown material {material!r}: define [materials.{material}] or use a library "
+                f"name (fvheat materials lists them); defined: {known}",
+            ) from None
+    return Region(material=material, vertices=vertices, is_box=is_box)
+
+
+_CAVITY_KEYS = ("heat_flow", "emissivity", "ventilation", "section", "delta_t", "mean_temperature")
+#: air properties for transient runs through a cavity (ISO 10456 Table 3 air at 10 °C, from memory)
+_AIR_DENSITY, _AIR_SPECIFIC_HEAT = 1.23, 1008.0
+
+
+def _cavity_material(value: Any, path: str, vertices: np.ndarray) -> Material:
+    """An unventilated or slightly ventilated air cavity as a solid of equivalent conductivity
+    (ISO 10077-2 method, :func:`fvheat.properties.cavity.equivalent_conductivity`) sized by
+    the region's bounding box."""
+    tbl = table(value, path, allowed=_CAVITY_KEYS, required=("heat_flow",))
+    flow = string(tbl, "heat_flow", path, choices=("+x", "-x", "+y", "-y"))
+    section = string(
+        tbl, "section", path, required=False, default="vertical", choices=("vertical", "plan")
+    )
+    eps = number(tbl, "emissivity", path, required=False, default=0.9, gt=0, le=1)
+    vent = string(
+        tbl, "ventilation", path, required=False, default="none", choices=("none", "slight")
+    )
+    delta_t = number(tbl, "delta_t", path, required=False, default=10.0, gt=0)
+    t_mean = number(tbl, "mean_temperature", path, required=False, default=10.0, gt=-100, lt=100)
+    width, height = np.ptp(vertices, axis=0)
+    dims = cavity_dimensions(
+        float(width),
+        float(height),
+        flow[1],
+        1 if flow[0] == "+" else -1,
+        vertical_axis="y" if section == "vertical" else None,
+    )
+    result = equivalent_conductivity(
+        dims.d,
+        dims.b,
+        emissivity1=eps,
+        emissivity2=eps,
+        direction=dims.direction,
+        delta_t=delta_t,
+        mean_temperature=t_mean + 273.15,
+        ventilation=vent,
+    )
+    return Material(
+        name=path,
+        conductivity=float(result.lambda_eq),
+        density=_AIR_DENSITY,
+        specific_heat=_AIR_SPECIFIC_HEAT,
+        emissivity=eps,
+    )
+
+
+def _shape(tbl: dict, path: str) -> tuple[np.ndarray, bool]:
+    """Vertices (read-only) and box flag of a region's ``box`` or ``polygon``."""
+    if ("box" in tbl) == ("polygon" in tbl):
+        raise Invalid(
+            path, "give exactly one of box = [x0, y0, x1, y1] or polygon = [[x, y], ...] (m)"
+        )
+    if "box" in tbl:
+        vertices = _box(tbl["box"], join(path, "box"))
+        is_box = True
+    else:
+        vertices, is_box = _polygon(tbl["polygon"], join(path, "polygon"))
+    vertices.flags.writeable = False
+    return vertices, is_box
+
+
+def _box_vertices(x0: float, y0: float, x1: float, y1: float) -> np.ndarray:
+    return np.array([[x0, y0], [x1, y0], [x1, y1], [x0, y1]], dtype=float)
+
+
+def _box(value: Any, path: str) -> np.ndarray:
+    if not isinstance(value, list) or len(value) != 4:
+        raise Invalid(path, f"expected [x0, y0, x1, y1] (m), got {describe(value)}")
+    x0, y0, x1, y1 = (to_number(v, join(path, i)) for i, v in enumerate(value))
+    if not (x1 > x0 and y1 > y0):
+        raise Invalid(
+            path, f"needs x1 > x0 and y1 > y0 (box = [x0, y0, x1, y1]), got {[x0, y0, x1, y1]}"
+        )
+    return _box_vertices(x0, y0, x1, y1)
+
+
+def _polygon(value: Any, path: str) -> tuple[np.ndarray, bool]:
+    """Counter-clockwise vertices (n, 2) of a simple polygon, and whether it is an upright box.
+
+    A last vertex repeating the first one (an explicitly closed ring) is dropped.
+    """
+    if not isinstance(value, list):
+        raise Invalid(path, f"expected an array of points [[x, y], ...] (m), got {describe(value)}")
+    pts = [point(p, join(path, i)) for i, p in enumerate(value)]
+    if len(pts) > 3 and pts[0] == pts[-1]:
+        pts.pop()
+    if len(pts) < 3:
+        raise Invalid(path, f"a polygon needs at least 3 vertices, got {len(pts)}")
+    p = np.array(pts, dtype=float)
+    n = len(p)
+    edge = np.roll(p, -1, axis=0) - p
+    scale = float(np.ptp(p, axis=0).max())
+    short = np.flatnonzero(np.hypot(edge[:, 0], edge[:, 1]) <= 1e-12 * scale)
+    if short.size:
+        k = int(short[0])
+        raise Invalid(path, f"vertices {k} and {(k + 1) % n} coincide")
+    if np.linalg.svd(p - p.mean(axis=0), compute_uv=False)[1] <= 1e-12 * scale:
+        raise Invalid(path, "the polygon has zero area: all its vertices lie on one line")
+    crossing = _crossing_edges(p, scale)
+    if crossing is not None:
+        i, j = crossing
+        raise Invalid(
+            path,
+            f"the polygon intersects itself: edge {i} (vertex {i} to {(i + 1) % n}) meets "
+            f"edge {j} (vertex {j} to {(j + 1) % n}); list the vertices in order around "
+            "the outline",
+        )
+    area = 0.5 * float(np.sum(p[:, 0] * np.roll(p[:, 1], -1) - np.roll(p[:, 0], -1) * p[:, 1]))
+    if area < 0:
+        p = p[::-1].copy()
+    if n == 4 and np.all((edge[:, 0] == 0) | (edge[:, 1] == 0)):
+        lo, hi = p.min(axis=0), p.max(axis=0)
+        return _box_vertices(lo[0], lo[1], hi[0], hi[1]), True
+    return p, False
+
+
+def _crossing_edges(p: np.ndarray, scale: float) -> tuple[int, int] | None:
+    """The first pair of edges (i, j), i < j, of the closed ring ``p`` that cross, touch or
+    overlap other than at the vertex two neighbouring edges share; None for a simple ring.
+
+    All pairs are tested at once, in blocks of rows to bound memory for long outlines.
+    """
+    n = len(p)
+    rows = max(1, 2_000_000 // n)
+    for first_row in range(0, n, rows):
+        i, j = _pairs(n, first_row, rows)
+        hit = _edges_meet(p, i, j, scale)
+        found = np.flatnonzero(hit)
+        if found.size:
+            return int(i[found[0]]), int(j[found[0]])
+    return None
+
+
+def _pairs(n: int, first_row: int, rows: int) -> tuple[np.ndarray, np.ndarray]:
+    """Index pairs (i, j), i < j < n, for i in first_row ... first_row + rows - 1."""
+    i, j = np.meshgrid(np.arange(first_row, min(n, first_row + rows)), np.arange(n), indexing="ij")
+    keep = j > i
+    return i[keep], j[keep]
+
+
+def _edges_meet(p: np.ndarray, i: np.ndarray, j: np.ndarray, scale: float) -> np.ndarray:
+    """Whether edge i and edge j (i < j) of the ring ``p`` have a point in common beyond the
+    vertex shared by neighbouring edges."""
+    n = len(p)
+    b = np.roll(p, -1, axis=0)
+    ai, bi, aj, bj = p[i], b[i], p[j], b[j]
+
+    def side(q: np.ndarray, r: np.ndarray, s: np.ndarray) -> np.ndarray:
+        """Sign of the turn q -> r -> s, 0 when collinear to within round-off."""
+        rq, sq = r - q, s - q
+        cross = rq[:, 0] * sq[:, 1] - rq[:, 1] * sq[:, 0]
+        return np.where(np.abs(cross) <= 1e-12 * scale**2, 0.0, np.sign(cross))
+
+    def on(q: np.ndarray, r: np.ndarray, s: np.ndarray, turn: np.ndarray) -> np.ndarray:
+        """Whether s lies on segment q-r (given its turn sign)."""
+        tol = 1e-12 * scale
+        inside = (s >= np.minimum(q, r) - tol) & (s <= np.maximum(q, r) + tol)
+        return (turn == 0) & inside.all(axis=1)
+
+    s1, s2, s3, s4 = side(ai, bi, aj), side(ai, bi, bj), side(aj, bj, ai), side(aj, bj, bi)
+    proper = (s1 * s2 < 0) & (s3 * s4 < 0)
+    follows = j == i + 1  # edge j starts where edge i ends: aj is bi
+    wraps = (i == 0) & (j == n - 1)  # edge i starts where edge j ends: ai is bj
+    return (
+        proper
+        | (on(ai, bi, aj, s1) & ~follows)
+        | (on(aj, bj, bi, s4) & ~follows)
+        | (on(ai, bi, bj, s2) & ~wraps)
+        | (on(aj, bj, ai, s3) & ~wraps)
+    )

@@ -1,0 +1,95 @@
+"""The ``[time]`` table: transient runs, periodic cycles, adaptive steps."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from fvheat.case.fields import (
+    Context,
+    Invalid,
+    describe,
+    number,
+    string,
+    table,
+    temperature,
+    to_number,
+)
+from fvheat.case.model import (
+    TimeSettings,
+)
+
+SCHEMES = ("backward_euler", "crank_nicolson")
+
+
+def parse_time(value: Any, ctx: Context) -> TimeSettings | None:
+    if value is None:
+        return None
+    path = "time"
+    tbl = table(
+        value,
+        path,
+        allowed=(
+            "duration",
+            "step",
+            "initial_temperature",
+            "save_every",
+            "scheme",
+            "periodic",
+            "periodic_tolerance",
+            "max_cycles",
+            "adaptive_tolerance",
+        ),
+        required=("duration", "step", "initial_temperature"),
+    )
+    duration = number(tbl, "duration", path, gt=0)
+    step = number(tbl, "step", path, gt=0)
+    if step > duration:
+        raise Invalid(
+            "time.step", f"step = {step:g} s is longer than the duration = {duration:g} s"
+        )
+    n_steps = duration / step
+    if abs(n_steps - round(n_steps)) > 1e-9 * n_steps:
+        raise Invalid(
+            "time.duration",
+            f"duration = {duration:g} s must be a whole number of steps of {step:g} s "
+            f"(e.g. {round(n_steps) * step:g} or {(round(n_steps) + 1) * step:g})",
+        )
+    initial = tbl["initial_temperature"]
+    if initial != "steady":
+        if isinstance(initial, str):
+            raise Invalid(
+                "time.initial_temperature",
+                f'expected a temperature (°C) or "steady", got {describe(initial)}',
+            )
+        initial = temperature(
+            to_number(initial, "time.initial_temperature"), "time.initial_temperature"
+        )
+    save_every = number(tbl, "save_every", path, required=False, default=step, gt=0)
+    ratio = save_every / step
+    if ratio < 1 - 1e-9 or abs(ratio - round(ratio)) > 1e-9 * ratio:
+        lower = max(1, int(ratio)) * step
+        raise Invalid(
+            "time.save_every",
+            f"save_every = {save_every:g} s must be a whole multiple of step = {step:g} s "
+            f"(results are saved at time steps), e.g. {lower:g} or {lower + step:g}",
+        )
+    scheme = string(tbl, "scheme", path, required=False, default="backward_euler", choices=SCHEMES)
+    periodic = tbl.get("periodic", False)
+    if not isinstance(periodic, bool):
+        raise Invalid("time.periodic", f"expected true or false, got {describe(periodic)}")
+    max_cycles = number(tbl, "max_cycles", path, required=False, default=200, ge=1)
+    if max_cycles != int(max_cycles):
+        raise Invalid("time.max_cycles", f"expected a whole number, got {max_cycles:g}")
+    return TimeSettings(
+        duration=duration,
+        step=step,
+        initial_temperature=initial,
+        save_every=save_every,
+        scheme=scheme,
+        periodic=periodic,
+        periodic_tolerance=number(
+            tbl, "periodic_tolerance", path, required=False, default=1e-4, gt=0
+        ),
+        max_cycles=int(max_cycles),
+        adaptive_tolerance=number(tbl, "adaptive_tolerance", path, required=False, gt=0),
+    )
