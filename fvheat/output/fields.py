@@ -116,8 +116,10 @@ def from_meshio(mesh, meta: dict[str, Any], time: float = 0.0) -> FieldView:
     )
 
 
-#: VTU data are zlib-compressed while a run's field files hold at most this many cell values
-#: in all; beyond, they are written uncompressed (compression costs four times the write)
+#: VTU data are zlib-compressed while a file holds at most COMPRESS_CELLS cells and a run's
+#: field files at most COMPRESS_BUDGET cell values in all; beyond, they are written
+#: uncompressed (compression costs four times the write)
+COMPRESS_CELLS = 250_000
 COMPRESS_BUDGET = 2_500_000
 
 
@@ -158,7 +160,8 @@ def write_fields(solution: Solution, out: str | Path) -> list[Path]:
             (t, f, f"field_{k:04d}.vtu")
             for k, (t, f) in enumerate(zip(h.times, h.fields, strict=True))
         ]
-    compress = solution.mesh.n_cells * len(states) <= COMPRESS_BUDGET
+    n = solution.mesh.n_cells
+    compress = n <= COMPRESS_CELLS and n * len(states) <= COMPRESS_BUDGET
     for t, temp, name in states:
         written.append(write_vtu(folder / name, field_view(solution, temp, t), compress=compress))
     entries = [(float(t), name) for t, _, name in states]
