@@ -24,20 +24,13 @@ def atomic_write(
     path: str | Path, write: Callable[[IO[str]], None], *, binary: bool = False
 ) -> Path:
     """Call ``write(handle)`` on a temporary file next to ``path``, then rename it to ``path``."""
-    path = Path(path)
-    path.parent.mkdir(parents=True, exist_ok=True)
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
-    try:
-        with os.fdopen(
-            fd, "wb" if binary else "w", **({} if binary else {"newline": "", "encoding": "utf-8"})
-        ) as fh:
+
+    def to_file(tmp: Path) -> None:
+        kwargs = {} if binary else {"newline": "", "encoding": "utf-8"}
+        with open(tmp, "wb" if binary else "w", **kwargs) as fh:
             write(fh)
-        os.chmod(tmp, _file_mode())
-        os.replace(tmp, path)
-    except BaseException:
-        Path(tmp).unlink(missing_ok=True)
-        raise
-    return path
+
+    return atomic_write_file(path, to_file)
 
 
 def atomic_write_text(path: str | Path, text: str) -> Path:

@@ -49,15 +49,7 @@ def heat_flux_figure(
         layers.add_scale_bar(ax, view, window)
         sub = "lines: heat paths from where heat enters, at equal steps of heat flow"
         style.headings(fig, ax, title, f"{subtitle + '; ' if subtitle else ''}{sub}")
-        if handles:
-            fig.legend(
-                handles=handles,
-                loc="outside lower center",
-                ncols=style.legend_columns(fig, [h.get_label() for h in handles]),
-                frameon=False,
-                title="boundaries",
-                title_fontsize=7.5,
-            )
+        style.boundary_legend(fig, handles)
     return fig
 
 

@@ -115,6 +115,20 @@ def legend_columns(fig, labels: list[str], fontsize: float = 7.5, most: int = 4)
     return int(max(1, min(most, len(labels), (0.95 * fig.get_figwidth() * 72) // entry)))
 
 
+def boundary_legend(fig, handles: list) -> None:
+    """The boundaries' legend below the axes (nothing when there are no handles)."""
+    if not handles:
+        return
+    fig.legend(
+        handles=handles,
+        loc="outside lower center",
+        ncols=legend_columns(fig, [h.get_label() for h in handles]),
+        frameon=False,
+        title="boundaries",
+        title_fontsize=7.5,
+    )
+
+
 def wrap(text: str, fig, fontsize: float = 9.0, share: float = 0.95) -> str:
     """``text`` wrapped to ``share`` of the figure's width (about 0.6 em per character)."""
     import textwrap

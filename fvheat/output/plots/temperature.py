@@ -89,15 +89,7 @@ def temperature_figure(
             mark_point(ax, view, marked, window)
         layers.add_scale_bar(ax, view, window)
         style.headings(fig, ax, title, subtitle, caption)
-        if handles:
-            fig.legend(
-                handles=handles,
-                loc="outside lower center",
-                ncols=style.legend_columns(fig, [h.get_label() for h in handles]),
-                frameon=False,
-                title="boundaries",
-                title_fontsize=7.5,
-            )
+        style.boundary_legend(fig, handles)
     return fig
 
 
