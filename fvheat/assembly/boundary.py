@@ -50,6 +50,8 @@ class SurfaceTerms:
     exchange: np.ndarray  # fraction of the face area exchanging heat
     fixed: np.ndarray  # bool, fixed surface temperature
     radiative: np.ndarray  # bool
+    a: np.ndarray  # W/(m²·K), linear conductance from the cell to the reference temperature
+    phi: np.ndarray  # fraction of an imposed surface flux that enters the cell (linear faces)
 
     @classmethod
     def build(
@@ -63,18 +65,25 @@ class SurfaceTerms:
         h_b = np.array([b.convection if b.kind == "surface" else 0.0 for b in boundaries])
         e_b = np.array([b.emissivity if b.kind == "surface" else 0.0 for b in boundaries])
         f = mesh.b_exchange[face]
+        gc = k_cell[cell] / mesh.b_dist[face]
+        h = h_b[bid] * f
+        fixed = kind == _KIND["temperature"]
+        radiative = e_b[bid] > 0.0
+        lin = np.where(fixed, gc, gc * h / (gc + h))
         return cls(
             boundaries=boundaries,
             face=face,
             cell=cell,
             bid=bid,
             area=mesh.b_area[face],
-            gc=k_cell[cell] / mesh.b_dist[face],
-            h=h_b[bid] * f,
+            gc=gc,
+            h=h,
             eps=e_b[bid] * f,
             exchange=f,
-            fixed=kind == _KIND["temperature"],
-            radiative=e_b[bid] > 0.0,
+            fixed=fixed,
+            radiative=radiative,
+            a=np.where(radiative, 0.0, lin),
+            phi=np.where(fixed | radiative, 0.0, gc / (gc + h)),
         )
 
     # ---- boundary values at time t -------------------------------------------------
@@ -83,9 +92,7 @@ class SurfaceTerms:
         imposed flux (W/m² of face, exchange fraction applied) at time ``t`` (s)."""
         ref, rad, q = [], [], []
         for b in self.boundaries:
-            ref_sig: Signal = (
-                b.temperature if b.kind == "temperature" else b.air_temperature
-            ) or _ZERO
+            ref_sig: Signal = b.reference_temperature or _ZERO
             ref.append(ref_sig.at(t))
             rad.append((b.radiant_temperature or ref_sig).at(t))
             q.append((b.heat_flux or _ZERO).at(t))
@@ -93,17 +100,6 @@ class SurfaceTerms:
         return np.asarray(ref)[ix], np.asarray(rad)[ix], np.asarray(q)[ix] * self.exchange
 
     # ---- linear part ---------------------------------------------------------------
-    @property
-    def a(self) -> np.ndarray:
-        """Linear conductance per unit area from the cell to the reference temperature."""
-        lin = np.where(self.fixed, self.gc, self.gc * self.h / (self.gc + self.h))
-        return np.where(self.radiative, 0.0, lin)
-
-    @property
-    def phi(self) -> np.ndarray:
-        """Fraction of an imposed surface flux that enters the cell (linear faces)."""
-        return np.where(self.fixed | self.radiative, 0.0, self.gc / (self.gc + self.h))
-
     def diagonal(self, n_cells: int) -> np.ndarray:
         """Constant diagonal (W/(m·K)) the linear faces add to the system matrix."""
         return np.bincount(self.cell, weights=self.area * self.a, minlength=n_cells)

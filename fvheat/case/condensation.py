@@ -51,7 +51,7 @@ def parse_condensation(value: Any, ctx: Context) -> Condensation | None:
             tbl["air_temperature"], join(path, "air_temperature"), ctx, is_temperature=True
         )
     else:
-        air = known[names[0]].air_temperature or known[names[0]].temperature
+        air = known[names[0]].reference_temperature
         if air is None:
             raise Invalid(
                 join(path, "air_temperature"),

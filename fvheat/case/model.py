@@ -104,6 +104,12 @@ class Boundary:
     def radiative(self) -> bool:
         return self.kind == "surface" and self.emissivity > 0.0
 
+    @property
+    def reference_temperature(self) -> Signal | None:
+        """The temperature the boundary ties the body to: the fixed surface temperature, or
+        the air temperature of a surface exchange (None for a flux-only boundary)."""
+        return self.temperature if self.kind == "temperature" else self.air_temperature
+
 
 @dataclass(frozen=True)
 class Probe:

@@ -32,7 +32,7 @@ def apply_overrides(data: dict, overrides: Sequence[str], source: str) -> dict:
             raise CaseError("expected dotted.path=value", file=source, key=where)
         if not path:
             raise CaseError("empty key path before '='", file=source, key=where)
-        _set(result, _segments(path), _value(text.strip()), source, where)
+        _set(result, _segments(path), parse_value(text.strip()), source, where)
     return result
 
 
@@ -51,8 +51,9 @@ def _segments(path: str) -> list[str]:
     return keys
 
 
-def _value(text: str) -> Any:
-    """``text`` as a TOML value, else as a plain string."""
+def parse_value(text: str) -> Any:
+    """``text`` as a TOML value (``0.035``, ``true``, ``[1, 2]``), else as plain text: how
+    ``--set`` and ``--vary`` read their values."""
     try:
         parsed = tomllib.loads(f"v = {text}")
     except tomllib.TOMLDecodeError:

@@ -105,7 +105,7 @@ def side_temperature(case: Case, names: tuple[str, ...], side: str) -> float:
     temps = {}
     for n in names:
         b = case.boundary(n)
-        sig = b.temperature if b.kind == "temperature" else b.air_temperature
+        sig = b.reference_temperature
         if sig is None or not sig.is_constant:
             raise CaseError(
                 f"boundary {n!r} needs a constant air or surface temperature for junction results",

@@ -13,8 +13,7 @@ from typing import Any
 import numpy as np
 
 from fvheat.assembly.system import System
-from fvheat.case.model import Boundary, Case
-from fvheat.case.signals import Signal
+from fvheat.case.model import Case
 
 
 @dataclass
@@ -69,7 +68,7 @@ class PeriodicResponse:
         drivers = {
             k: Harmonic(p)
             for k, b in enumerate(case.boundaries)
-            if (sig := _driver(b)) is not None and not sig.is_constant
+            if (sig := b.reference_temperature) is not None and not sig.is_constant
         }
         lengths = np.bincount(
             system.surface.bid,
@@ -82,7 +81,7 @@ class PeriodicResponse:
         """Sample the boundary heat flows (W/m) at the end of a step at time ``t`` (s)."""
         self.flows.add(t, flows)
         for k, h in self.drivers.items():
-            sig = _driver(self.case.boundaries[k])
+            sig = self.case.boundaries[k].reference_temperature
             assert sig is not None
             h.add(t, float(sig.at(t)))
 
@@ -126,9 +125,9 @@ class PeriodicResponse:
         one other boundary at a constant temperature, U from the mean heat flow (the mean of
         a linear periodic state is the steady state of the mean conditions)."""
         others = [
-            (k, _driver(b))
+            (k, b.reference_temperature)
             for k, b in enumerate(self.case.boundaries)
-            if k != k_driver and _driver(b) is not None
+            if k != k_driver and b.reference_temperature is not None
         ]
         if len(others) != 1:
             return
@@ -139,8 +138,3 @@ class PeriodicResponse:
             u = abs(row["mean_heat_flow"]) / (self.lengths[k] * dtheta)
             row["u_value"] = u
             row["decrement_factor"] = row["periodic_transmittance"] / u
-
-
-def _driver(b: Boundary) -> Signal | None:
-    """The temperature signal that drives a boundary (air or fixed surface temperature)."""
-    return b.temperature if b.kind == "temperature" else b.air_temperature

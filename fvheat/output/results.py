@@ -78,10 +78,6 @@ class ResultsFolder:
             return None
         return json.loads(f.read_text(encoding="utf-8"))
 
-    @property
-    def has_fields(self) -> bool:
-        return (self.path / FIELDS_DIR / META_FILE).is_file()
-
     def field_meta(self) -> dict[str, Any]:
         """The field index (grid lines, names, files); CaseError when missing."""
         if self._meta is None:

@@ -5,17 +5,9 @@ from __future__ import annotations
 
 import json
 import math
-import tomllib
 from typing import Any
 
-
-def parse_value(text: str) -> Any:
-    """``text`` as a TOML value (``0.035``, ``true``, ``[1, 2]``), else as plain text."""
-    try:
-        parsed = tomllib.loads(f"v = {text}")
-    except tomllib.TOMLDecodeError:
-        return text
-    return parsed["v"] if list(parsed) == ["v"] else text
+from fvheat.case.overrides import parse_value
 
 
 def split_values(text: str) -> list[str]:
