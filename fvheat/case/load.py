@@ -136,7 +136,7 @@ def _title(value: Any, ctx: Context) -> str:
 def _mesh(value: Any, ctx: Context) -> MeshSettings:
     if value is None:
         raise Invalid("mesh", "required table [mesh] is missing (at least max_cell = ... in m)")
-    tbl = table(value, "mesh", allowed=("max_cell", "min_cell", "growth"))
+    tbl = table(value, "mesh", allowed=("max_cell", "min_cell", "growth", "corner_cell"))
     max_cell = number(tbl, "max_cell", "mesh", gt=0)
     min_cell = number(tbl, "min_cell", "mesh", required=False, default=max_cell / 5, gt=0)
     if min_cell > max_cell:
@@ -144,7 +144,14 @@ def _mesh(value: Any, ctx: Context) -> MeshSettings:
             "mesh.min_cell", f"min_cell = {min_cell:g} m must not exceed max_cell = {max_cell:g} m"
         )
     growth = number(tbl, "growth", "mesh", required=False, default=1.3, gt=1, le=3)
-    return MeshSettings(max_cell=max_cell, min_cell=min_cell, growth=growth)
+    corner = number(tbl, "corner_cell", "mesh", required=False, gt=0)
+    if corner is not None and corner > min_cell:
+        raise Invalid(
+            "mesh.corner_cell",
+            f"corner_cell = {corner:g} m must not exceed min_cell = {min_cell:g} m "
+            "(give corner_cell = min_cell for no extra refinement at corners)",
+        )
+    return MeshSettings(max_cell=max_cell, min_cell=min_cell, growth=growth, corner_cell=corner)
 
 
 register_section("title", _title)

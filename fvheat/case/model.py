@@ -13,14 +13,27 @@ import numpy as np
 
 from fvheat.case.signals import Signal
 
+#: default first cell size at re-entrant corners of exchanging surfaces, m (see MeshSettings)
+CORNER_CELL = 0.001
+
 
 @dataclass(frozen=True)
 class MeshSettings:
-    """Grid controls: largest and smallest cell edge (m) and the largest neighbour size ratio."""
+    """Grid controls: largest and smallest cell edge (m), the largest neighbour size ratio,
+    and the first cell size (m) at re-entrant corners of exchanging surfaces (where the
+    lowest inside surface temperature sits); None: the smaller of ``min_cell``/2 and 1 mm."""
 
     max_cell: float
     min_cell: float
     growth: float = 1.3
+    corner_cell: float | None = None
+
+    @property
+    def corner_size(self) -> float:
+        """First cell size at re-entrant corners, m."""
+        if self.corner_cell is not None:
+            return self.corner_cell
+        return min(0.5 * self.min_cell, CORNER_CELL)
 
 
 @dataclass(frozen=True)

@@ -15,7 +15,12 @@ def merge_close(values: np.ndarray, tol: float) -> np.ndarray:
 
 
 def size_function(
-    keys: np.ndarray, t: np.ndarray, max_cell: float, min_cell: float, growth: float
+    keys: np.ndarray,
+    t: np.ndarray,
+    max_cell: float,
+    min_cell: float,
+    growth: float,
+    first: np.ndarray | None = None,
 ) -> np.ndarray:
     """Target cell size (m) at coordinates ``t``: h(t) = min(max_cell, min_j (a_j + s·|t − x_j|)).
 
@@ -26,7 +31,7 @@ def size_function(
     lengths = np.diff(keys)
     left = np.concatenate([[np.inf], lengths])
     right = np.concatenate([lengths, [np.inf]])
-    start = np.minimum(min_cell, np.minimum(left, right))
+    start = np.minimum(min_cell if first is None else first, np.minimum(left, right))
     s = np.log(growth)
     # With h = a + s·t and unit steps in ∫ dt/h, consecutive cells differ by exp(s) = growth;
     # a = h0·s/(exp(s) − 1) makes the first cell h0.
@@ -35,7 +40,13 @@ def size_function(
     return np.minimum(h, max_cell)
 
 
-def graded_lines(keys: np.ndarray, max_cell: float, min_cell: float, growth: float) -> np.ndarray:
+def graded_lines(
+    keys: np.ndarray,
+    max_cell: float,
+    min_cell: float,
+    growth: float,
+    first: np.ndarray | None = None,
+) -> np.ndarray:
     """Grid-line coordinates (m) containing every key coordinate.
 
     Cells are placed uniformly in the coordinate ∫ dt / h(t) of :func:`size_function`,
@@ -45,18 +56,21 @@ def graded_lines(keys: np.ndarray, max_cell: float, min_cell: float, growth: flo
     """
     keys = np.asarray(keys, dtype=float)
     lengths = np.diff(keys)
+    smallest = min_cell if first is None else float(np.min(first, initial=min_cell))
     pieces = [keys[:1]]
+    ends = np.full(keys.size, min_cell) if first is None else np.minimum(first, min_cell)
     for k, length in enumerate(lengths):
-        if length <= min_cell:
+        end_cell = min(ends[k], ends[k + 1])
+        if length <= end_cell:
             pieces.append(keys[k + 1 : k + 2])
             continue
-        if min_cell >= max_cell:  # uniform grid asked for
+        if min_cell >= max_cell and end_cell >= min_cell:  # uniform grid asked for
             n = int(np.ceil(length / max_cell - 1e-9))
             pieces.append(np.linspace(keys[k], keys[k + 1], n + 1)[1:])
             continue
-        g = np.geomspace(1e-3 * min_cell, length, _SAMPLES)
+        g = np.geomspace(1e-3 * smallest, length, _SAMPLES)
         t = np.unique(np.concatenate([[0.0], g, length - g, [length]]).clip(0.0, length))
-        h = size_function(keys, keys[k] + t, max_cell, min_cell, growth)
+        h = size_function(keys, keys[k] + t, max_cell, min_cell, growth, first)
         cum = np.concatenate([[0.0], np.cumsum(_piece_integral(np.diff(t), h[:-1], h[1:]))])
         n = max(1, int(np.ceil(cum[-1] - 1e-6)), int(np.ceil(length / max_cell - 1e-9)))
         targets = np.linspace(0.0, cum[-1], n + 1)[1:-1]

@@ -110,6 +110,14 @@ class Mesh:
         return out
 
 
+def face_ends(centre: np.ndarray, normal: np.ndarray, length: np.ndarray) -> np.ndarray:
+    """End points (m, 2, 2) of straight faces from centres, outward unit normals and lengths
+    (m), ordered so that the normal is the direction end 0 → end 1 turned clockwise."""
+    tangent = np.column_stack([-normal[:, 1], normal[:, 0]])
+    half = 0.5 * length[:, None] * tangent
+    return np.stack([centre - half, centre + half], axis=1)
+
+
 def _max_ratio(h: np.ndarray) -> float:
     if h.size < 2:
         return 1.0

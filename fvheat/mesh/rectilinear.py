@@ -1,10 +1,11 @@
 """Rectilinear non-uniform grid generator: Case → Mesh.
 
-Grid lines fall on every region corner and boundary-segment end; between them cells are
-graded (:func:`fvheat.mesh.grading.graded_lines`). Each grid cell takes the material of the
-last region containing its centre (regions are painted in order); cells no region covers
-are outside the body. Exterior faces are matched to boundary segments; faces on no segment
-are adiabatic.
+Grid lines fall on every region corner and boundary-segment end; cells shrink towards
+re-entrant corners of exchanging surfaces (where the inside surface is coldest); between
+them cells are graded (:func:`fvheat.mesh.grading.graded_lines`). Each grid cell takes the
+material of the last region containing its centre (regions are painted in order); cells no
+region covers are outside the body. Exterior faces are matched to boundary segments; faces
+on no segment are adiabatic.
 """
 
 from __future__ import annotations
@@ -23,21 +24,30 @@ from fvheat.mesh.mesh import Mesh, RectGrid
 def build_mesh(case: Case, refine: float = 1.0) -> Mesh:
     """Mesh the case's regions and attach its boundaries.
 
-    ``refine`` divides ``max_cell`` and ``min_cell`` (2 gives about four times the cells),
-    for grid checks. Raises :class:`CaseError` when a boundary touches no exterior face or
-    a probe lies outside the body.
+    ``refine`` divides the size function everywhere (``max_cell``, ``min_cell``, the corner
+    cell size, and the logarithm of ``growth``), so that 2 splits every cell in about two
+    in each direction (grid checks). Cells shrink to ``corner_size`` towards every
+    re-entrant corner of an exchanging surface (see :func:`reentrant_corners`). Raises
+    :class:`CaseError` when a boundary touches no exterior face or a probe lies outside
+    the body.
     """
-    x, y = grid_lines(case, refine)
     names = tuple(case.materials)
+    x, y = grid_lines(case, refine)
     mat = paint(case, x, y, names)
+    corners = reentrant_corners(case, x, y, mat)
+    if corners.size:
+        x, y = grid_lines(case, refine, corners)
+        mat = paint(case, x, y, names)
     mesh = faces_from_grid(x, y, mat, names, tuple(b.name for b in case.boundaries))
     mesh = attach_boundaries(case, mesh)
     check_probes(case, mesh)
     return mesh
 
 
-def grid_lines(case: Case, refine: float = 1.0) -> tuple[np.ndarray, np.ndarray]:
-    """x and y grid lines (m) through all region vertices and boundary-segment ends."""
+def key_lines(case: Case) -> tuple[list[np.ndarray], float]:
+    """Sorted x and y coordinates (m) every grid must contain: region vertices and
+    boundary-segment ends within the regions' extent; and the tolerance (m) within which
+    two coordinates are one."""
     pts = [r.vertices for r in case.regions]
     pts += [np.asarray(e, float) for b in case.boundaries for e in b.edges]
     allpts = np.concatenate(pts)
@@ -46,14 +56,72 @@ def grid_lines(case: Case, refine: float = 1.0) -> tuple[np.ndarray, np.ndarray]
     # only coordinates inside the regions' extent are grid lines
     rlo = np.min([r.vertices.min(axis=0) for r in case.regions], axis=0)
     rhi = np.max([r.vertices.max(axis=0) for r in case.regions], axis=0)
-    s = case.mesh
-    lines = []
+    keys = []
     for axis in (0, 1):
         c = allpts[:, axis]
         c = c[(c >= rlo[axis] - tol) & (c <= rhi[axis] + tol)]
-        keys = merge_close(c, tol)
-        lines.append(graded_lines(keys, s.max_cell / refine, s.min_cell / refine, s.growth))
+        keys.append(merge_close(c, tol))
+    return keys, tol
+
+
+def grid_lines(
+    case: Case, refine: float = 1.0, corners: np.ndarray | None = None
+) -> tuple[np.ndarray, np.ndarray]:
+    """x and y grid lines (m) through all region vertices and boundary-segment ends, the
+    first cells at the key lines through ``corners`` ((k, 2) m) of size ``corner_size``."""
+    keys, tol = key_lines(case)
+    s = case.mesh
+    lines = []
+    for axis in (0, 1):
+        first = np.full(keys[axis].size, s.min_cell / refine)
+        if corners is not None and corners.size:
+            near = np.abs(keys[axis][:, None] - corners[None, :, axis]).min(axis=1) <= tol
+            first[near] = min(s.corner_size, s.min_cell) / refine
+        lines.append(
+            graded_lines(
+                keys[axis],
+                s.max_cell / refine,
+                s.min_cell / refine,
+                s.growth ** (1 / refine),
+                first,
+            )
+        )
     return lines[0], lines[1]
+
+
+def reentrant_corners(case: Case, x: np.ndarray, y: np.ndarray, mat: np.ndarray) -> np.ndarray:
+    """Re-entrant corners (k, 2) m of the body painted as ``mat`` on the grid ``x``, ``y``:
+    grid vertices on key lines in both directions with three of their four cells in the
+    body, lying on a boundary that ties the surface to a temperature (surface exchange or
+    fixed temperature). The inside surface is coldest at such corners (a window reveal
+    meeting the frame, a slab soffit meeting the wall), where its temperature changes
+    steeply.
+    """
+    act = np.pad(mat >= 0, 1).astype(np.int8)
+    count = act[:-1, :-1] + act[:-1, 1:] + act[1:, :-1] + act[1:, 1:]
+    j, i = np.nonzero(count == 3)
+    if j.size == 0:
+        return np.zeros((0, 2))
+    keys, tol = key_lines(case)
+    on_keys = _near_any(x[i], keys[0], tol) & _near_any(y[j], keys[1], tol)
+    pts = np.column_stack([x[i], y[j]])[on_keys]
+    segs = [e for b in case.boundaries if b.kind != "flux" for e in b.edges]
+    if not segs or pts.size == 0:
+        return np.zeros((0, 2))
+    a = np.array([s[0] for s in segs], float)
+    d = np.array([s[1] for s in segs], float) - a
+    rel = pts[:, None, :] - a[None, :, :]
+    u = np.clip(np.einsum("psk,sk->ps", rel, d) / np.einsum("sk,sk->s", d, d), 0.0, 1.0)
+    gap = np.hypot(*(rel - u[..., None] * d[None]).transpose(2, 0, 1))
+    return pts[(gap <= tol).any(axis=1)]
+
+
+def _near_any(values: np.ndarray, keys: np.ndarray, tol: float) -> np.ndarray:
+    """Whether each of ``values`` lies within ``tol`` of one of the sorted ``keys``."""
+    k = np.searchsorted(keys, values)
+    below = keys[np.clip(k - 1, 0, keys.size - 1)]
+    above = keys[np.clip(k, 0, keys.size - 1)]
+    return np.minimum(np.abs(values - below), np.abs(values - above)) <= tol
 
 
 def paint(case: Case, x: np.ndarray, y: np.ndarray, names: tuple[str, ...]) -> np.ndarray:

@@ -12,7 +12,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from fvheat.evaluate.flux import cell_heat_flux, surface_faces
-from fvheat.mesh.mesh import RectGrid
+from fvheat.mesh.mesh import RectGrid, face_ends
 from fvheat.simulate import Solution
 
 
@@ -57,14 +57,6 @@ class FieldView:
         out = np.zeros(idx.shape, dtype=np.result_type(values, float))
         out[idx >= 0] = values[idx[idx >= 0]]
         return np.ma.masked_array(out, mask=idx < 0)
-
-
-def face_ends(centre: np.ndarray, normal: np.ndarray, length: np.ndarray) -> np.ndarray:
-    """End points (m, 2, 2) of straight faces from centres, outward unit normals and lengths
-    (m), ordered so that the normal is the direction end 0 → end 1 turned clockwise."""
-    tangent = np.column_stack([-normal[:, 1], normal[:, 0]])
-    half = 0.5 * length[:, None] * tangent
-    return np.stack([centre - half, centre + half], axis=1)
 
 
 def field_view(

@@ -178,11 +178,16 @@ resistance = {R_OUT}
 
 
 def fvheat_run(tmp_path, refine: int):
-    """fvheat with max_cell 0.04/refine and min_cell 0.004/refine, set by overrides."""
+    """fvheat with max_cell 0.04/refine, min_cell 0.004/refine and corner cells 1 mm/refine,
+    set by overrides."""
     return run(
         tmp_path,
         fvheat_case(),
-        [f"mesh.max_cell={0.04 / refine}", f"mesh.min_cell={0.004 / refine}"],
+        [
+            f"mesh.max_cell={0.04 / refine}",
+            f"mesh.min_cell={0.004 / refine}",
+            f"mesh.corner_cell={0.001 / refine}",
+        ],
     )
 
 
