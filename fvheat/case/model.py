@@ -73,11 +73,17 @@ class Material:
 
 @dataclass(frozen=True)
 class Region:
-    """A painted area of one material. ``vertices`` (n, 2) m; ``is_box`` for axis-aligned boxes."""
+    """A painted area of one material: the outline ``vertices`` (n, 2) m, counter-clockwise,
+    minus the ``holes`` (outlines (k, 2) m); ``is_box`` for axis-aligned boxes. ``name`` is
+    the optional name of its ``[[regions]]`` entry and ``entry`` that entry's index (one
+    entry taking its shapes from a drawing layer gives one Region per closed shape)."""
 
     material: str
     vertices: np.ndarray = field(repr=False)
     is_box: bool = False
+    name: str | None = None
+    entry: int = 0
+    holes: tuple[np.ndarray, ...] = field(default=(), repr=False)
 
     @property
     def bounds(self) -> tuple[float, float, float, float]:

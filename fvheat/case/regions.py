@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from dataclasses import replace
 from typing import Any
 
 import numpy as np
@@ -35,7 +36,10 @@ def parse_regions(value: Any, ctx: Context) -> tuple[Region, ...]:
         raise Invalid("regions", "define at least one [[regions]] entry")
     # library materials and cavities used by regions join the case's materials
     materials: dict[str, Material] = ctx.parsed["materials"]
-    return tuple(_region(tbl, join("regions", i), materials) for i, tbl in enumerate(entries))
+    return tuple(
+        replace(_region(tbl, join("regions", i), materials), entry=i)
+        for i, tbl in enumerate(entries)
+    )
 
 
 def _region(tbl: dict, path: str, materials: dict[str, Material]) -> Region:
