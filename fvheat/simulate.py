@@ -12,6 +12,7 @@ import scipy.sparse as sp
 from fvheat.assembly.enthalpy import EnthalpyModel
 from fvheat.assembly.system import System
 from fvheat.case.model import Case
+from fvheat.case.resistances import with_surface_resistances
 from fvheat.evaluate.balance import EnergyBalance
 from fvheat.evaluate.condensation import CondensationHours
 from fvheat.evaluate.fronts import FrontLines
@@ -74,6 +75,8 @@ def simulate(
     """Solve ``case`` (steady, or transient when it has ``[time]``).
 
     ``method`` other than ``"auto"`` overrides the method of the case's ``[solver]`` table.
+    ``[condensation]`` hours are counted with the checked surfaces at their condensation
+    surface resistances: in a second run when those differ from the heat-loss ones.
     """
     solver = case.solver if method == "auto" else replace(case.solver, method=method)
     mesh = mesh if mesh is not None else build_mesh(case)
@@ -89,7 +92,13 @@ def simulate(
         balance = EnergyBalance(dict(zip(names, map(float, flows), strict=True)), 0.0)
         return _solution(case, mesh, system, temp, 0.0, probe_op, balance, None)
 
-    return _transient(case, mesh, system, model, probe_op, solver, progress, keep_fields)
+    c = case.condensation
+    hours_case = None if c is None else with_surface_resistances(case, c.surface_resistances)
+    count = c is not None and hours_case is None
+    solution = _transient(case, mesh, system, model, probe_op, solver, progress, keep_fields, count)
+    if hours_case is not None:
+        solution.condensation = simulate(hours_case, mesh=mesh, keep_fields=False).condensation
+    return solution
 
 
 def _transient(
@@ -101,6 +110,7 @@ def _transient(
     method: SolverChoice,
     progress: Progress | None,
     keep_fields: bool,
+    count_hours: bool,
 ) -> Solution:
     """Time stepping; with ``[time] periodic`` cycles are repeated until they repeat."""
     ts = case.time
@@ -118,7 +128,7 @@ def _transient(
         cycles += 1
         history = History()
         periodic = PeriodicResponse.start(case, system) if ts.periodic else None
-        hours = CondensationHours.start(case, system) if case.condensation else None
+        hours = CondensationHours.start(case, system) if count_hours else None
 
         def record(t: float, temp: np.ndarray, history: History = history) -> None:
             history.times.append(t)

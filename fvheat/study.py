@@ -7,6 +7,7 @@ from dataclasses import dataclass, replace
 from typing import Any
 
 from fvheat.case.model import Case
+from fvheat.case.resistances import with_surface_resistances
 from fvheat.evaluate.junction import JunctionResult, evaluate_junction
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.rectilinear import build_mesh
@@ -60,18 +61,12 @@ class Study:
     grid: GridCheck | None = None
 
 
-def surface_case(case: Case) -> Case:
-    """The case with the junction's inside boundaries at their condensation surface resistances."""
+def surface_case(case: Case) -> Case | None:
+    """The junction's surface-temperature case (f_Rsi, θ_si,min), or None when it is the
+    heat-loss case itself."""
     j = case.junction
-    assert j is not None and j.condensation_resistance is not None
-    r = j.condensation_resistance
-    bounds = tuple(
-        replace(b, convection=1.0 / r[b.name], resistance=r[b.name], emissivity=0.0)
-        if b.name in r and b.kind == "surface"
-        else b
-        for b in case.boundaries
-    )
-    return replace(case, boundaries=bounds)
+    assert j is not None
+    return with_surface_resistances(case, j.surface_resistances)
 
 
 def steady_case(case: Case) -> Case:
@@ -113,8 +108,9 @@ def run_study(
         return study
     base = solution if not case.transient else simulate(steady_case(case), mesh=mesh)
     if j is not None:
-        if j.condensation_resistance is not None:
-            study.surface_solution = simulate(steady_case(surface_case(case)), mesh=mesh)
+        surf = surface_case(case)
+        if surf is not None:
+            study.surface_solution = simulate(steady_case(surf), mesh=mesh)
         study.junction = evaluate_junction(steady_case(case), base, study.surface_solution)
     if want_grid:
         study.grid = grid_check(steady_case(case), base)

@@ -1,4 +1,15 @@
-"""The ``[condensation]`` table: surfaces and room humidity for condensation-risk hours."""
+"""The ``[condensation]`` table: surfaces and room humidity for condensation-risk hours.
+
+```toml
+[condensation]
+boundaries = ["inside"]        # surfaces to check
+relative_humidity = 55         # % (constant, cosine or CSV series)
+air_temperature = 20           # °C, default: the first boundary's air temperature
+mould_threshold = 80           # % surface relative humidity
+surface_resistance = 0.25      # m²·K/W on the checked surfaces (default 0.25, ISO 13788),
+                               # per boundary { wall = 0.25, glass = 0.13 }, or "heat_loss"
+```
+"""
 
 from __future__ import annotations
 
@@ -14,9 +25,8 @@ from fvheat.case.fields import (
     number,
     table,
 )
-from fvheat.case.model import (
-    Condensation,
-)
+from fvheat.case.model import Condensation
+from fvheat.case.resistances import read_resistances
 from fvheat.case.signals import Cosine, Series
 from fvheat.case.values import read_signal
 
@@ -29,9 +39,21 @@ def parse_condensation(value: Any, ctx: Context) -> Condensation | None:
     tbl = table(
         value,
         path,
-        allowed=("boundaries", "air_temperature", "relative_humidity", "mould_threshold"),
+        allowed=(
+            "boundaries",
+            "air_temperature",
+            "relative_humidity",
+            "mould_threshold",
+            "surface_resistance",
+        ),
         required=("boundaries", "relative_humidity"),
     )
+    if ctx.parsed.get("time") is None:
+        raise Invalid(
+            path,
+            "counts condensation and mould hours over a transient run: add [time], or use "
+            "[junction] indoor_humidity for the steady dew-point check at θ_si,min",
+        )
     known = {b.name: b for b in ctx.parsed["boundaries"]}
     names = tbl["boundaries"]
     if isinstance(names, str):
@@ -72,4 +94,5 @@ def parse_condensation(value: Any, ctx: Context) -> Condensation | None:
         mould_threshold=number(
             tbl, "mould_threshold", path, required=False, default=80.0, gt=0, le=100
         ),
+        surface_resistances=read_resistances(tbl, "surface_resistance", path, tuple(names)),
     )

@@ -5,8 +5,10 @@
 inside = ["inside"]            # warm-side boundaries
 outside = ["outside"]          # cold-side boundaries
 dimensions = "internal"        # or "overall_internal", "external": how lengths were taken
-condensation_resistance = 0.25 # m²·K/W: inside R_si of a second, surface-temperature solve,
-                               # or per inside boundary: { wall = 0.25, glass = 0.13 }
+condensation_resistance = 0.25 # m²·K/W: inside R_si of the surface-temperature solve f_Rsi
+                               # comes from, or per inside boundary: { wall = 0.25, glass = 0.13 }
+                               # (default 0.25 on all, ISO 13788), or "heat_loss" for the
+                               # heat-loss values (see fvheat.case.resistances)
 f_rsi_limit = 0.75             # pass/fail criterion for f_Rsi
 f_rsi_boundaries = ["inside"]  # inside surfaces f_Rsi is taken over (default: all inside)
 indoor_humidity = 50           # % relative humidity of the room air: dew-point check
@@ -39,6 +41,7 @@ from fvheat.case.fields import (
     tables,
 )
 from fvheat.case.model import Case, Flanking, Junction
+from fvheat.case.resistances import read_resistances
 
 _KEYS = (
     "inside",
@@ -84,7 +87,7 @@ def parse_junction(value: Any, ctx: Context) -> Junction | None:
         dimensions=string(
             tbl, "dimensions", path, required=False, default="internal", choices=DIMENSIONS
         ),
-        condensation_resistance=_resistances(tbl, path, inside),
+        surface_resistances=read_resistances(tbl, "condensation_resistance", path, inside),
         f_rsi_boundaries=(
             _names(tbl["f_rsi_boundaries"], join(path, "f_rsi_boundaries"), set(inside))
             if "f_rsi_boundaries" in tbl
@@ -96,24 +99,6 @@ def parse_junction(value: Any, ctx: Context) -> Junction | None:
         centre=point(tbl["centre"], join(path, "centre")) if "centre" in tbl else None,
         grid_check=grid,
     )
-
-
-def _resistances(tbl: dict, path: str, inside: tuple[str, ...]) -> dict[str, float] | None:
-    """``condensation_resistance``: one value for every inside boundary, or a table naming
-    some of them (the others keep their own surface resistance)."""
-    key = "condensation_resistance"
-    if key not in tbl:
-        return None
-    value = tbl[key]
-    if not isinstance(value, dict):
-        r = number(tbl, key, path, gt=0)
-        assert r is not None
-        return dict.fromkeys(inside, r)
-    kpath = join(path, key)
-    for n in value:
-        if n not in inside:
-            raise Invalid(join(kpath, n), f"not an inside boundary; inside: {', '.join(inside)}")
-    return {n: float(number(value, n, kpath, gt=0)) for n in value}
 
 
 def _names(value: Any, path: str, known: set[str]) -> tuple[str, ...]:

@@ -151,12 +151,17 @@ class ProbeLine:
 @dataclass(frozen=True)
 class Condensation:
     """Condensation-risk hours on the surfaces of ``boundaries`` during a transient run: room
-    air at ``air_temperature`` (°C) and ``relative_humidity`` (%), mould threshold (%)."""
+    air at ``air_temperature`` (°C) and ``relative_humidity`` (%), mould threshold (%), the
+    surfaces at ``surface_resistances`` (a second run when they differ from the heat-loss
+    ones; :mod:`fvheat.case.resistances`)."""
 
     boundaries: tuple[str, ...]
     air_temperature: Signal
     relative_humidity: Signal
     mould_threshold: float = 80.0
+    surface_resistances: SurfaceResistances = field(
+        default_factory=lambda: SurfaceResistances(None)
+    )
 
 
 Scheme = Literal["backward_euler", "crank_nicolson"]
@@ -190,6 +195,44 @@ class TimeSettings:
         return 1.0 if self.scheme == "backward_euler" else 0.5
 
 
+#: ISO 13788 inside surface resistance for opaque surfaces, m²·K/W (from memory)
+CONDENSATION_RSI = 0.25
+#: the value that asks for the heat-loss surface resistances
+HEAT_LOSS = "heat_loss"
+
+
+@dataclass(frozen=True)
+class SurfaceResistances:
+    """Inside surface resistances (m²·K/W) of a surface-temperature solve, by boundary name;
+    ``values`` None: the heat-loss resistances, as the user asked. ``defaulted``: the
+    boundaries given :data:`CONDENSATION_RSI` because the case set nothing for them."""
+
+    values: dict[str, float] | None
+    defaulted: tuple[str, ...] = ()
+
+    def describe(self, key: str) -> str:
+        """One line for consoles and reports: which resistances and why (``key`` is the
+        case key that sets them)."""
+        if self.values is None:
+            return f"the heat-loss surface resistances ({key} = {HEAT_LOSS!r})"
+        given = {n: r for n, r in self.values.items() if n not in self.defaulted}
+        parts = []
+        if given:
+            groups: dict[float, list[str]] = {}
+            for n, r in given.items():
+                groups.setdefault(r, []).append(n)
+            listed = "; ".join(f"{r:g} m²·K/W on {', '.join(ns)}" for r, ns in groups.items())
+            parts.append(f"R_si = {listed} ({key})")
+        if self.defaulted:
+            which = "every checked inside surface" if not given else ", ".join(self.defaulted)
+            parts.append(
+                f"R_si = {CONDENSATION_RSI:g} m²·K/W on {which} (ISO 13788 value for opaque "
+                f"surfaces, from memory; the default where {key} sets nothing: set it per "
+                "surface, e.g. 0.13 on glazing and frames)"
+            )
+        return "; ".join(parts)
+
+
 Dimensions = Literal["internal", "overall_internal", "external"]
 
 
@@ -211,9 +254,8 @@ class Junction:
     """Thermal-bridge evaluation (ISO 10211): warm-side and cold-side boundaries, flanking
     elements, the dimension system of their lengths, and the surface-temperature checks.
 
-    ``condensation_resistance`` (m²·K/W per inside boundary name), when given, holds the
-    inside surface resistances of a second solve used for f_Rsi and θ_si,min (ISO 13788
-    uses 0.25 on opaque surfaces, 0.13 on glazing and frames; from memory);
+    ``surface_resistances`` are the inside surface resistances of the surface-temperature
+    solve f_Rsi and θ_si,min come from (:mod:`fvheat.case.resistances`);
     ``f_rsi_limit`` is the pass/fail criterion, applied over the ``f_rsi_boundaries``
     (default: all inside ones); ``indoor_humidity`` (0–1) enables the dew-point check;
     ``frame_width`` (m) turns the ψ of a frame section with an insulating panel into U_f
@@ -224,7 +266,9 @@ class Junction:
     outside: tuple[str, ...]
     flanking: tuple[Flanking, ...] = ()
     dimensions: Dimensions = "internal"
-    condensation_resistance: dict[str, float] | None = None
+    surface_resistances: SurfaceResistances = field(
+        default_factory=lambda: SurfaceResistances(None)
+    )
     f_rsi_limit: float | None = None
     f_rsi_boundaries: tuple[str, ...] | None = None
     indoor_humidity: float | None = None

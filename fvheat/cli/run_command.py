@@ -149,6 +149,7 @@ def _junction_table(study: Study):
         "θ_si,min",
         f"{j.theta_si_min:.2f} °C at ({j.theta_si_min_at[0]:.3f}, {j.theta_si_min_at[1]:.3f}) m",
     )
+    t.add_row("  from the", j.f_rsi_from)
     if j.dew_point is not None:
         t.add_row(
             "dew point / surface RH", f"{j.dew_point:.2f} °C / {100 * (j.surface_rh or 0):.0f} %"

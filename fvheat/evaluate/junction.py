@@ -62,6 +62,9 @@ class JunctionResult:
     theta_si_min_at: tuple[float, float]
     f_rsi_from: str
     f_rsi_limit: float | None = None
+    f_rsi_resistances: dict[str, float] | None = None
+    f_rsi_default: bool = False
+    separate_surface_solve: bool = False
     u_f: float | None = None
     dew_point: float | None = None
     surface_rh: float | None = None
@@ -79,6 +82,9 @@ class JunctionResult:
             "theta_si_min": self.theta_si_min,
             "theta_si_min_at": list(self.theta_si_min_at),
             "f_Rsi_from": self.f_rsi_from,
+            "f_Rsi_surface_resistances": self.f_rsi_resistances,
+            "f_Rsi_resistance_default": self.f_rsi_default,
+            "f_Rsi_separate_solve": self.separate_surface_solve,
             "f_Rsi_limit": self.f_rsi_limit,
             "f_Rsi_pass": self.f_rsi_pass,
             "theta_i": self.theta_i,
@@ -168,13 +174,13 @@ def evaluate_junction(
     coldest = min(j.f_rsi_boundaries or j.inside, key=lambda n: src.surfaces[n].min_temperature)
     theta_si = src.surfaces[coldest].min_temperature
     f_rsi = (theta_si - theta_e) / dtheta
-    f_from = (
-        "surface-temperature solve with R_si = "
-        + ", ".join(f"{r:g} ({n})" for n, r in (j.condensation_resistance or {}).items())
-        + " m²·K/W"
-        if surface is not None
-        else "heat-loss solve (inside surface resistances as given)"
-    )
+    basis = j.surface_resistances.describe("junction.condensation_resistance")
+    if surface is not None:
+        f_from = f"surface-temperature solve with {basis}"
+    elif j.surface_resistances.values is None:
+        f_from = f"heat-loss solve, with {basis}"
+    else:
+        f_from = f"heat-loss solve, whose inside surface resistances are the asked {basis}"
     result = JunctionResult(
         theta_i=theta_i,
         theta_e=theta_e,
@@ -188,6 +194,9 @@ def evaluate_junction(
         theta_si_min_at=src.surfaces[coldest].min_at,
         f_rsi_from=f_from,
         f_rsi_limit=j.f_rsi_limit,
+        f_rsi_resistances=j.surface_resistances.values,
+        f_rsi_default=bool(j.surface_resistances.defaulted),
+        separate_surface_solve=surface is not None,
     )
     if j.frame_width is not None:
         result.u_f = psi / j.frame_width

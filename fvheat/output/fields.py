@@ -4,6 +4,9 @@ Layout in the results folder::
 
     fields/field.vtu                      steady run
     fields/field_0000.vtu, ... field.pvd  transient run: one file per saved time + PVD index
+    fields/surface_solve.vtu              junction: the steady surface-temperature solve
+                                          (f_Rsi, θ_si,min), when it differs from the
+                                          heat-loss solve
     fields/fields.json                    grid lines, material and boundary names, file list
     cells.csv                             cell centres, material, temperature, heat flux
 
@@ -146,8 +149,14 @@ def write_pvd(path: str | Path, entries: list[tuple[float, str]]) -> Path:
     return atomic_write_text(path, text)
 
 
-def write_fields(solution: Solution, out: str | Path) -> list[Path]:
-    """Write the field files of a run into ``out/fields`` (see the module docstring)."""
+SURFACE_FILE = "surface_solve.vtu"
+
+
+def write_fields(
+    solution: Solution, out: str | Path, surface: Solution | None = None
+) -> list[Path]:
+    """Write the field files of a run into ``out/fields`` (see the module docstring);
+    ``surface`` is a junction's separate surface-temperature solution."""
     folder = Path(out) / FIELDS_DIR
     g = solution.mesh.grid
     assert g is not None
@@ -167,12 +176,15 @@ def write_fields(solution: Solution, out: str | Path) -> list[Path]:
     entries = [(float(t), name) for t, _, name in states]
     if len(states) > 1 or solution.case.transient:
         written.append(write_pvd(folder / "field.pvd", entries))
+    if surface is not None:
+        written.append(write_vtu(folder / SURFACE_FILE, field_view(surface), compress=compress))
     meta = {
         "format": FORMAT,
         "grid": {"x": g.x.tolist(), "y": g.y.tolist()},
         "materials": list(solution.mesh.material_names),
         "boundaries": list(solution.mesh.boundary_names),
         "files": [{"time_s": t, "file": f} for t, f in entries],
+        "surface_solve": SURFACE_FILE if surface is not None else None,
     }
     written.append(atomic_write_text(folder / META_FILE, json.dumps(meta, indent=1) + "\n"))
     return written
@@ -191,6 +203,17 @@ def read_field(out: str | Path, index: int = -1, meta: dict[str, Any] | None = N
     entry = meta["files"][index]
     mesh = meshio.read(Path(out) / FIELDS_DIR / entry["file"])
     return from_meshio(mesh, meta, float(entry["time_s"]))
+
+
+def read_surface_field(out: str | Path, meta: dict[str, Any] | None = None) -> FieldView | None:
+    """The junction's surface-temperature field of a folder, None when it has none."""
+    import meshio
+
+    meta = meta if meta is not None else read_meta(out)
+    name = meta.get("surface_solve")
+    if not name:
+        return None
+    return from_meshio(meshio.read(Path(out) / FIELDS_DIR / name), meta)
 
 
 def write_cells_csv(path: str | Path, view: FieldView) -> Path:

@@ -31,7 +31,7 @@ def write_outputs(study: Study, out: str | Path, *, plots: bool = True) -> list[
     if sol.mesh.grid is None:  # field files and figures need the rectilinear grid
         log.warning("no rectilinear grid: field files and figures are not written")
         return [*written, *write_report(ResultsFolder.open(out))]
-    written += write_fields(sol, out)
+    written += write_fields(sol, out, study.surface_solution)
     if sol.mesh.n_cells <= CELLS_CSV_LIMIT:
         written.append(write_cells_csv(out / CELLS_FILE, field_view(sol)))
     else:

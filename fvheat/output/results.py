@@ -15,7 +15,7 @@ from typing import Any
 import numpy as np
 
 from fvheat.errors import CaseError
-from fvheat.output.fields import FIELDS_DIR, META_FILE, read_field
+from fvheat.output.fields import FIELDS_DIR, META_FILE, read_field, read_surface_field
 from fvheat.output.inputs import INPUTS_FILE
 from fvheat.output.view import FieldView
 
@@ -97,6 +97,11 @@ class ResultsFolder:
     def field(self, index: int = -1) -> FieldView:
         """Saved field number ``index`` (default: the last one, i.e. the end time)."""
         return read_field(self.path, index, self.field_meta())
+
+    def surface_field(self) -> FieldView | None:
+        """The junction's surface-temperature field (f_Rsi, θ_si,min), None when the run
+        took them from the heat-loss field."""
+        return read_surface_field(self.path, self.field_meta())
 
     def timeseries(self) -> TimeSeries | None:
         """``timeseries.csv`` split into probes and boundaries, or None when absent."""

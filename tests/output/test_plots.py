@@ -139,3 +139,35 @@ def test_transient_plots_render():
     fig = snapshot_figure(views[:4])
     assert sum(ax.get_visible() for ax in fig.axes) == min(4, len(views)) + 1  # + colour bar
     assert pixels(fig).std() > 20.0
+
+
+def test_theta_si_min_marked_on_the_map_it_comes_from(steady_results):
+    """The balcony junction's f_Rsi comes from a separate surface-temperature solve
+    (R_si = 0.25): its map is drawn too and carries the θ_si,min marker at the reported
+    point; the heat-loss map carries none. The surface field read back is that solve's
+    (its inside surface minimum is the reported θ_si,min)."""
+    import json
+
+    from fvheat.output.results import ResultsFolder
+
+    folder = ResultsFolder.open(steady_results)
+    j = folder.summary["junction"]
+    assert j["f_Rsi_separate_solve"] is True
+    index = {
+        r["name"]: r for r in json.loads((steady_results / "figures/figures.json").read_text())
+    }
+    assert "temperature_surface" in index
+    main_svg = (steady_results / index["temperature"]["svg"]).read_text()
+    surface_svg = (steady_results / index["temperature_surface"]["svg"]).read_text()
+    assert COLDEST_GID not in main_svg
+    assert COLDEST_GID in surface_svg
+    assert "θ_si,min" in index["temperature_surface"]["caption"]
+    assert "heat-loss solve" in index["temperature"]["caption"]
+    view = folder.surface_field()
+    inside = [
+        view.boundary_names.index(n) for n in ("inside_wall", "inside_ceiling", "inside_floor")
+    ]
+    face_min = view.face_temperature[np.isin(view.face_boundary, inside)].min()
+    # the reported minimum also covers face end points, so it is at or below the faces'
+    assert j["theta_si_min"] <= face_min + 1e-12
+    assert j["theta_si_min"] > face_min - 0.5

@@ -1,6 +1,7 @@
 """Draw every figure of a results folder into ``DIR/figures`` with an index of captions.
 
-Files: ``temperature``, ``heat_flux``, ``mesh`` (.png and .svg), and for a transient run
+Files: ``temperature``, ``temperature_surface`` (a junction's surface-temperature solve,
+when separate), ``heat_flux``, ``mesh`` (.png and .svg), and for a transient run
 ``probes``, ``heat_flows`` and ``snapshots``; ``figures.json`` lists them with captions
 (the report reads it).
 """
@@ -72,16 +73,32 @@ def draw_figures(
     records = []
 
     marked = coldest_point(s)
+    surface = folder.surface_field()
+    # θ_si,min is marked on the map of the solve it comes from
+    on_main = marked if surface is None else None
     fig = temperature_figure(
         view,
         title=title,
-        subtitle=when,
-        marked=marked,
+        subtitle=when if surface is None else f"heat-loss solve, {when}",
+        marked=on_main,
         vrange=vrange,
         zoom=zoom,
         caption=SCREENING,
     )
-    records.append(_save(fig, folder, "temperature", _temperature_caption(s, when, marked) + notes))
+    caption = _temperature_caption(s, when, on_main, separate=surface is not None)
+    records.append(_save(fig, folder, "temperature", caption + notes))
+    if surface is not None:
+        fig = temperature_figure(
+            surface,
+            title=title,
+            subtitle="surface-temperature solve (f_Rsi, θ_si,min), steady state",
+            marked=marked,
+            vrange=vrange,
+            zoom=zoom,
+            caption=SCREENING,
+        )
+        caption = _surface_caption(s, marked)
+        records.append(_save(fig, folder, "temperature_surface", caption + notes))
 
     fig = heat_flux_figure(view, title=title, subtitle=when, zoom=zoom)
     records.append(
@@ -128,23 +145,42 @@ def _view_notes(vrange, zoom) -> str:
     return out
 
 
-def _temperature_caption(s: dict[str, Any], when: str, marked) -> str:
+def _temperature_caption(s: dict[str, Any], when: str, marked, *, separate: bool) -> str:
     text = (
         f"Temperature field (°C), {when}, with isotherms, material outlines and the "
         "boundaries coloured and named."
     )
-    if marked is not None:
+    if separate:
         text += (
-            f" The diamond marks {marked.label} = {marked.value:.2f} °C at "
-            f"({marked.x:.3f}, {marked.y:.3f}) m"
+            " This is the heat-loss solve (ψ, L2D: the boundaries' own surface resistances); "
+            "f_Rsi and θ_si,min come from the surface-temperature solve, whose map follows "
+            "with θ_si,min marked."
         )
+    elif marked is not None:
+        text += f" {_marked_text(marked)}"
         j = s.get("junction")
         if j is not None and j.get("f_Rsi_from"):
             text += f", taken from the {j['f_Rsi_from']}"
-            if "condensation" in str(j["f_Rsi_from"]) or "R_si =" in str(j["f_Rsi_from"]):
-                text += "; the map shows the heat-loss solve"
         text += "."
     return text + " " + SCREENING
+
+
+def _surface_caption(s: dict[str, Any], marked) -> str:
+    j = s.get("junction") or {}
+    text = (
+        "Temperature field (°C) of the steady surface-temperature solve that f_Rsi and "
+        f"θ_si,min come from: {j.get('f_Rsi_from', '')}."
+    )
+    if marked is not None:
+        text += f" {_marked_text(marked)}."
+    return text + " " + SCREENING
+
+
+def _marked_text(marked) -> str:
+    return (
+        f"The diamond marks {marked.label} = {marked.value:.2f} °C at "
+        f"({marked.x:.3f}, {marked.y:.3f}) m"
+    )
 
 
 def _transient(folder: ResultsFolder, title: str, vrange, zoom, notes: str) -> list[FigureRecord]:

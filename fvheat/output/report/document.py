@@ -265,7 +265,12 @@ def _input_sections(s: dict[str, Any], inputs: dict[str, Any] | None) -> list[Se
             [
                 "settings",
                 f"max_cell {num(ms['max_cell'], 'g', 'm')}, "
-                f"min_cell {num(ms['min_cell'], 'g', 'm')}, growth {num(ms['growth'], 'g')}",
+                f"min_cell {num(ms['min_cell'], 'g', 'm')}, growth {num(ms['growth'], 'g')}"
+                + (
+                    f", corner cells {num(ms['corner_cell'], 'g', 'm')}"
+                    if ms.get("corner_cell") is not None
+                    else ""
+                ),
             ]
         )
     mesh.blocks.append(Table(["mesh", "value"], rows, [False, True]))
@@ -486,6 +491,26 @@ def _junction_section(j: dict[str, Any] | None) -> Section:
         rows.append(["condensation at θ_si,min", num(j.get("condensation_at_theta_si_min"))])
         rows.append(["mould risk (surface RH ≥ 80 %)", num(j.get("mould_risk_rh_80"))])
     sec.blocks.append(Table(["quantity", "value"], rows, [False, True]))
+    if j.get("f_Rsi_separate_solve"):
+        sec.blocks.append(
+            Para(
+                "ψ and L2D come from the heat-loss solve (the boundaries' own surface "
+                "resistances); f_Rsi and θ_si,min from a second, surface-temperature solve "
+                "with the inside resistances above. The figures show both temperature maps; "
+                "θ_si,min is marked on the surface-temperature map.",
+                "note",
+            )
+        )
+    if j.get("f_Rsi_resistance_default"):
+        sec.blocks.append(
+            Para(
+                "The case sets no condensation surface resistance for some inside surfaces; "
+                "they were given 0.25 m²·K/W (ISO 13788, opaque surfaces). Glazing and frames "
+                "are usually assessed at 0.13 m²·K/W: set junction.condensation_resistance "
+                "per surface.",
+                "caution",
+            )
+        )
     if j.get("f_Rsi_pass") is not None:
         ok = bool(j["f_Rsi_pass"])
         sec.blocks.append(
