@@ -6,6 +6,7 @@ and key; no traceback).
 
 from __future__ import annotations
 
+import glob
 import os
 import sys
 from pathlib import Path
@@ -266,7 +267,12 @@ def main(argv: list[str] | None = None) -> int:
     errors (2 bad input, 1 numerical failure) and Ctrl-C (130) are handled the same way with
     every typer version.
     """
-    args = sys.argv[1:] if argv is None else list(argv)
+    if argv is None:
+        args = sys.argv[1:]
+        if os.name == "nt":  # Windows shells leave wildcards to the program (typer's main did too)
+            args = expand_wildcards(args)
+    else:
+        args = list(argv)
     command = typer.main.get_command(app)
     try:
         with command.make_context("fvheat", args) as ctx:
@@ -291,6 +297,16 @@ def main(argv: list[str] | None = None) -> int:
         return parser_code
     # a command may return its exit code (sweep: 1 when a variant failed)
     return code if isinstance(code, int) and not isinstance(code, bool) else 0
+
+
+def expand_wildcards(args: list[str]) -> list[str]:
+    """Replace every argument holding ``*``, ``?`` or ``[`` by the paths it matches (sorted;
+    ``**`` recurses), as a POSIX shell does; an argument that matches nothing stays as is."""
+    out: list[str] = []
+    for a in args:
+        matches = sorted(glob.glob(a, recursive=True)) if any(c in a for c in "*?[") else []
+        out.extend(matches or [a])
+    return out
 
 
 def _stdout_closed() -> bool:

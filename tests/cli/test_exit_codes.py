@@ -14,7 +14,7 @@ import pytest
 import typer
 from casefiles import write_case
 
-from fvheat.cli.main import main
+from fvheat.cli.main import expand_wildcards, main
 
 WALL = """
 [mesh]
@@ -160,3 +160,23 @@ def test_a_bug_is_not_mistaken_for_a_usage_error(tmp_path, monkeypatch):
     monkeypatch.setattr(fvheat.cli.run_command, "run_case", broken)
     with pytest.raises(Bug):
         main(["run", str(write_case(tmp_path, WALL))])
+
+
+def test_wildcards_are_expanded_like_a_posix_shell(tmp_path):
+    """What main() does on Windows, whose shells pass ``*`` through (POSIX shell globbing is
+    the reference: sorted matches, ``**`` recursive, no match leaves the word unchanged)."""
+    for name in ("b/summary.json", "a/summary.json", "a/deep/summary.json"):
+        (tmp_path / name).parent.mkdir(parents=True, exist_ok=True)
+        (tmp_path / name).write_text("{}")
+    one = str(tmp_path / "*" / "summary.json")
+    deep = str(tmp_path / "**" / "summary.json")
+    none = str(tmp_path / "z*")
+    got = expand_wildcards(["collect", one, "--csv", none])
+    assert got == [
+        "collect",
+        str(tmp_path / "a" / "summary.json"),
+        str(tmp_path / "b" / "summary.json"),
+        "--csv",
+        none,
+    ]
+    assert str(tmp_path / "a" / "deep" / "summary.json") in expand_wildcards([deep])
