@@ -6,6 +6,8 @@ and key; no traceback).
 
 from __future__ import annotations
 
+import glob
+import os
 import sys
 from pathlib import Path
 from typing import Annotated
@@ -21,7 +23,9 @@ app = typer.Typer(
     pretty_exceptions_enable=False,
 )
 
-CaseArg = Annotated[Path, typer.Argument(help="Case file (TOML).", show_default=False)]
+CaseArg = Annotated[
+    Path, typer.Argument(help="Case file (TOML).", metavar="CASE", show_default=False)
+]
 SetOpt = Annotated[
     list[str] | None,
     typer.Option(
@@ -92,7 +96,10 @@ def materials() -> None:
 
 
 ResultsArg = Annotated[
-    Path, typer.Argument(help="Results folder written by `fvheat run`.", show_default=False)
+    Path,
+    typer.Argument(
+        help="Results folder written by `fvheat run`.", metavar="FOLDER", show_default=False
+    ),
 ]
 
 
@@ -221,7 +228,10 @@ def collect(
 @app.command("sweep-plot")
 def sweep_plot(
     folder: Annotated[
-        Path, typer.Argument(help="Sweep folder or its sweep.sqlite.", show_default=False)
+        Path,
+        typer.Argument(
+            help="Sweep folder or its sweep.sqlite.", metavar="FOLDER", show_default=False
+        ),
     ],
     x: Annotated[str, typer.Option("--x", help="Varied key on the x axis.", show_default=False)],
     y: Annotated[
@@ -250,9 +260,23 @@ def sweep_plot(
 
 
 def main(argv: list[str] | None = None) -> int:
-    """Entry point: run the app and map fvheat errors to exit codes and one-line messages."""
+    """Entry point: run the app and map errors to exit codes and one-line messages.
+
+    The command line is parsed and the command invoked here, not in typer's own main loop,
+    so every exception arrives as raised: usage errors (exit 2, with the usage line), fvheat
+    errors (2 bad input, 1 numerical failure) and Ctrl-C (130) are handled the same way with
+    every typer version.
+    """
+    if argv is None:
+        args = sys.argv[1:]
+        if os.name == "nt":  # Windows shells leave wildcards to the program (typer's main did too)
+            args = expand_wildcards(args)
+    else:
+        args = list(argv)
+    command = typer.main.get_command(app)
     try:
-        code = app(args=argv, prog_name="fvheat", standalone_mode=False)
+        with command.make_context("fvheat", args) as ctx:
+            code = command.invoke(ctx)
     except CaseError as err:
         print(f"fvheat: error: {err}", file=sys.stderr)
         return 2
@@ -262,17 +286,76 @@ def main(argv: list[str] | None = None) -> int:
     except KeyboardInterrupt:
         print("fvheat: interrupted; files already written are complete", file=sys.stderr)
         return 130
-    except Exception as err:  # click usage errors and the like
-        import click
-
-        if isinstance(err, click.exceptions.ClickException):
-            err.show()
-            return err.exit_code
-        if isinstance(err, click.exceptions.Exit):
-            return err.exit_code
-        raise
+    except BrokenPipeError:
+        if not _stdout_closed():
+            raise
+        return 1  # output piped into a program that stopped reading (`| head`)
+    except Exception as err:
+        parser_code = _parser_exit(err, args)
+        if parser_code is None:
+            raise
+        return parser_code
     # a command may return its exit code (sweep: 1 when a variant failed)
     return code if isinstance(code, int) and not isinstance(code, bool) else 0
+
+
+def expand_wildcards(args: list[str]) -> list[str]:
+    """Replace every argument holding ``*``, ``?`` or ``[`` by the paths it matches (sorted;
+    ``**`` recurses), as a POSIX shell does; an argument that matches nothing stays as is."""
+    out: list[str] = []
+    for a in args:
+        matches = sorted(glob.glob(a, recursive=True)) if any(c in a for c in "*?[") else []
+        out.extend(matches or [a])
+    return out
+
+
+def _stdout_closed() -> bool:
+    """True when standard output is a pipe nobody reads any more; then it is pointed at
+    the null device, so that Python's final flush does not fail too."""
+    try:
+        sys.stdout.flush()
+    except BrokenPipeError:
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return True
+    return False
+
+
+def _parser_exit(err: Exception, args: list[str]) -> int | None:
+    """Exit code for an exception of the command-line parser, after printing what it has to
+    say; None for any other exception.
+
+    The parser is click: the click package with older typer, a copy inside typer
+    (``typer._click``) with newer typer. Their exception classes differ, so they are
+    recognised by where they come from and by shape: a usage error has an integer
+    ``exit_code`` (2) and ``show()``; ``Exit`` (``--help``) has only ``exit_code``.
+    """
+    if not any(c.__module__.split(".")[0] in ("click", "typer") for c in type(err).__mro__):
+        return None
+    name = type(err).__name__
+    if name == "NoArgsIsHelpError":  # `fvheat` alone: the help is the answer, not an error
+        text = str(getattr(err, "format_message", lambda: "")())
+        if text.strip():  # typer's rich help is printed while the exception is made
+            print(text)
+        return 0
+    code = getattr(err, "exit_code", None)
+    if isinstance(code, int) and callable(getattr(err, "show", None)):
+        err.show()  # "Usage: ...", "Try 'fvheat ... --help' for help.", "Error: ..."
+        if getattr(err, "ctx", False) is None:  # raised by the option parser: no usage shown
+            print(f"Try '{_help_command(args)}' for help.", file=sys.stderr)
+        return code
+    if isinstance(code, int):
+        return code
+    if name == "Abort":
+        print("fvheat: aborted", file=sys.stderr)
+        return 1
+    return None
+
+
+def _help_command(args: list[str]) -> str:
+    """``fvheat COMMAND --help`` for the command named in ``args``, else ``fvheat --help``."""
+    names = typer.main.get_command(app).commands  # type: ignore[attr-defined]
+    cmd = next((a for a in args if not a.startswith("-")), None)
+    return f"fvheat {cmd} --help" if cmd in names else "fvheat --help"
 
 
 if __name__ == "__main__":

@@ -1,7 +1,7 @@
 """Condensation-risk hours on inside surfaces during a transient run.
 
 At the end of every time step each face of the checked boundaries is compared with the
-dew point of the room air (Magnus formula, :mod:`fvheat.evaluate.humidity`) and its
+dew point of the room air (the frost point below 0 °C: :mod:`fvheat.evaluate.humidity`) and its
 surface relative humidity with the mould threshold (80 % by default: the ISO 13788
 criterion, common practice); the step's length counts towards the hours of each face where
 the condition holds, and towards the "any face" totals when it holds somewhere.
@@ -16,7 +16,7 @@ import numpy as np
 
 from fvheat.assembly.system import System
 from fvheat.case.model import Case, Condensation
-from fvheat.evaluate.humidity import saturation_pressure
+from fvheat.evaluate.humidity import SATURATION_BASIS, surface_relative_humidity
 
 
 @dataclass
@@ -51,9 +51,8 @@ class CondensationHours:
         theta_s = ts[self.faces]
         theta_a = float(self.settings.air_temperature.at(t))
         rh = float(self.settings.relative_humidity.at(t)) / 100.0
-        pv = rh * saturation_pressure(theta_a)
-        surface_rh = pv / saturation_pressure(theta_s)
-        dew = surface_rh >= 1.0  # the surface is at or below the dew point
+        surface_rh = np.asarray(surface_relative_humidity(theta_a, rh, theta_s))
+        dew = surface_rh >= 1.0  # the surface is at or below the dew (frost) point
         mould = surface_rh >= self.settings.mould_threshold / 100.0
         # counted in seconds (exact for whole-second steps), reported in hours
         self.seconds_dew += dt * dew
@@ -71,6 +70,7 @@ class CondensationHours:
             "hours_below_dew_point": self.any_dew * h,
             "hours_surface_rh_above_threshold": self.any_mould * h,
             "mould_threshold_percent": self.settings.mould_threshold,
+            "dew_point_basis": SATURATION_BASIS,
         }
         if self.faces.size:
             k = int(np.argmax(self.seconds_mould + 1e-9 * self.seconds_dew))

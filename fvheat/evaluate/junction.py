@@ -15,7 +15,7 @@ import numpy as np
 
 from fvheat.case.model import Case, Junction
 from fvheat.errors import CaseError
-from fvheat.evaluate.humidity import dew_point, surface_relative_humidity
+from fvheat.evaluate.humidity import SATURATION_BASIS, dew_point, surface_relative_humidity
 from fvheat.evaluate.layers import CutError, LayerCut, layer_cut
 from fvheat.simulate import Solution
 
@@ -97,6 +97,7 @@ class JunctionResult:
             out["U_f"] = self.u_f
         if self.dew_point is not None:
             out["dew_point"] = self.dew_point
+            out["dew_point_basis"] = SATURATION_BASIS
             out["surface_rh_at_theta_si_min"] = self.surface_rh
             out["condensation_at_theta_si_min"] = bool(self.theta_si_min < self.dew_point)
             out["mould_risk_rh_80"] = bool(

@@ -11,6 +11,7 @@ from typing import ClassVar
 import pytest
 
 from fvheat.cautions import CAUTION
+from fvheat.evaluate.humidity import SATURATION_BASIS
 from fvheat.output.report.document import SECTION_IDS
 
 PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"
@@ -94,6 +95,9 @@ def test_junction_results_and_verdict_in_the_report(steady_results):
     assert f"{j['f_Rsi']:.3f}" in text and f"{j['theta_si_min']:.2f} °C" in text
     verdict = "meets" if j["f_Rsi_pass"] else "does NOT meet"
     assert verdict in text
+    # the saturation basis of the dew point is stated in summary.json and in the table
+    assert j["dew_point_basis"] == SATURATION_BASIS
+    assert "<td>dew point basis</td>" in text and SATURATION_BASIS in text
 
 
 def test_report_without_junction_says_so(transient_results):

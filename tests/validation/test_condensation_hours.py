@@ -19,6 +19,7 @@ import numpy as np
 import pytest
 
 from fvheat.case.load import load_case
+from fvheat.evaluate.humidity import SATURATION_BASIS
 from fvheat.simulate import simulate
 
 THETA_I, THETA_E = 20.0, -10.0
@@ -110,3 +111,4 @@ initial_temperature = "steady"
     assert c["hours_below_dew_point"] == expected_dew
     assert c["hours_surface_rh_above_threshold"] == expected_mould
     assert c["hours_counted"] == DURATION / 3600
+    assert c["dew_point_basis"] == SATURATION_BASIS

@@ -486,6 +486,8 @@ def _junction_section(j: dict[str, Any] | None) -> Section:
         rows.append(["f_Rsi and θ_si,min from", str(j["f_Rsi_from"])])
     if j.get("dew_point") is not None:
         rows.append(["dew point of the room air", num(j["dew_point"], ".2f", "°C")])
+        basis = j.get("dew_point_basis", "over water (results from before the basis was stated)")
+        rows.append(["dew point basis", str(basis)])
         rh = j.get("surface_rh_at_theta_si_min")
         rows.append(["surface RH at θ_si,min", "–" if rh is None else f"{100 * rh:.0f} %"])
         rows.append(["condensation at θ_si,min", num(j.get("condensation_at_theta_si_min"))])
