@@ -17,8 +17,9 @@ _INDEX = re.compile(r"\d+")
 def apply_overrides(data: dict, overrides: Sequence[str], source: str) -> dict:
     """A deep copy of the case ``data`` with each ``path=value`` override applied in order.
 
-    ``path`` is dotted; list items are addressed by 0-based index (``regions.2.material``) and
-    keys containing dots may be quoted as in TOML (``materials."glass.wool".conductivity``).
+    ``path`` is dotted; list items are addressed by 0-based index (``regions.2.material``) or
+    by the ``name`` they carry (``boundaries.outside.air_temperature``), and keys containing
+    dots may be quoted as in TOML (``materials."glass.wool".conductivity``).
     ``value`` is read as a TOML value (``0.3``, ``true``, ``[1, 2]``, ``{mean = 0, ...}``),
     or taken as plain text when it is not one (``title=My wall``). Missing keys and tables are
     created (validation then rejects unknown ones). ``source`` names the case file in errors.
@@ -72,13 +73,7 @@ def _set(data: dict, keys: list[str], value: Any, source: str, where: str) -> No
             else:
                 node = node.setdefault(key, {})
         elif isinstance(node, list):
-            if not _INDEX.fullmatch(key):
-                raise CaseError(
-                    f"{here} is an array: expected a 0-based index, got {key!r}",
-                    file=source,
-                    key=where,
-                )
-            index = int(key)
+            index = _index(node, key, here, source, where)
             if index >= len(node):
                 span = f"indices 0 to {len(node) - 1}" if node else "it is empty"
                 raise CaseError(
@@ -98,3 +93,28 @@ def _set(data: dict, keys: list[str], value: Any, source: str, where: str) -> No
                 file=source,
                 key=where,
             )
+
+
+def _index(items: list, key: str, here: str, source: str, where: str) -> int:
+    """The position in ``items`` that ``key`` addresses: a 0-based index, or the ``name``
+    of one of its tables (a name made of digits only is read as an index)."""
+    if _INDEX.fullmatch(key):
+        return int(key)
+    named = [i for i, v in enumerate(items) if isinstance(v, dict) and v.get("name") == key]
+    if len(named) == 1:
+        return named[0]
+    names = [v["name"] for v in items if isinstance(v, dict) and isinstance(v.get("name"), str)]
+    if named:
+        raise CaseError(
+            f"{len(named)} entries of {here} are named {key!r}; use a 0-based index",
+            file=source,
+            key=where,
+        )
+    listed = f"names: {', '.join(names)}" if names else "its entries have no names"
+    span = f"0 to {len(items) - 1}" if items else "it is empty"
+    raise CaseError(
+        f"{here} is an array with no entry named {key!r} ({listed}); give a name or a "
+        f"0-based index ({span})",
+        file=source,
+        key=where,
+    )

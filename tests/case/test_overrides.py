@@ -1,9 +1,12 @@
 """``--set`` overrides: dotted paths, list indices, TOML values, and errors naming the override."""
 
 import copy
+import tomllib
+from pathlib import Path
 
 import pytest
 
+from fvheat.case.load import load_case
 from fvheat.case.overrides import apply_overrides
 from fvheat.errors import CaseError
 
@@ -108,8 +111,9 @@ def test_whole_list_item_replaced():
     [
         ("regions.9.material=steel", "--set regions.9.material", "index 9 is out of range"),
         ("regions.3=x", "--set regions.3", "regions has 3 items (indices 0 to 2)"),
-        ("regions.first.material=x", "--set regions.first.material", "expected a 0-based index"),
-        ("regions.-1.material=x", "--set regions.-1.material", "expected a 0-based index"),
+        ("regions.first.material=x", "--set regions.first.material", "no entry named 'first'"),
+        ("regions.-1.material=x", "--set regions.-1.material", "(its entries have no names)"),
+        ("boundaries.out.temperature=1", "--set boundaries.out.temperature", "names: in"),
         ("title.x=1", "--set title.x", "title is a single value (string 'wall')"),
         ("mesh.max_cell.value=1", "--set mesh.max_cell.value", "not a table or array"),
         ("regions.0.box.1.0=2", "--set regions.0.box.1.0", "regions.0.box.1 is a single value"),
@@ -139,3 +143,60 @@ def test_empty_list_index_message():
     data = {"probes": []}
     with pytest.raises(CaseError, match=r"probes has 0 items \(it is empty\)"):
         apply_overrides(data, ["probes.0.name=A"], "c.toml")
+
+
+def test_entries_addressed_by_name():
+    """``boundaries.in.temperature`` is ``boundaries.0.temperature``: the entry whose name
+    is ``in``."""
+    assert apply("boundaries.in.temperature=18") == apply("boundaries.0.temperature=18")
+    assert apply("boundaries.in.temperature=18")["boundaries"][0]["temperature"] == 18
+
+
+def test_duplicate_names_ask_for_an_index():
+    data = {"probes": [{"name": "A", "at": [0, 0]}, {"name": "A", "at": [1, 0]}]}
+    with pytest.raises(CaseError, match="2 entries of probes are named 'A'; use a 0-based"):
+        apply_overrides(data, ["probes.A.at=[0.5, 0]"], "c.toml")
+
+
+CASES = sorted((Path(__file__).resolve().parents[2] / "cases").glob("*.toml"))
+
+
+def _named_entries(data: dict):
+    """(array path, index, name) of every named table in the case's arrays of tables."""
+    arrays = {k: v for k, v in data.items() if isinstance(v, list)}
+    arrays.update(
+        {f"junction.{k}": v for k, v in data.get("junction", {}).items() if isinstance(v, list)}
+    )
+    for path, items in arrays.items():
+        for i, item in enumerate(items):
+            if isinstance(item, dict) and isinstance(item.get("name"), str):
+                yield path, i, item["name"]
+
+
+@pytest.mark.parametrize("case_file", CASES, ids=[c.name for c in CASES])
+def test_set_by_name_equals_set_by_index_on_demo_cases(case_file):
+    """On every demo case, every named entry (boundaries, probes, probe lines, flanking
+    elements, named regions) set by name gives the same case data as by index; one full
+    load of each compares the validated cases."""
+    data = tomllib.loads(case_file.read_text(encoding="utf-8"))
+    entries = list(_named_entries(data))
+    assert entries, "every demo case has named entries"
+    for path, i, name in entries:
+        by_name = apply_overrides(data, [f"{path}.{name}.note=1"], str(case_file))
+        by_index = apply_overrides(data, [f"{path}.{i}.note=1"], str(case_file))
+        assert by_name == by_index != data
+    path, i, name = next((p, i, n) for p, i, n in entries if p == "boundaries")
+    b = data["boundaries"][i]
+    key = (
+        "air_temperature"
+        if "air_temperature" in b
+        else "temperature"
+        if "temperature" in b
+        else "heat_flux"
+    )
+    a = load_case(case_file, [f"boundaries.{name}.{key}=3.5"])
+    c = load_case(case_file, [f"boundaries.{i}.{key}=3.5"])
+    assert [(b.name, b.edges, b.kind) for b in a.boundaries] == [
+        (b.name, b.edges, b.kind) for b in c.boundaries
+    ]
+    assert getattr(a.boundaries[i], key).at(0.0) == getattr(c.boundaries[i], key).at(0.0) == 3.5
