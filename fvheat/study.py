@@ -3,11 +3,12 @@ needs (surface-temperature solve, refined-grid check) and its evaluation."""
 
 from __future__ import annotations
 
-from dataclasses import dataclass, replace
+from dataclasses import dataclass, field, replace
 from typing import Any
 
 from fvheat.case.model import Case
 from fvheat.case.resistances import with_surface_resistances
+from fvheat.checks import check_model
 from fvheat.evaluate.junction import JunctionResult, evaluate_junction
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.rectilinear import build_mesh
@@ -59,6 +60,12 @@ class Study:
     junction: JunctionResult | None = None
     surface_solution: Solution | None = None
     grid: GridCheck | None = None
+    warnings: list[str] = field(default_factory=list)
+
+    @property
+    def all_warnings(self) -> list[str]:
+        """The modelling checks' warnings, then the junction evaluation's."""
+        return self.warnings + (self.junction.warnings if self.junction is not None else [])
 
 
 def surface_case(case: Case) -> Case | None:
@@ -100,8 +107,9 @@ def run_study(
     field of every saved time of a transient run (only field outputs need them).
     """
     mesh = mesh if mesh is not None else build_mesh(case)
+    warnings = check_model(case, mesh)
     solution = simulate(case, mesh=mesh, progress=progress, keep_fields=keep_fields)
-    study = Study(solution)
+    study = Study(solution, warnings=warnings)
     j = case.junction
     want_grid = check_grid if check_grid is not None else (j is not None and j.grid_check)
     if j is None and not want_grid:

@@ -219,10 +219,7 @@ def _steady_field_is_fixed(case: Case) -> None:
     """A steady field needs a boundary that ties the temperature to a value."""
     if case.time is not None and case.time.initial_temperature != "steady":
         return
-    if not any(
-        b.kind == "temperature" or (b.kind == "surface" and (b.convection > 0 or b.emissivity > 0))
-        for b in case.boundaries
-    ):
+    if not any(b.ties_temperature for b in case.boundaries):
         raise Invalid(
             "boundaries",
             "a steady field needs at least one boundary with a fixed temperature or with "

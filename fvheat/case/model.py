@@ -124,6 +124,14 @@ class Boundary:
         return self.kind == "surface" and self.emissivity > 0.0
 
     @property
+    def ties_temperature(self) -> bool:
+        """Whether the boundary ties the surface to a temperature (fixed, or exchange with
+        air or radiant surroundings), which a steady field needs somewhere."""
+        return self.kind == "temperature" or (
+            self.kind == "surface" and (self.convection > 0 or self.emissivity > 0)
+        )
+
+    @property
     def reference_temperature(self) -> Signal | None:
         """The temperature the boundary ties the body to: the fixed surface temperature, or
         the air temperature of a surface exchange (None for a flux-only boundary)."""

@@ -12,6 +12,7 @@ from fvheat.case.fields import (
     Invalid,
     describe,
     join,
+    name,
     number,
     point,
     string,
@@ -36,14 +37,18 @@ def parse_regions(value: Any, ctx: Context) -> tuple[Region, ...]:
         raise Invalid("regions", "define at least one [[regions]] entry")
     # library materials and cavities used by regions join the case's materials
     materials: dict[str, Material] = ctx.parsed["materials"]
-    return tuple(
-        replace(_region(tbl, join("regions", i), materials), entry=i)
-        for i, tbl in enumerate(entries)
-    )
+    seen: dict[str, str] = {}
+    out = []
+    for i, tbl in enumerate(entries):
+        path = join("regions", i)
+        region = _region(tbl, path, materials)
+        label = name(tbl["name"], join(path, "name"), seen) if "name" in tbl else None
+        out.append(replace(region, entry=i, name=label))
+    return tuple(out)
 
 
 def _region(tbl: dict, path: str, materials: dict[str, Material]) -> Region:
-    table(tbl, path, allowed=("material", "cavity", "box", "polygon"))
+    table(tbl, path, allowed=("name", "material", "cavity", "box", "polygon"))
     if ("material" in tbl) == ("cavity" in tbl):
         raise Invalid(
             path, 'give exactly one of material = "name" or cavity = { heat_flow = "+x", ... }'

@@ -17,6 +17,7 @@ from fvheat.case.model import Case, Junction
 from fvheat.errors import CaseError
 from fvheat.evaluate.humidity import SATURATION_BASIS, dew_point, surface_relative_humidity
 from fvheat.evaluate.layers import CutError, LayerCut, layer_cut
+from fvheat.mesh.mesh import Mesh
 from fvheat.simulate import Solution
 
 #: surface relative humidity at which mould growth is assumed possible (ISO 13788 uses it
@@ -129,7 +130,23 @@ def side_temperature(case: Case, names: tuple[str, ...], side: str) -> float:
     return next(iter(temps.values()))
 
 
-def flanking_results(case: Case, solution: Solution) -> list[FlankingResult]:
+def junction_temperatures(case: Case) -> tuple[float, float]:
+    """The warm-side and cold-side temperatures θ_i, θ_e (°C) of the case's junction;
+    :class:`CaseError` when a side has no common constant temperature or both are equal."""
+    j = case.junction
+    assert j is not None
+    theta_i = side_temperature(case, j.inside, "inside")
+    theta_e = side_temperature(case, j.outside, "outside")
+    if theta_i == theta_e:
+        raise CaseError(
+            "inside and outside temperatures are equal; L2D needs a temperature difference",
+            file=str(case.source),
+            key="junction",
+        )
+    return theta_i, theta_e
+
+
+def flanking_results(case: Case, mesh: Mesh) -> list[FlankingResult]:
     """U-values and lengths of the flanking elements (layer cuts read from the mesh)."""
     j = case.junction
     assert j is not None
@@ -140,7 +157,7 @@ def flanking_results(case: Case, solution: Solution) -> list[FlankingResult]:
             out.append(FlankingResult(f.name, f.u_value, f.length))
             continue
         try:
-            cut = layer_cut(case, solution.mesh, f.cut)
+            cut = layer_cut(case, mesh, f.cut)
         except CutError as err:
             raise CaseError(
                 str(err), file=str(case.source), key=f"junction.flanking.{k}.cut"
@@ -157,18 +174,11 @@ def evaluate_junction(
     j: Junction | None = case.junction
     if j is None:
         raise ValueError("the case declares no [junction]")
-    theta_i = side_temperature(case, j.inside, "inside")
-    theta_e = side_temperature(case, j.outside, "outside")
-    if theta_i == theta_e:
-        raise CaseError(
-            "inside and outside temperatures are equal; L2D needs a temperature difference",
-            file=str(case.source),
-            key="junction",
-        )
+    theta_i, theta_e = junction_temperatures(case)
     dtheta = theta_i - theta_e
     phi = sum(heat_loss.surfaces[n].heat_flow for n in j.inside)
     l2d = phi / dtheta
-    flanks = flanking_results(case, heat_loss)
+    flanks = flanking_results(case, heat_loss.mesh)
     psi = l2d - sum(f.u_value * f.length for f in flanks)
 
     src = surface if surface is not None else heat_loss

@@ -49,6 +49,8 @@ class Mesh:
     −1 = adiabatic) and ``b_exchange`` (fraction of the face area that exchanges heat with
     the surroundings: 1 on straight grid-aligned edges, the projection onto the edge
     normal on a stepped sloped edge, so the stepped faces sum to the true edge length).
+    ``region`` (n,), when the generator knows it: index of the case region that gave
+    each cell its material.
     """
 
     centres: np.ndarray
@@ -71,6 +73,7 @@ class Mesh:
     b_exchange: np.ndarray
     boundary_names: tuple[str, ...]
     grid: RectGrid | None = field(default=None, repr=False)
+    region: np.ndarray | None = field(default=None, repr=False)
 
     @property
     def n_cells(self) -> int:

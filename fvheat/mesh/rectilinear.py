@@ -33,12 +33,15 @@ def build_mesh(case: Case, refine: float = 1.0) -> Mesh:
     """
     names = tuple(case.materials)
     x, y = grid_lines(case, refine)
-    mat = paint(case, x, y, names)
-    corners = reentrant_corners(case, x, y, mat)
+    owner = paint_regions(case, x, y)
+    corners = reentrant_corners(case, x, y, owner)
     if corners.size:
         x, y = grid_lines(case, refine, corners)
-        mat = paint(case, x, y, names)
+        owner = paint_regions(case, x, y)
+    material = np.array([names.index(r.material) for r in case.regions], dtype=np.int32)
+    mat = np.where(owner >= 0, material[owner], -1).astype(np.int32)
     mesh = faces_from_grid(x, y, mat, names, tuple(b.name for b in case.boundaries))
+    mesh = replace(mesh, region=owner[mesh.grid.cell_index >= 0])
     mesh = attach_boundaries(case, mesh)
     check_probes(case, mesh)
     return mesh
@@ -48,20 +51,33 @@ def key_lines(case: Case) -> tuple[list[np.ndarray], float]:
     """Sorted x and y coordinates (m) every grid must contain: region vertices and
     boundary-segment ends within the regions' extent; and the tolerance (m) within which
     two coordinates are one."""
-    pts = [r.vertices for r in case.regions]
-    pts += [np.asarray(e, float) for b in case.boundaries for e in b.edges]
-    allpts = np.concatenate(pts)
-    lo, hi = allpts.min(axis=0), allpts.max(axis=0)
+    corners = np.concatenate([r.vertices for r in case.regions])
+    lo, hi = corners.min(axis=0), corners.max(axis=0)
     tol = 1e-9 * max(float(np.max(hi - lo)), 1.0)
-    # only coordinates inside the regions' extent are grid lines
-    rlo = np.min([r.vertices.min(axis=0) for r in case.regions], axis=0)
-    rhi = np.max([r.vertices.max(axis=0) for r in case.regions], axis=0)
-    keys = []
-    for axis in (0, 1):
-        c = allpts[:, axis]
-        c = c[(c >= rlo[axis] - tol) & (c <= rhi[axis] + tol)]
-        keys.append(merge_close(c, tol))
+    ends = np.array([p for b in case.boundaries for e in b.edges for p in e], float).reshape(-1, 2)
+    # a segment end off the body (a segment drawn past the body's edge) adds no line: it
+    # must not change the mesh
+    ends = ends[on_body(case, ends)]
+    allpts = np.concatenate([corners, ends])
+    keys = [merge_close(allpts[:, axis], tol) for axis in (0, 1)]
     return keys, tol
+
+
+def on_body(case: Case, points: np.ndarray) -> np.ndarray:
+    """Whether each point (n, 2) m lies inside or on the outline of some region."""
+    inside = np.zeros(len(points), dtype=bool)
+    for r in case.regions:
+        x0, y0, x1, y1 = r.bounds
+        near = (
+            (points[:, 0] >= x0 - 1e-9 * max(x1 - x0, 1.0))
+            & (points[:, 0] <= x1 + 1e-9 * max(x1 - x0, 1.0))
+            & (points[:, 1] >= y0 - 1e-9 * max(y1 - y0, 1.0))
+            & (points[:, 1] <= y1 + 1e-9 * max(y1 - y0, 1.0))
+            & ~inside
+        )
+        if near.any():
+            inside[near] = points_in_polygon(points[near, 0], points[near, 1], r.vertices)
+    return inside
 
 
 def grid_lines(
@@ -90,7 +106,8 @@ def grid_lines(
 
 
 def reentrant_corners(case: Case, x: np.ndarray, y: np.ndarray, mat: np.ndarray) -> np.ndarray:
-    """Re-entrant corners (k, 2) m of the body painted as ``mat`` on the grid ``x``, ``y``:
+    """Re-entrant corners (k, 2) m of the body painted as ``mat`` (≥ 0 in the body) on the
+    grid ``x``, ``y``:
     grid vertices on key lines in both directions with three of their four cells in the
     body, lying on a boundary that ties the surface to a temperature (surface exchange or
     fixed temperature). The inside surface is coldest at such corners (a window reveal
@@ -124,23 +141,23 @@ def _near_any(values: np.ndarray, keys: np.ndarray, tol: float) -> np.ndarray:
     return np.minimum(np.abs(values - below), np.abs(values - above)) <= tol
 
 
-def paint(case: Case, x: np.ndarray, y: np.ndarray, names: tuple[str, ...]) -> np.ndarray:
-    """Material index per grid cell, shape (rows, columns); −1 outside every region."""
-    mat = np.full((y.size - 1, x.size - 1), -1, dtype=np.int32)
+def paint_regions(case: Case, x: np.ndarray, y: np.ndarray) -> np.ndarray:
+    """Index of the region that paints each grid cell, shape (rows, columns): the last one
+    whose outline contains the cell centre; −1 outside every region."""
+    owner = np.full((y.size - 1, x.size - 1), -1, dtype=np.int32)
     xc = 0.5 * (x[1:] + x[:-1])
     yc = 0.5 * (y[1:] + y[:-1])
-    for region in case.regions:
-        m = names.index(region.material)
+    for k, region in enumerate(case.regions):
         x0, y0, x1, y1 = region.bounds
         i0, i1 = np.searchsorted(xc, [x0, x1])
         j0, j1 = np.searchsorted(yc, [y0, y1])
         if region.is_box:
-            mat[j0:j1, i0:i1] = m
+            owner[j0:j1, i0:i1] = k
             continue
         px, py = np.meshgrid(xc[i0:i1], yc[j0:j1])
         inside = points_in_polygon(px, py, region.vertices)
-        mat[j0:j1, i0:i1][inside] = m
-    return mat
+        owner[j0:j1, i0:i1][inside] = k
+    return owner
 
 
 def faces_from_grid(
@@ -254,61 +271,90 @@ def _axis_faces(padded: np.ndarray, axis: int) -> tuple[tuple[np.ndarray, ...], 
 
 
 def attach_boundaries(case: Case, mesh: Mesh) -> Mesh:
-    """Mark the exterior faces lying on each boundary's segments (later boundaries win).
+    """Mark the exterior faces lying on each boundary's segments (:func:`segment_faces`).
 
-    On a grid-aligned segment a face belongs to it when its centre lies on the segment and
-    it is parallel to it. On a sloped segment the body's edge is stepped: exterior faces
-    whose centre lies within half a cell diagonal of the segment and that look out on the
-    segment's outer side belong to it, with ``b_exchange`` their projection
-    |n_face · n_segment| scaled so the stepped faces sum to the segment's true length.
+    Raises :class:`CaseError` for a segment that lies on no exterior face and for a face
+    that two boundaries claim.
     """
     bid = mesh.b_boundary.copy()
     exch = mesh.b_exchange.copy()
-    c, nrm = mesh.b_centre, mesh.b_normal
-    if mesh.grid is not None:
-        dx = np.diff(mesh.grid.x)
-        dy = np.diff(mesh.grid.y)
-        # half-diagonal of the owning grid cell
-        cols = np.searchsorted(mesh.grid.x, mesh.centres[mesh.b_cell, 0]) - 1
-        rows = np.searchsorted(mesh.grid.y, mesh.centres[mesh.b_cell, 1]) - 1
-        reach = 0.5 * np.hypot(dx[cols], dy[rows])
-    else:
-        reach = np.sqrt(mesh.volumes[mesh.b_cell])
-    scale = max(float(np.ptp(mesh.centres)), 1.0)
-    tol = 1e-9 * scale
+    reach = face_reach(mesh)
     for k, b in enumerate(case.boundaries):
-        hit = np.zeros(mesh.n_boundary_faces, dtype=bool)
-        for e, (p0, p1) in enumerate(b.edges):
-            t, n, length = segment_frame(np.array(p0), np.array(p1))
-            rel = c - np.asarray(p0, float)
-            along = rel @ t
-            off = np.abs(rel @ n)
-            proj = np.abs(nrm @ n)
-            aligned = abs(t[0]) < 1e-12 or abs(t[1]) < 1e-12
-            if aligned:
-                on = (off <= tol) & (along > tol) & (along < length - tol) & (proj > 0.5)
-                exch_e = np.ones_like(proj)
-            else:
-                near = (off <= reach) & (along > -tol) & (along < length + tol)
-                # keep the faces looking out on the side the staircase faces mostly look to
-                # (not those of a neighbouring straight edge at a shared corner), and scale
-                # their projections so the stepped faces sum to the true length
-                side = nrm @ n
-                outward = np.sign(np.sum(mesh.b_area[near] * side[near]))
-                on = near & (side * outward > 0.0)
-                total = float(np.sum(mesh.b_area[on] * proj[on]))
-                exch_e = proj * (length / total if total > 0 else 1.0)
+        for e, seg in enumerate(b.edges):
+            on, exch_e, _ = segment_faces(mesh, seg, reach)
+            key = f"boundaries.{k}.edges.{e}"
             if not on.any():
                 raise CaseError(
-                    f"segment {list(map(list, (p0, p1)))} lies on no exterior edge of the body "
+                    f"segment {_seg_text(seg)} lies on no exterior edge of the body "
                     "(check its coordinates against the regions)",
                     file=str(case.source),
-                    key=f"boundaries.{k}.edges.{e}",
+                    key=key,
                 )
-            hit |= on
+            taken = on & (bid >= 0) & (bid != k)
+            if taken.any():
+                f = int(np.flatnonzero(taken)[0])
+                other = case.boundaries[bid[f]].name
+                x, y = mesh.b_centre[f]
+                raise CaseError(
+                    f"boundary {b.name!r} and boundary {other!r} both claim the exterior "
+                    f"edge at ({x:.4g}, {y:.4g}) m ({int(taken.sum())} faces); a face can "
+                    "have one condition only: shorten one of the segments",
+                    file=str(case.source),
+                    key=key,
+                )
+            bid[on] = k
             exch = np.where(on, exch_e, exch)
-        bid[hit] = k
     return replace(mesh, b_boundary=bid, b_exchange=exch)
+
+
+def _seg_text(seg) -> str:
+    (x0, y0), (x1, y1) = seg
+    return f"({x0:.6g}, {y0:.6g})–({x1:.6g}, {y1:.6g}) m"
+
+
+def face_reach(mesh: Mesh) -> np.ndarray:
+    """Half the diagonal (m) of each boundary face's grid cell: how far a stepped face may
+    lie from the sloped segment it belongs to."""
+    if mesh.grid is None:
+        return np.sqrt(mesh.volumes[mesh.b_cell])
+    dx = np.diff(mesh.grid.x)
+    dy = np.diff(mesh.grid.y)
+    cols = np.searchsorted(mesh.grid.x, mesh.centres[mesh.b_cell, 0]) - 1
+    rows = np.searchsorted(mesh.grid.y, mesh.centres[mesh.b_cell, 1]) - 1
+    return 0.5 * np.hypot(dx[cols], dy[rows])
+
+
+def segment_faces(mesh: Mesh, seg, reach: np.ndarray) -> tuple[np.ndarray, np.ndarray, float]:
+    """The exterior faces on segment ``seg`` ((x0, y0), (x1, y1)) m, their exchange
+    fractions, and the fraction of the segment's length they cover (1 when the segment
+    lies on the body's outline over its whole length).
+
+    On a grid-aligned segment a face belongs to it when its centre lies on the segment and
+    it is parallel to it. On a sloped segment the body's edge is stepped: exterior faces
+    whose centre lies within ``reach`` of the segment and that look out on the segment's
+    outer side belong to it, with exchange fractions their projections |n_face · n_segment|
+    scaled so the stepped faces sum to the segment's true length.
+    """
+    p0, p1 = np.asarray(seg[0], float), np.asarray(seg[1], float)
+    c, nrm = mesh.b_centre, mesh.b_normal
+    tol = 1e-9 * max(float(np.ptp(mesh.centres)), 1.0)
+    t, n, length = segment_frame(p0, p1)
+    rel = c - p0
+    along = rel @ t
+    off = np.abs(rel @ n)
+    proj = np.abs(nrm @ n)
+    if abs(t[0]) < 1e-12 or abs(t[1]) < 1e-12:
+        on = (off <= tol) & (along > tol) & (along < length - tol) & (proj > 0.5)
+        return on, np.ones_like(proj), float(np.sum(mesh.b_area[on])) / length
+    near = (off <= reach) & (along > -tol) & (along < length + tol)
+    # keep the faces looking out on the side the staircase faces mostly look to (not those
+    # of a neighbouring straight edge at a shared corner); a full staircase's projections
+    # sum to the segment's length
+    side = nrm @ n
+    outward = np.sign(np.sum(mesh.b_area[near] * side[near]))
+    on = near & (side * outward > 0.0)
+    total = float(np.sum(mesh.b_area[on] * proj[on]))
+    return on, proj * (length / total if total > 0 else 1.0), total / length
 
 
 def check_probes(case: Case, mesh: Mesh) -> None:

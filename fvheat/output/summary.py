@@ -51,6 +51,7 @@ def build_summary(study: Study, overrides: tuple[str, ...] = ()) -> dict[str, An
         **({"condensation": solution.condensation.as_dict()} if solution.condensation else {}),
         "caution": CAUTION,
     }
+    summary["warnings"] = study.all_warnings
     if study.junction is not None:
         summary["junction"] = study.junction.as_dict()
     if study.grid is not None:

@@ -590,6 +590,9 @@ def _software_section(s: dict[str, Any]) -> Section:
 def _cautions_section(s: dict[str, Any]) -> Section:
     blocks: list[Block] = [Para(CAUTION, "caution")]
     j = s.get("junction") or {}
-    for w in j.get("warnings", []):
-        blocks.append(Para(f"Warning from the junction evaluation: {w}", "caution"))
+    # summaries written before the modelling checks hold only the junction's warnings
+    for w in s.get("warnings", j.get("warnings", [])):
+        blocks.append(Para(f"Warning: {w}", "caution"))
+    if "warnings" in s and not s["warnings"]:
+        blocks.append(Para("The modelling checks found nothing to warn about.", "note"))
     return Section("cautions", "Cautions", 2, blocks)
