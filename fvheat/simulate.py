@@ -13,7 +13,7 @@ from fvheat.assembly.enthalpy import EnthalpyModel
 from fvheat.assembly.system import System
 from fvheat.case.model import Case
 from fvheat.case.resistances import with_surface_resistances
-from fvheat.evaluate.balance import EnergyBalance
+from fvheat.evaluate.balance import ISOTHERMAL_K, EnergyBalance
 from fvheat.evaluate.condensation import CondensationHours
 from fvheat.evaluate.fronts import FrontLines
 from fvheat.evaluate.periodic import PeriodicResponse
@@ -89,7 +89,8 @@ def simulate(
         temp = _steady(system, model, solver)
         system = _at_phase(system, model, temp)
         flows = system.boundary_flows(temp, 0.0)
-        balance = EnergyBalance(dict(zip(names, map(float, flows), strict=True)), 0.0)
+        noise = ISOTHERMAL_K * system.surface_conductance
+        balance = EnergyBalance(dict(zip(names, map(float, flows), strict=True)), 0.0, noise)
         return _solution(case, mesh, system, temp, 0.0, probe_op, balance, None)
 
     c = case.condensation
@@ -172,7 +173,8 @@ def _transient(
         log.debug("periodic cycle %d: largest change %.3g K", cycles, change)
         temp0 = temp
     stored = float(np.sum(model.enthalpy(temp) - model.enthalpy(temp0)))
-    balance = EnergyBalance(dict(zip(names, map(float, energy), strict=True)), stored)
+    noise = ISOTHERMAL_K * system.surface_conductance * max(t, ts.step)
+    balance = EnergyBalance(dict(zip(names, map(float, energy), strict=True)), stored, noise)
     system = _at_phase(system, model, temp)
     solution = _solution(case, mesh, system, temp, t, probe_op, balance, history)
     if periodic is not None:

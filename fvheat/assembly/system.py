@@ -47,6 +47,13 @@ class System:
         return self.mesh.n_cells
 
     @property
+    def surface_conductance(self) -> float:
+        """Σ face length × conductance from cell centre to face over the exchanging faces,
+        W/(m·K): the scale of the heat flows a temperature difference drives."""
+        s = self.surface
+        return float(np.sum(s.area * s.gc))
+
+    @property
     def nonlinear(self) -> bool:
         """True when a radiating surface makes F non-linear in T."""
         return bool(self.surface.radiative.any())

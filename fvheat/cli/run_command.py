@@ -125,7 +125,7 @@ def _print_results(study: Study, out: Path, elapsed: float) -> None:
         )
     bal = solution.balance
     con.print(
-        f"cells {solution.mesh.n_cells}; energy balance residual {bal.relative:.1e} (relative); "
+        f"cells {solution.mesh.n_cells}; energy balance: {bal.describe()}; "
         f"solved in {elapsed:.2f} s; results in {out}/"
     )
     con.print(f"[dim]Caution: {CAUTION}[/dim]")

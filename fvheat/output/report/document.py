@@ -547,7 +547,12 @@ def _balance_section(s: dict[str, Any]) -> Section:
             [False, True],
         )
     )
-    closes = b["relative"] < 1e-8
+    if b.get("isothermal"):
+        sec.blocks.append(
+            Para("Isothermal: no heat flows, so the relative residual means nothing.", "note")
+        )
+        return sec
+    closes = b.get("closes", b["relative"] < 1e-8)
     sec.blocks.append(
         Para(
             "The balance closes to round-off."
