@@ -8,7 +8,10 @@ from pathlib import Path
 from typing import Any
 
 from fvheat.case.load import load_case
+from fvheat.checks import check_model
 from fvheat.mesh.rectilinear import build_mesh
+from fvheat.output.lock import folder_lock
+from fvheat.output.paths import check_output_folder
 from fvheat.simulate import Progress
 from fvheat.study import Study, run_study
 
@@ -22,22 +25,39 @@ def run_to_folder(
     plots: bool = True,
     progress: Progress | None = None,
 ) -> tuple[Study, dict[str, Any]]:
-    """Validate and mesh (before anything is written), solve, then write ``summary.json``,
-    ``timeseries.csv`` (transient) and the other outputs into ``out``. Returns the study and
-    the summary dictionary (with ``solve_seconds``, the wall time of the solves)."""
+    """Validate, mesh and check the model and the output folder (before anything is
+    written), take the folder's lock, solve, clear the outputs of an earlier run, then
+    write ``summary.json``, ``timeseries.csv`` (transient) and the other outputs into
+    ``out``. Returns the study and the summary dictionary (with ``solve_seconds``, the wall
+    time of the solves). A folder this run created is removed again if the run fails
+    before writing anything into it."""
+    from fvheat.output.folder import clear_outputs
     from fvheat.output.summary import build_summary, write_summary
     from fvheat.output.timeseries import write_timeseries
 
     case = load_case(case_file, overrides)
+    out = Path(out)
+    check_output_folder(out, "--out")
     mesh = build_mesh(case)
-    t0 = time.perf_counter()
-    study = run_study(case, mesh=mesh, progress=progress, check_grid=grid_check)
-    summary = build_summary(study, overrides)
-    summary["solve_seconds"] = time.perf_counter() - t0
-    write_summary(out / "summary.json", summary)
-    if case.transient:
-        write_timeseries(out / "timeseries.csv", study.solution)
-    from fvheat.output.folder import write_outputs  # imported once the summary is out
+    warnings = check_model(case, mesh)
+    created = not out.exists()
+    try:
+        with folder_lock(out):
+            t0 = time.perf_counter()
+            study = run_study(
+                case, mesh=mesh, progress=progress, check_grid=grid_check, warnings=warnings
+            )
+            summary = build_summary(study, overrides)
+            summary["solve_seconds"] = time.perf_counter() - t0
+            clear_outputs(out)
+            write_summary(out / "summary.json", summary)
+            if case.transient:
+                write_timeseries(out / "timeseries.csv", study.solution)
+            from fvheat.output.folder import write_outputs  # imported once the summary is out
 
-    write_outputs(study, out, plots=plots)
+            write_outputs(study, out, plots=plots)
+    except BaseException:
+        if created and out.is_dir() and not any(out.iterdir()):
+            out.rmdir()
+        raise
     return study, summary

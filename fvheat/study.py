@@ -99,15 +99,19 @@ def run_study(
     progress: Progress | None = None,
     check_grid: bool | None = None,
     keep_fields: bool = True,
+    warnings: list[str] | None = None,
 ) -> Study:
     """Solve ``case`` and, if it declares a junction, everything the junction needs.
 
     ``check_grid`` overrides the case's ``junction.grid_check`` (None: as the case says; a
     case without a junction is grid-checked only when asked). ``keep_fields``: keep the cell
     field of every saved time of a transient run (only field outputs need them).
+    ``warnings``: the modelling checks' warnings when they have been run already
+    (:func:`fvheat.checks.check_model`).
     """
     mesh = mesh if mesh is not None else build_mesh(case)
-    warnings = check_model(case, mesh)
+    if warnings is None:
+        warnings = check_model(case, mesh)
     solution = simulate(case, mesh=mesh, progress=progress, keep_fields=keep_fields)
     study = Study(solution, warnings=warnings)
     j = case.junction

@@ -4,10 +4,11 @@ figures and the report."""
 from __future__ import annotations
 
 import logging
+import shutil
 from pathlib import Path
 
-from fvheat.output.fields import write_cells_csv, write_fields
-from fvheat.output.inputs import write_inputs
+from fvheat.output.fields import FIELDS_DIR, write_cells_csv, write_fields
+from fvheat.output.inputs import INPUTS_FILE, write_inputs
 from fvheat.output.report import write_report
 from fvheat.output.results import FIGURES_DIR, ResultsFolder
 from fvheat.output.view import field_view
@@ -16,6 +17,36 @@ from fvheat.study import Study
 log = logging.getLogger(__name__)
 
 CELLS_FILE = "cells.csv"
+
+
+def owned_outputs() -> tuple[str, ...]:
+    """Names of every file and folder ``fvheat run`` writes into a results folder."""
+    from fvheat.output.report import HTML_FILE, MARKDOWN_FILE
+    from fvheat.output.results import SUMMARY_FILE, TIMESERIES_FILE
+
+    return (
+        SUMMARY_FILE,
+        TIMESERIES_FILE,
+        INPUTS_FILE,
+        CELLS_FILE,
+        FIELDS_DIR,
+        FIGURES_DIR,
+        HTML_FILE,
+        MARKDOWN_FILE,
+    )
+
+
+def clear_outputs(out: Path) -> None:
+    """Remove the outputs of an earlier run from ``out`` (only what fvheat writes), so that
+    nothing of it can pass for a result of the new run."""
+    for name in owned_outputs():
+        p = out / name
+        if p.is_dir() and not p.is_symlink():
+            shutil.rmtree(p)
+        elif p.exists() or p.is_symlink():
+            p.unlink()
+
+
 #: above this many cells cells.csv is not written (the VTU holds the same data, in binary):
 #: text output of millions of values costs more than the solve
 CELLS_CSV_LIMIT = 250_000

@@ -10,7 +10,10 @@ from fvheat.output.report.html import render_html
 from fvheat.output.report.markdown import render_markdown
 from fvheat.output.results import ResultsFolder
 
-__all__ = ["write_report"]
+HTML_FILE = "report.html"
+MARKDOWN_FILE = "report.md"
+
+__all__ = ["HTML_FILE", "MARKDOWN_FILE", "write_report"]
 
 
 def write_report(folder: ResultsFolder | str | Path) -> list[Path]:
@@ -18,6 +21,6 @@ def write_report(folder: ResultsFolder | str | Path) -> list[Path]:
     folder = folder if isinstance(folder, ResultsFolder) else ResultsFolder.open(folder)
     doc = build_document(folder)
     return [
-        atomic_write_text(folder.path / "report.html", render_html(doc, folder.path)),
-        atomic_write_text(folder.path / "report.md", render_markdown(doc)),
+        atomic_write_text(folder.path / HTML_FILE, render_html(doc, folder.path)),
+        atomic_write_text(folder.path / MARKDOWN_FILE, render_markdown(doc)),
     ]

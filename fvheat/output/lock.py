@@ -1,0 +1,82 @@
+"""One run per results folder: a lock file holding the writer's host and process id.
+
+A second ``fvheat run`` into a folder that a live run is writing is refused; a lock left
+by a run that was killed (its process no longer exists on this host) is stale and taken
+over. The lock is removed when the run ends, whatever the outcome.
+"""
+
+from __future__ import annotations
+
+import contextlib
+import json
+import os
+import socket
+import time
+from collections.abc import Iterator
+from pathlib import Path
+
+from fvheat.errors import CaseError
+
+LOCK_FILE = ".fvheat-run.lock"
+
+
+def _alive(pid: int) -> bool:
+    try:
+        os.kill(pid, 0)
+    except ProcessLookupError:
+        return False
+    except PermissionError:  # exists, owned by someone else
+        return True
+    return True
+
+
+def _holder(lock: Path) -> dict | None:
+    """The lock's content, or None when it is unreadable (being written, or damaged)."""
+    try:
+        data = json.loads(lock.read_text(encoding="utf-8"))
+    except (OSError, ValueError):
+        return None
+    return data if isinstance(data, dict) else None
+
+
+@contextlib.contextmanager
+def folder_lock(folder: Path) -> Iterator[None]:
+    """Hold the lock of results ``folder`` (created if needed) for the ``with`` block."""
+    folder.mkdir(parents=True, exist_ok=True)
+    lock = folder / LOCK_FILE
+    me = {"pid": os.getpid(), "host": socket.gethostname(), "started": time.time()}
+    for _ in range(3):
+        try:
+            fd = os.open(lock, os.O_CREAT | os.O_EXCL | os.O_WRONLY, 0o644)
+        except FileExistsError:
+            holder = _holder(lock)
+            if holder is not None and _live_elsewhere(holder):
+                raise CaseError(
+                    f"another fvheat run (process {holder.get('pid')} on "
+                    f"{holder.get('host')}) is writing this folder; wait for it or give "
+                    f"another --out (if no run is going on, delete {LOCK_FILE})",
+                    file=str(folder),
+                ) from None
+            if holder is None and time.time() - lock.stat().st_mtime < 5.0:
+                time.sleep(0.5)  # its writer may still be filling it in
+                continue
+            lock.unlink(missing_ok=True)  # stale: its run no longer exists
+            continue
+        with os.fdopen(fd, "w", encoding="utf-8") as fh:
+            json.dump(me, fh)
+        break
+    else:
+        raise CaseError(f"cannot take the lock {LOCK_FILE} of this folder", file=str(folder))
+    try:
+        yield
+    finally:
+        if (_holder(lock) or {}).get("pid") == me["pid"]:
+            lock.unlink(missing_ok=True)
+
+
+def _live_elsewhere(holder: dict) -> bool:
+    """Whether the lock's process is alive (on another host: assumed alive)."""
+    if holder.get("host") != socket.gethostname():
+        return True
+    pid = holder.get("pid")
+    return isinstance(pid, int) and pid != os.getpid() and _alive(pid)
