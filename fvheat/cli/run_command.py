@@ -1,4 +1,4 @@
-"""``fvheat run`` and ``fvheat check``: load, mesh, solve, write, report to the terminal."""
+"""``fvheat run``: load, mesh, solve, write, report to the terminal."""
 
 from __future__ import annotations
 
@@ -6,9 +6,7 @@ import json
 import sys
 from pathlib import Path
 
-from fvheat.case.load import load_case
 from fvheat.cautions import CAUTION
-from fvheat.mesh.rectilinear import build_mesh
 from fvheat.run import run_to_folder
 from fvheat.simulate import Progress
 from fvheat.study import Study
@@ -47,22 +45,6 @@ def run_case(
             for w in study.junction.warnings:
                 print(f"fvheat: warning: {w}", file=sys.stderr)
     return study
-
-
-def check_case(case_file: Path, overrides: tuple[str, ...]) -> None:
-    """Validate and mesh a case; print what was found."""
-    case = load_case(case_file, overrides)
-    mesh = build_mesh(case)
-    stats = mesh.stats()
-    print(f"{case_file}: valid ({'transient' if case.transient else 'steady'}) — {case.title}")
-    print("mesh: " + ", ".join(f"{k} {_fmt(v)}" for k, v in stats.items()))
-    for b in case.boundaries:
-        n = int((mesh.b_boundary == mesh.boundary_names.index(b.name)).sum())
-        print(f"boundary {b.name}: {b.kind}, {n} faces")
-
-
-def _fmt(v: float | int) -> str:
-    return f"{v:.4g}" if isinstance(v, float) else str(v)
 
 
 def _with_progress(job):
