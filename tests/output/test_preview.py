@@ -26,6 +26,7 @@ from matplotlib.collections import LineCollection, QuadMesh
 from matplotlib.image import imread
 
 from fvheat.case.load import load_case
+from fvheat.errors import CaseError
 from fvheat.mesh.rectilinear import build_mesh
 from fvheat.output.plots import preview, style
 from fvheat.output.view import geometry_view
@@ -258,6 +259,23 @@ def test_boundary_faces_are_drawn_where_the_mesher_attached_them(tmp_path):
     labels = legend_texts(fig)
     assert "room: 20 °C, R = 0.13 m²K/W" in labels
     assert preview.ADIABATIC_LABEL in labels  # top and bottom faces are on no boundary
+
+
+def test_a_boundary_whose_faces_a_later_one_takes_is_listed_with_no_faces(tmp_path):
+    later = '[[boundaries]]\nname = "room_again"\nedges = [[[0.0, 0.0], [0.0, 0.2]]]\n'
+    case = load(tmp_path, WALL + later + "temperature = 18.0\n")
+    mesh = build_mesh(case)
+    assert not (mesh.b_boundary == 0).any()  # the premise: "room" lost its faces
+    labels = legend_texts(preview.preview_figure(case, mesh))
+    assert "room: 20 °C, R = 0.13 m²K/W — no faces (a later boundary takes them)" in labels
+    assert "room_again: fixed 18 °C" in labels
+
+
+def test_a_mesh_without_grid_is_refused_in_one_line(tmp_path):
+    case = load(tmp_path, WALL)
+    mesh = replace(build_mesh(case), grid=None)
+    with pytest.raises(CaseError, match="rectilinear grids only"):
+        preview.preview_figure(case, mesh)
 
 
 JUNCTION = (

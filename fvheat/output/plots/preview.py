@@ -88,8 +88,13 @@ def preview_figure(case: Case, mesh: Mesh, *, show_mesh: bool = False):
     """The model of ``case`` as meshed in ``mesh`` (a rectilinear grid), before any solve.
 
     With ``show_mesh`` the grid lines are drawn too: every one, or on fine grids every k-th
-    one (said in a note above the plot). Returns a matplotlib Figure (Agg canvas).
+    one (said in a note above the plot). Returns a matplotlib Figure (Agg canvas). Raises
+    :class:`CaseError` for a mesh without a rectilinear grid (not drawn yet).
     """
+    if mesh.grid is None:
+        raise CaseError(
+            "the preview draws rectilinear grids only; this mesh has none", file=str(case.source)
+        )
     geom = geometry_view(mesh)
     with style.style():
         window = layers.window_of(geom)
