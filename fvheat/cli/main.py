@@ -80,11 +80,23 @@ def run(
 
 
 @app.command()
-def check(case_file: CaseArg, set_: SetOpt = None) -> None:
+def check(
+    case_file: CaseArg,
+    set_: SetOpt = None,
+    plot: Annotated[
+        Path | None,
+        typer.Option(
+            "--plot",
+            help="Draw the model as meshed (.png or .svg, by the suffix), before any solve.",
+            show_default=False,
+        ),
+    ] = None,
+    mesh: Annotated[bool, typer.Option("--mesh", help="Draw the grid lines in --plot.")] = False,
+) -> None:
     """Validate a case and mesh it, printing mesh statistics, without solving."""
-    from fvheat.cli.run_command import check_case
+    from fvheat.cli.check_command import check_case
 
-    check_case(case_file, tuple(set_ or ()))
+    check_case(case_file, tuple(set_ or ()), plot=plot, show_mesh=mesh)
 
 
 @app.command()

@@ -1,4 +1,4 @@
-"""``fvheat run`` and ``fvheat check``: load, mesh, solve, write, report to the terminal."""
+"""``fvheat run``: load, mesh, solve, write, report to the terminal."""
 
 from __future__ import annotations
 
@@ -6,10 +6,8 @@ import json
 import sys
 from pathlib import Path
 
-from fvheat.case.load import load_case
 from fvheat.cautions import CAUTION
-from fvheat.checks import check_model
-from fvheat.mesh.rectilinear import build_mesh
+from fvheat.cli.console import print_warnings
 from fvheat.run import run_to_folder
 from fvheat.simulate import Progress
 from fvheat.study import Study
@@ -46,30 +44,6 @@ def run_case(
         _print_results(study, out, summary["solve_seconds"])
         print_warnings(study.all_warnings)
     return study
-
-
-def print_warnings(warnings: list[str]) -> None:
-    """The modelling and junction warnings, one line each, on standard error."""
-    for w in warnings:
-        print(f"fvheat: warning: {w}", file=sys.stderr)
-
-
-def check_case(case_file: Path, overrides: tuple[str, ...]) -> None:
-    """Validate and mesh a case and run the modelling checks; print what was found."""
-    case = load_case(case_file, overrides)
-    mesh = build_mesh(case)
-    warnings = check_model(case, mesh)
-    stats = mesh.stats()
-    print(f"{case_file}: valid ({'transient' if case.transient else 'steady'}) — {case.title}")
-    print("mesh: " + ", ".join(f"{k} {_fmt(v)}" for k, v in stats.items()))
-    for b in case.boundaries:
-        n = int((mesh.b_boundary == mesh.boundary_names.index(b.name)).sum())
-        print(f"boundary {b.name}: {b.kind}, {n} faces")
-    print_warnings(warnings)
-
-
-def _fmt(v: float | int) -> str:
-    return f"{v:.4g}" if isinstance(v, float) else str(v)
 
 
 def _with_progress(job):

@@ -5,16 +5,18 @@ All coordinates in m, temperatures in °C; ``ax`` is a matplotlib Axes at equal 
 
 from __future__ import annotations
 
+from collections.abc import Sequence
+
 import numpy as np
 
 from fvheat.mesh.mesh import RectGrid
 from fvheat.output.plots import style
-from fvheat.output.view import FieldView
+from fvheat.output.view import GeometryView
 
 Window = tuple[float, float, float, float]
 
 
-def window_of(view: FieldView, zoom: Window | None = None) -> Window:
+def window_of(view: GeometryView, zoom: Window | None = None) -> Window:
     """The plotted window (x0, y0, x1, y1), m: ``zoom`` or the model with a 3 % margin."""
     if zoom is not None:
         return zoom
@@ -52,7 +54,7 @@ def _bracket(centres: np.ndarray, p: np.ndarray) -> tuple[np.ndarray, np.ndarray
     return lo, hi, np.clip((p - centres[lo]) / (centres[hi] - centres[lo]), 0.0, 1.0)
 
 
-def sample_cells(view: FieldView, values: np.ndarray, x: np.ndarray, y: np.ndarray):
+def sample_cells(view: GeometryView, values: np.ndarray, x: np.ndarray, y: np.ndarray):
     """Bilinear interpolation of cell ``values`` (n, ...) between cell centres at points
     (``x``, ``y``) m, weights renormalised over cells of the body; masked outside it."""
     g = view.grid
@@ -73,7 +75,7 @@ def sample_cells(view: FieldView, values: np.ndarray, x: np.ndarray, y: np.ndarr
     return np.ma.masked_array(out, mask=mask)
 
 
-def draw_cells(ax, view: FieldView, values: np.ndarray, **kwargs):
+def draw_cells(ax, view: GeometryView, values: np.ndarray, **kwargs):
     """Cell values as flat-shaded quads over the real geometry (voids left blank)."""
     g = view.grid
     return ax.pcolormesh(
@@ -98,15 +100,18 @@ def _edges(mat: np.ndarray, x: np.ndarray, y: np.ndarray, pick: str) -> np.ndarr
     return np.concatenate(segs)
 
 
-def cell_edges(view: FieldView) -> np.ndarray:
+def cell_edges(view: GeometryView, step: int = 1) -> np.ndarray:
     """Every grid-line segment (k, 2, 2) that bounds at least one cell of the body, joined
-    into long runs."""
+    into long runs; with ``step`` > 1 only those on every ``step``-th grid line (counted
+    from the first) in each direction."""
     act = view.grid.cell_index >= 0
     ap = np.pad(act, 1)
     x, y = view.grid.x, view.grid.y
     j, i = np.nonzero(ap[1:-1, :-1] | ap[1:-1, 1:])
+    j, i = j[i % step == 0], i[i % step == 0]
     vert = np.stack([np.column_stack([x[i], y[j]]), np.column_stack([x[i], y[j + 1]])], 1)
     j, i = np.nonzero(ap[:-1, 1:-1] | ap[1:, 1:-1])
+    j, i = j[j % step == 0], i[j % step == 0]
     hor = np.stack([np.column_stack([x[i], y[j]]), np.column_stack([x[i + 1], y[j]])], 1)
     return merge_segments(np.concatenate([vert, hor]))
 
@@ -147,7 +152,7 @@ def merge_segments(segs: np.ndarray) -> np.ndarray:
     return np.concatenate(out)
 
 
-def draw_outlines(ax, view: FieldView, *, colour: str = style.OUTLINE_COLOUR) -> None:
+def draw_outlines(ax, view: GeometryView, *, colour: str = style.OUTLINE_COLOUR) -> None:
     """Thin lines on material interfaces and a slightly heavier outline of the body."""
     from matplotlib.collections import LineCollection
 
@@ -159,9 +164,17 @@ def draw_outlines(ax, view: FieldView, *, colour: str = style.OUTLINE_COLOUR) ->
     ax.add_collection(LineCollection(outer, colors=colour, linewidths=0.7))
 
 
-def draw_boundaries(ax, view: FieldView, *, width: float = 2.6) -> list:
+def draw_boundaries(
+    ax,
+    view: GeometryView,
+    *,
+    width: float = 2.6,
+    labels: Sequence[str] | None = None,
+    adiabatic_label: str = "adiabatic (cut-off)",
+) -> list:
     """Boundary faces as coloured edge lines; returns legend handles (named boundaries, then
-    adiabatic faces if any)."""
+    adiabatic faces if any), labelled by the boundary names or by ``labels`` (one per
+    boundary, in the order of ``view.boundary_names``)."""
     from matplotlib.collections import LineCollection
     from matplotlib.lines import Line2D
 
@@ -180,7 +193,8 @@ def draw_boundaries(ax, view: FieldView, *, width: float = 2.6) -> list:
                 zorder=4,
             )
         )
-        handles.append(Line2D([], [], color=colour, lw=width, label=name))
+        label = name if labels is None else labels[k]
+        handles.append(Line2D([], [], color=colour, lw=width, label=label))
     if (view.face_boundary < 0).any():
         ax.add_collection(
             LineCollection(
@@ -198,7 +212,7 @@ def draw_boundaries(ax, view: FieldView, *, width: float = 2.6) -> list:
                 color=style.ADIABATIC_COLOUR,
                 lw=width * 0.5,
                 ls=(0, (2, 1.5)),
-                label="adiabatic (cut-off)",
+                label=adiabatic_label,
             )
         )
     return handles
@@ -217,7 +231,7 @@ def isotherm_levels(lo: float, hi: float, n: int = 10) -> np.ndarray:
 
 def draw_isotherms(
     ax,
-    view: FieldView,
+    view: GeometryView,
     values: np.ndarray,
     levels: np.ndarray,
     *,
@@ -265,12 +279,12 @@ def nice_length(span: float) -> float:
     return float(10**k)
 
 
-def void_fraction(view: FieldView, x: np.ndarray, y: np.ndarray) -> float:
+def void_fraction(view: GeometryView, x: np.ndarray, y: np.ndarray) -> float:
     """Share of the points (m) that lie outside the body."""
     return float(np.mean(~inside(view.grid, np.asarray(x, float), np.asarray(y, float))))
 
 
-def emptiest_corner(view: FieldView, window: Window) -> tuple[str, float]:
+def emptiest_corner(view: GeometryView, window: Window) -> tuple[str, float]:
     """The window corner ("lower right", ...) least covered by the body, and the share of
     that corner area outside the body."""
     x0, y0, x1, y1 = window
@@ -291,7 +305,7 @@ def emptiest_corner(view: FieldView, window: Window) -> tuple[str, float]:
     return where, best
 
 
-def add_scale_bar(ax, view: FieldView, window: Window, *, min_free: float = 0.6) -> bool:
+def add_scale_bar(ax, view: GeometryView, window: Window, *, min_free: float = 0.6) -> bool:
     """A scale bar of a round length in metres in the emptiest corner of the window, if at
     least ``min_free`` of that corner is outside the body (the axes are in metres anyway).
     Returns whether it was drawn."""
@@ -324,7 +338,7 @@ def add_scale_bar(ax, view: FieldView, window: Window, *, min_free: float = 0.6)
 
 
 def label_position(
-    view: FieldView,
+    view: GeometryView,
     point: tuple[float, float],
     window: Window,
     box: tuple[float, float],

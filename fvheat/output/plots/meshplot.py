@@ -5,10 +5,10 @@ from __future__ import annotations
 import numpy as np
 
 from fvheat.output.plots import layers, style
-from fvheat.output.view import FieldView
+from fvheat.output.view import GeometryView
 
 
-def mesh_figure(view: FieldView, *, title: str = "", zoom: layers.Window | None = None):
+def mesh_figure(view: GeometryView, *, title: str = "", zoom: layers.Window | None = None):
     """Cells of ``view`` outlined and coloured by material, boundaries coloured and named."""
     from matplotlib.collections import LineCollection
     from matplotlib.colors import BoundaryNorm, ListedColormap
@@ -27,7 +27,7 @@ def mesh_figure(view: FieldView, *, title: str = "", zoom: layers.Window | None 
         layers.draw_cells(ax, view, view.material, cmap=cmap, norm=norm)
         ax.add_collection(
             LineCollection(
-                layers.cell_edges(view), colors="#3c3c3c", linewidths=_edge_width(fig, view, window)
+                layers.cell_edges(view), colors="#3c3c3c", linewidths=edge_width(fig, view, window)
             )
         )
         layers.draw_outlines(ax, view)
@@ -59,7 +59,7 @@ def mesh_figure(view: FieldView, *, title: str = "", zoom: layers.Window | None 
     return fig
 
 
-def _edge_width(fig, view: FieldView, window: layers.Window) -> float:
+def edge_width(fig, view: GeometryView, window: layers.Window) -> float:
     """Cell-edge line width (pt): a tenth of the median visible cell size on the page."""
     x0, y0, x1, y1 = window
     pt_per_m = 72.0 * min(fig.get_figwidth() / (x1 - x0), fig.get_figheight() / (y1 - y0)) * 0.8
@@ -70,7 +70,7 @@ def _edge_width(fig, view: FieldView, window: layers.Window) -> float:
     return float(np.clip(0.1 * size * pt_per_m, 0.05, 0.45))
 
 
-def _areas(view: FieldView) -> np.ndarray:
+def _areas(view: GeometryView) -> np.ndarray:
     g = view.grid
     rows, cols = np.nonzero(g.cell_index >= 0)
     out = np.empty(view.n_cells)
