@@ -231,9 +231,34 @@ def _transient(folder: ResultsFolder, title: str, vrange, zoom, notes: str) -> l
 
 
 def read_index(folder: ResultsFolder) -> list[FigureRecord]:
-    """The figures listed in ``figures/figures.json`` whose PNG exists (empty if none)."""
+    """The figures listed in ``figures/figures.json`` whose PNG is a file inside the
+    folder's ``figures/`` (relative paths only, no ``..``, no link leading out), empty if
+    none. A damaged or foreign index is ignored with a log message: the report embeds only
+    the run's own figures."""
     f = folder.path / FIGURES_DIR / INDEX_FILE
     if not f.is_file():
         return []
-    records = [FigureRecord(**r) for r in json.loads(f.read_text(encoding="utf-8"))]
-    return [r for r in records if (folder.path / r.png).is_file()]
+    try:
+        entries = json.loads(f.read_text(encoding="utf-8"))
+        records = [FigureRecord(**r) for r in entries]
+    except (OSError, ValueError, TypeError) as err:
+        log.warning("ignoring %s: %s", f, err)
+        return []
+    return [
+        r
+        for r in records
+        if _own_file(folder.path, r.png) and (r.svg is None or _own_file(folder.path, r.svg))
+    ]
+
+
+def _own_file(root: Path, rel: object) -> bool:
+    """Whether ``rel`` names a regular file inside ``root/figures`` (after resolving links)."""
+    if not isinstance(rel, str) or not rel or Path(rel).is_absolute() or ".." in Path(rel).parts:
+        log.warning("ignoring figure %r: not a path inside the results folder", rel)
+        return False
+    base = (root / FIGURES_DIR).resolve()
+    target = (root / rel).resolve()
+    if not target.is_relative_to(base) or not target.is_file():
+        log.warning("ignoring figure %r: not a file of the results folder's figures", rel)
+        return False
+    return True

@@ -74,6 +74,8 @@ RC = {
     "savefig.facecolor": "white",
     "svg.hashsalt": "fvheat",
     "path.simplify": True,
+    # titles and names are the user's text, never markup: "$" stays a dollar sign
+    "text.parse_math": False,
 }
 
 
@@ -173,7 +175,8 @@ def save(fig, path: str | Path, *, vector: bool = True) -> list[Path]:
                 break
             fig.set_layout_engine("none")
         buf = io.BytesIO()
-        fig.savefig(buf, format=suffix[1:], **opts)
+        with style():  # the same settings when drawing (e.g. the SVG's fixed id salt)
+            fig.savefig(buf, format=suffix[1:], **opts)
         out.append(
             atomic_write(
                 path.with_suffix(suffix), lambda fh, b=buf: fh.write(b.getvalue()), binary=True

@@ -3,12 +3,30 @@ relative paths in the results folder."""
 
 from __future__ import annotations
 
+import re
+
 from fvheat.cautions import CAUTION
 from fvheat.output.report.document import Code, Document, Figure, Para, Table
 
+#: characters that Markdown (and renderers with HTML or maths) would read as markup
+_SPECIAL = re.compile(r"([\\`*_{}\[\]<>|$~!#])")
+#: a line start that would open a list, a heading or a quote
+_LINE_START = re.compile(r"^(\s*)([-+>]|\d+[.)])(?=\s)")
+
+
+def _text(text: str) -> str:
+    """``text`` (titles, names, values, captions) shown literally: markup escaped."""
+    one = " ".join(str(text).splitlines())
+    return _LINE_START.sub(_escape_start, _SPECIAL.sub(r"\\\1", one))
+
+
+def _escape_start(m: re.Match[str]) -> str:
+    mark = m.group(2)  # "1." becomes "1\.", "-" becomes "\-"
+    return m.group(1) + (mark[:-1] + "\\" + mark[-1] if mark[0].isdigit() else "\\" + mark)
+
 
 def _cell(text: str) -> str:
-    return text.replace("|", "\\|").replace("\n", " ")
+    return _text(text)
 
 
 def _table(t: Table) -> list[str]:
@@ -22,28 +40,29 @@ def _table(t: Table) -> list[str]:
 
 
 def _para(p: Para) -> str:
+    text = _text(p.text)
     if p.kind == "caution":
-        return f"> **Caution.** {p.text}"
+        return f"> **Caution.** {text}"
     if p.kind == "fail":
-        return f"**{p.text}**"
+        return f"**{text}**"
     if p.kind == "note":
-        return f"*{p.text}*"
-    return p.text
+        return f"*{text}*"
+    return text
 
 
 def render_markdown(doc: Document) -> str:
     """The Markdown text of ``doc``."""
-    out = [f"# {doc.title}", "", doc.subtitle, "", f"> **Caution.** {CAUTION}", ""]
+    out = [f"# {_text(doc.title)}", "", _text(doc.subtitle), "", f"> **Caution.** {CAUTION}", ""]
     for sec in doc.sections:
-        out += [f"{'#' * sec.level} {sec.title}", ""]
+        out += [f"{'#' * sec.level} {_text(sec.title)}", ""]
         for b in sec.blocks:
             if isinstance(b, Para):
                 out.append(_para(b))
             elif isinstance(b, Table):
                 out += _table(b)
             elif isinstance(b, Figure):
-                out.append(f"![{_cell(b.caption)}]({b.png})")
-                out += ["", f"*{b.caption}*"]
+                out.append(f"![{_text(b.caption)}](<{b.png}>)")
+                out += ["", f"*{_text(b.caption)}*"]
             elif isinstance(b, Code):
                 fence = "````" if "```" in b.text else "```"
                 out += [f"{b.label}:", "", f"{fence}toml", b.text.rstrip("\n"), fence]
