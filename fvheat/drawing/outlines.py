@@ -101,7 +101,7 @@ def _clean(points: np.ndarray, closed: bool) -> np.ndarray:
     return p
 
 
-class _Assembler:
+class Assembler:
     """Builds shapes and segments of one layer; raises with the layer and entity named."""
 
     def __init__(self, layer: Layer, snapper: Snapper, file: str, unit: str):
@@ -129,10 +129,11 @@ class _Assembler:
 
     def ring(self, points: np.ndarray, entity: str) -> np.ndarray | None:
         """The simple closed outline ``points``, counter-clockwise; None when it has no area."""
-        scale = float(np.ptp(points, axis=0).max())
-        area = signed_area(points)
-        if len(points) < 3 or abs(area) <= 1e-12 * scale * scale:
-            log.debug("layer %s: %s encloses no area; ignored", self.layer.name, entity)
+        scale = float(np.ptp(points, axis=0).max()) if len(points) else 0.0
+        if len(points) < 3 or (
+            np.linalg.svd(points - points.mean(axis=0), compute_uv=False)[1] <= 1e-12 * scale
+        ):
+            log.debug("layer %s: %s lies on one line; ignored", self.layer.name, entity)
             return None
         crossing = crossing_edges(points, scale)
         if crossing is not None:
@@ -142,7 +143,7 @@ class _Assembler:
                 "be a simple closed curve (redraw it without the crossing or loop)",
                 entity,
             )
-        return points if area > 0 else points[::-1].copy()
+        return points if signed_area(points) > 0 else points[::-1].copy()
 
     def chain(self, curves: list[Curve]) -> tuple[list[tuple[np.ndarray, str]], list[dict]]:
         """Join open curves end to end: closed loops (points, entity names) and open chains
@@ -245,7 +246,7 @@ def region_shapes(layer: Layer, snapper: Snapper, *, file: str, unit: str) -> li
     """Closed shapes of a region layer, in drawing order (closed curves, then HATCHes, then
     the outlines joined from open curves). Raises for an open outline, a self-intersecting
     one or three curve ends meeting at a point."""
-    asm = _Assembler(layer, snapper, file, unit)
+    asm = Assembler(layer, snapper, file, unit)
     shapes: list[Shape] = []
     curves = asm.snapped(layer.curves)
     for c in curves:
@@ -281,7 +282,7 @@ def boundary_segments(
 ) -> list[tuple[Segment, str]]:
     """The chords of every curve on a boundary layer (HATCHes are fills, not lines, and are
     not used), each with the entity it came from; drawing units."""
-    asm = _Assembler(layer, snapper, file, unit)
+    asm = Assembler(layer, snapper, file, unit)
     out: list[tuple[Segment, str]] = []
     for c in asm.snapped(layer.curves):
         p = c.points
@@ -290,32 +291,3 @@ def boundary_segments(
         for a, b in itertools.pairwise(p):
             out.append((((float(a[0]), float(a[1])), (float(b[0]), float(b[1]))), c.entity))
     return out
-
-
-@dataclass(frozen=True)
-class LayerCounts:
-    """What a layer yields without judging it: closed shapes, open paths left over after
-    joining, boundary segments, and the first problem found as a region layer (or None)."""
-
-    closed: int
-    open: int
-    segments: int
-    problem: str | None
-
-
-def count_layer(layer: Layer, tol: float, *, file: str, unit: str) -> LayerCounts:
-    """Counts for ``fvheat layers`` (the layer on its own, with a snapper of its own)."""
-    asm = _Assembler(layer, Snapper(tol), file, unit)
-    curves = asm.snapped(layer.curves)
-    open_curves = [c for c in curves if not c.closed]
-    closed = sum(1 for c in curves if c.closed) + len(layer.fills)
-    n_open = len(open_curves)
-    segments = sum(len(c.points) - (0 if c.closed else 1) for c in curves)
-    problem = None
-    try:
-        loops, chains = asm.chain(open_curves)
-        closed, n_open = closed + len(loops), len(chains)
-        closed = len(region_shapes(layer, Snapper(tol), file=file, unit=unit))
-    except DrawingError as err:
-        problem = err.detail
-    return LayerCounts(closed, n_open, segments, problem)
