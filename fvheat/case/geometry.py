@@ -77,7 +77,8 @@ def parse_geometry(value: Any, ctx: Context) -> Geometry | None:
     try:
         drawing = read_drawing(path, SAGITTA * per_metre)
     except DrawingError as err:
-        raise Invalid("geometry.drawing", f"{name}: {err.detail} (looked for {path})") from None
+        where = f" (looked for {path})" if not path.exists() else ""
+        raise Invalid("geometry.drawing", f"{name}: {err.detail}{where}") from None
     ctx.cache[_SOURCE] = _Source(drawing, name, units, Snapper(SNAP * per_metre))
     return Geometry(units=units, drawing=path, drawing_sha256=drawing.sha256)
 

@@ -127,9 +127,7 @@ def read_drawing(path: str | Path, sagitta: float) -> Drawing:
     except DXFError as err:
         raise DrawingError(f"damaged or truncated DXF: {_one_line(err)}", file=file) from err
     except (OSError, UnicodeDecodeError, ValueError) as err:
-        raise DrawingError(
-            f"not a DXF drawing (ASCII or binary DXF expected): {_one_line(err)}", file=file
-        ) from err
+        raise DrawingError("not a DXF drawing (ASCII or binary DXF expected)", file=file) from err
     layers = {layer.dxf.name: Layer(layer.dxf.name) for layer in doc.layers}
     reader = _Reader(layers, sagitta, file)
     for entity in doc.modelspace():
