@@ -18,13 +18,16 @@ at its edge over the open undercroft car park, in vertical section, drawn in mil
 - SURF_IN, SURF_FLOOR, SURF_OUT, SURF_UNDER: the surfaces (lines, one open polyline);
 - NOTES, DIMS: a label and a dimension, which the case does not use.
 
-Deterministic: fixed metadata, so the same ezdxf version writes the same bytes.
+Deterministic: fixed metadata and string hashing (ezdxf orders some objects by set
+iteration), so the same ezdxf version writes the same bytes.
 """
 
 from __future__ import annotations
 
 import argparse
 import math
+import os
+import sys
 from pathlib import Path
 
 import ezdxf
@@ -137,5 +140,16 @@ def main(argv: list[str] | None = None) -> Path:
     return out
 
 
+def _fixed_hash_seed() -> None:
+    """Run again with PYTHONHASHSEED=0 unless it is set so: ezdxf writes some objects in
+    the order of a set of strings, which string hashing otherwise varies from run to run."""
+    if os.environ.get("PYTHONHASHSEED") != "0":
+        env = {**os.environ, "PYTHONHASHSEED": "0"}
+        os.execve(
+            sys.executable, [sys.executable, str(Path(__file__).resolve()), *sys.argv[1:]], env
+        )
+
+
 if __name__ == "__main__":
+    _fixed_hash_seed()
     print(main())
