@@ -243,17 +243,15 @@ class Assembler:
 
 
 def region_shapes(layer: Layer, snapper: Snapper, *, file: str, unit: str) -> list[Shape]:
-    """Closed shapes of a region layer, in drawing order (closed curves, then HATCHes, then
-    the outlines joined from open curves). Raises for an open outline, a self-intersecting
-    one or three curve ends meeting at a point."""
+    """Closed shapes of a region layer: HATCHes, then closed curves, then the outlines joined
+    from open curves, each group in drawing order. A closed curve or joined outline that
+    traces a path of one of the layer's hatches is that hatch's boundary (CAD programs keep
+    it on the hatch's layer) and is not a shape of its own, so the hatch's holes stay
+    holes. Raises for an open outline, a self-intersecting one or three curve ends meeting
+    at a point."""
     asm = Assembler(layer, snapper, file, unit)
     shapes: list[Shape] = []
-    curves = asm.snapped(layer.curves)
-    for c in curves:
-        if c.closed:
-            ring = asm.ring(c.points, c.entity)
-            if ring is not None:
-                shapes.append(Shape(ring, (), c.entity))
+    traced: set[tuple] = set()  # the vertex sets of every hatch path
     for fill in layer.fills:
         loops = []
         for k, loop in enumerate(fill.loops):
@@ -266,15 +264,27 @@ def region_shapes(layer: Layer, snapper: Snapper, *, file: str, unit: str) -> li
                 ring = asm.ring(points, fill.entity)
                 if ring is not None:
                     loops.append((ring, fill.entity))
+                    traced.add(_vertex_set(ring))
         shapes.extend(asm.fill_shapes(loops) if loops else [])
+    curves = asm.snapped(layer.curves)
     rings, chains = asm.chain([c for c in curves if not c.closed])
     if chains:
         raise asm.open_outline(chains, "an outline")
-    for points, entity in rings:
+    for points, entity in [(c.points, c.entity) for c in curves if c.closed] + rings:
         ring = asm.ring(points, entity)
-        if ring is not None:
-            shapes.append(Shape(ring, (), entity))
+        if ring is None:
+            continue
+        if _vertex_set(ring) in traced:
+            log.debug("layer %s: %s traces a hatch path; not a shape", layer.name, entity)
+            continue
+        shapes.append(Shape(ring, (), entity))
     return shapes
+
+
+def _vertex_set(ring: np.ndarray) -> tuple:
+    """The vertices of a ring in sorted order: equal for the same ring traced from any
+    vertex in either direction."""
+    return tuple(sorted(map(tuple, ring.tolist())))
 
 
 def boundary_segments(

@@ -121,6 +121,25 @@ def test_hatch_even_odd(tmp_path):
     assert island.holes == ()
 
 
+def test_hatch_boundary_objects_on_its_layer(tmp_path):
+    """A hatch drawn with its boundary objects on the same layer (a closed polyline tracing
+    its outer path, a circle tracing its hole, as CAD keeps an associative hatch): one shape
+    with its hole, not the union that would fill the hole; an unrelated closed polyline on
+    the layer is still a shape."""
+    doc, msp = new_drawing()
+    rectangle(msp, "H", (0, 0, 100, 100))
+    msp.add_circle((50, 50), 10, dxfattribs={"layer": "H"})
+    rectangle(msp, "H", (200, 0, 300, 100))
+    h = msp.add_hatch(dxfattribs={"layer": "H"})
+    h.paths.add_polyline_path([(0, 0), (100, 0), (100, 100), (0, 100)], is_closed=True)
+    h.paths.add_edge_path().add_arc((50, 50), 10, 0, 360)
+    d = read_drawing(save(doc, tmp_path / "d.dxf"), 0.1)
+    hatch, other = shapes(d, "H")
+    assert same_ring(hatch.outline, [(0, 0), (100, 0), (100, 100), (0, 100)])
+    assert len(hatch.holes) == 1
+    assert same_ring(other.outline, [(200, 0), (300, 0), (300, 100), (200, 100)])
+
+
 def test_messy_ends_are_snapped(tmp_path):
     """Four lines whose ends miss by 0.03 mm join into one closed outline; no vertex moves by
     more than the snap tolerance; a zero-length line is ignored."""
@@ -143,14 +162,26 @@ def test_messy_ends_are_snapped(tmp_path):
 def test_closed_curves(tmp_path):
     """An ellipse and a closed spline are closed shapes; the ellipse's area is πab less at
     most chord × sagitta over its perimeter (Ramanujan's perimeter, from memory, bounds it
-    well enough); an unflagged polyline ending on its start is closed."""
+    well enough); an unflagged polyline ending on its start is closed; a 2-D POLYLINE with
+    bulges has the area of its straight and round parts (closed form)."""
     doc, msp = new_drawing()
     msp.add_ellipse((0, 0), major_axis=(40, 0), ratio=0.5, dxfattribs={"layer": "E"})
     msp.add_spline(
         fit_points=[(0, 0), (50, 30), (100, 0), (50, -30), (0, 0)], dxfattribs={"layer": "S"}
     )
     msp.add_lwpolyline([(0, 0), (10, 0), (10, 10), (0, 0)], dxfattribs={"layer": "P"})
+    # a 2-D POLYLINE stadium: 100 long, semicircular ends of radius 20 (bulge 1: a half turn)
+    msp.add_polyline2d(
+        [(0, 0, 0), (100, 0, 1), (100, 40, 0), (0, 40, 1)],
+        format="xyb",
+        close=True,
+        dxfattribs={"layer": "STADIUM"},
+    )
     d = read_drawing(save(doc, tmp_path / "d.dxf"), 0.1)
+    (st,) = shapes(d, "STADIUM")
+    exact = 100 * 40 + math.pi * 20**2  # rectangle and two half discs
+    assert 0 <= exact - signed_area(st.outline) <= 0.1 * 2 * math.pi * 20
+    assert st.outline[:, 0].max() == pytest.approx(120, abs=0.1)
     (e,) = shapes(d, "E")
     a, b = 40.0, 20.0
     perimeter = math.pi * (3 * (a + b) - math.sqrt((3 * a + b) * (a + 3 * b)))
