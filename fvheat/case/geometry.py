@@ -20,7 +20,7 @@ from __future__ import annotations
 import difflib
 from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -28,6 +28,10 @@ from fvheat.case.fields import Context, Invalid, describe, string, table
 from fvheat.case.model import Geometry
 from fvheat.case.units import UNITS
 from fvheat.errors import DrawingError
+
+if TYPE_CHECKING:  # the drawing modules load with the first drawing (ezdxf is slow to import)
+    from fvheat.drawing.dxf import Drawing, Layer
+    from fvheat.drawing.outlines import Snapper
 
 #: m: largest distance of a flattened chord from the true arc, circle, ellipse or spline
 SAGITTA = 1e-4
@@ -48,10 +52,10 @@ _SOURCE = "geometry.drawing"  # ctx.cache key of the read drawing
 class _Source:
     """The case's drawing as read, how the case names it, and the snapper all layers share."""
 
-    drawing: Any
+    drawing: Drawing
     name: str
     units: str
-    snapper: Any
+    snapper: Snapper
 
     @property
     def per_metre(self) -> int:
@@ -94,7 +98,7 @@ def _source(ctx: Context, key: str) -> _Source:
     return source
 
 
-def _layer(source: _Source, value: Any, key: str) -> Any:
+def _layer(source: _Source, value: Any, key: str) -> Layer:
     """The drawing's layer named ``value`` (exact name, else the one name that differs only
     in letter case)."""
     if not isinstance(value, str):
@@ -118,7 +122,7 @@ def _layer(source: _Source, value: Any, key: str) -> Any:
     )
 
 
-def _holds(layer: Any) -> str:
+def _holds(layer: Layer) -> str:
     """What a layer holds, for messages: 'TEXT 2, DIMENSION 1' or 'no entities'."""
     if not layer.entities:
         return "no entities"
