@@ -1,4 +1,5 @@
-"""Boundaries: surface conditions on segments of the exterior (``[[boundaries]]``)."""
+"""Boundaries: surface conditions on segments of the exterior (``[[boundaries]]``), typed
+(``edges``) and/or the lines of a drawing layer (``layer``)."""
 
 from __future__ import annotations
 
@@ -15,6 +16,7 @@ from fvheat.case.fields import (
     table,
     tables,
 )
+from fvheat.case.geometry import layer_segments
 from fvheat.case.model import (
     Boundary,
 )
@@ -22,7 +24,15 @@ from fvheat.case.signals import Signal
 from fvheat.case.values import read_signal
 
 _SURFACE_KEYS = ("resistance", "convection", "emissivity", "radiant_temperature")
-_BOUNDARY_KEYS = ("name", "edges", "air_temperature", *_SURFACE_KEYS, "temperature", "heat_flux")
+_BOUNDARY_KEYS = (
+    "name",
+    "edges",
+    "layer",
+    "air_temperature",
+    *_SURFACE_KEYS,
+    "temperature",
+    "heat_flux",
+)
 
 
 def parse_boundaries(value: Any, ctx: Context) -> tuple[Boundary, ...]:
@@ -36,9 +46,18 @@ def parse_boundaries(value: Any, ctx: Context) -> tuple[Boundary, ...]:
 
 
 def _boundary(tbl: dict, path: str, seen: dict[str, str], ctx: Context) -> Boundary:
-    table(tbl, path, allowed=_BOUNDARY_KEYS, required=("name", "edges"))
+    table(tbl, path, allowed=_BOUNDARY_KEYS, required=("name",))
     bname = name(tbl["name"], join(path, "name"), seen)
-    edges = _edges(tbl["edges"], join(path, "edges"))
+    if "edges" not in tbl and "layer" not in tbl:
+        raise Invalid(
+            join(path, "edges"),
+            "required: the segments [[[x0, y0], [x1, y1]], ...] the boundary covers, and/or "
+            'layer = "NAME" (a layer of the [geometry] drawing)',
+        )
+    # edges and a layer add up: typed segments extend the layer's
+    edges = _edges(tbl["edges"], join(path, "edges")) if "edges" in tbl else ()
+    if "layer" in tbl:
+        edges += layer_segments(ctx, tbl["layer"], join(path, "layer"))
     has_air, has_temp, has_flux = (
         k in tbl for k in ("air_temperature", "temperature", "heat_flux")
     )

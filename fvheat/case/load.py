@@ -27,6 +27,7 @@ from fvheat.case.fields import (
     number,
     table,
 )
+from fvheat.case.geometry import parse_geometry
 from fvheat.case.junction import check_junction_side_kinds, parse_junction
 from fvheat.case.materials import parse_materials
 from fvheat.case.model import (
@@ -39,6 +40,7 @@ from fvheat.case.regions import parse_regions
 from fvheat.case.signals import Series
 from fvheat.case.solver import parse_solver
 from fvheat.case.timing import parse_time
+from fvheat.case.units import case_units, converted_note, in_metres
 from fvheat.errors import CaseError
 
 log = logging.getLogger(__name__)
@@ -99,10 +101,13 @@ def parse_case(data: dict, source: Path, overrides: Sequence[str] = ()) -> Case:
     if overrides:
         data = apply_overrides(data, overrides, str(source))
     ctx = Context(source=source)
+    units = "m"
     try:
         if not isinstance(data, dict):
             raise Invalid("", f"expected a table of case settings, got {describe(data)}")
         check_keys(data, "", list(SECTIONS))
+        units = case_units(data)
+        data = in_metres(data, units)  # [geometry] units: every typed length now in m
         for section, parser in SECTIONS.items():
             ctx.parsed[section] = parser(data.get(section), ctx)
         case = Case(source=source, **ctx.parsed)
@@ -110,7 +115,9 @@ def parse_case(data: dict, source: Path, overrides: Sequence[str] = ()) -> Case:
             check(case)
     except Invalid as err:
         raise CaseError(
-            _one_line(err.message), file=str(source), key=_one_line(err.key) or None
+            _one_line(err.message) + converted_note(units, err.key),
+            file=str(source),
+            key=_one_line(err.key) or None,
         ) from None
     log.debug(
         "loaded case %s: %d regions, %d boundaries", source, len(case.regions), len(case.boundaries)
@@ -157,6 +164,7 @@ def _mesh(value: Any, ctx: Context) -> MeshSettings:
 register_section("title", _title)
 register_section("mesh", _mesh)
 register_section("materials", parse_materials)
+register_section("geometry", parse_geometry)  # before the regions and boundaries using it
 register_section("regions", parse_regions)
 register_section("boundaries", parse_boundaries)
 register_section("probes", parse_probes)

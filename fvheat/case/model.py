@@ -93,6 +93,26 @@ class Region:
         return float(lo[0]), float(lo[1]), float(hi[0]), float(hi[1])
 
 
+@dataclass(frozen=True)
+class Geometry:
+    """The ``[geometry]`` table: the length unit of the case file (``"m"``, ``"cm"`` or
+    ``"mm"``; the case holds metres after loading) and the drawing regions and boundaries
+    may take their shapes from (its path, as resolved against the case file, and the
+    SHA-256 of its bytes)."""
+
+    units: str = "m"
+    drawing: Path | None = None
+    drawing_sha256: str | None = None
+
+    def as_dict(self) -> dict[str, str | None]:
+        """For summary.json and inputs.json."""
+        return {
+            "units": self.units,
+            "drawing": None if self.drawing is None else str(self.drawing),
+            "drawing_sha256": self.drawing_sha256,
+        }
+
+
 BoundaryKind = Literal["surface", "temperature", "flux"]
 
 
@@ -322,6 +342,7 @@ class Case:
     condensation: Condensation | None = None
     junction: Junction | None = None
     solver: SolverSettings = field(default_factory=SolverSettings)
+    geometry: Geometry | None = None
 
     @property
     def transient(self) -> bool:

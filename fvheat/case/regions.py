@@ -1,4 +1,5 @@
-"""Regions: painted boxes and polygons of a material or an air cavity (``[[regions]]``)."""
+"""Regions: painted boxes, polygons and drawing layers of a material or an air cavity
+(``[[regions]]``)."""
 
 from __future__ import annotations
 
@@ -20,11 +21,13 @@ from fvheat.case.fields import (
     tables,
     to_number,
 )
+from fvheat.case.geometry import LayerShape, check_drawing_scale, layer_shapes
 from fvheat.case.materials import library_material
 from fvheat.case.model import (
     Material,
     Region,
 )
+from fvheat.drawing.polygons import crossing_edges
 from fvheat.properties.cavity import cavity_dimensions, equivalent_conductivity
 from fvheat.properties.library import UnknownMaterialError, lookup
 
@@ -35,30 +38,41 @@ def parse_regions(value: Any, ctx: Context) -> tuple[Region, ...]:
     entries = tables(value, "regions")
     if not entries:
         raise Invalid("regions", "define at least one [[regions]] entry")
+    check_drawing_scale(
+        ctx, [(join(join("regions", i), "layer"), t.get("layer")) for i, t in enumerate(entries)]
+    )
     # library materials and cavities used by regions join the case's materials
     materials: dict[str, Material] = ctx.parsed["materials"]
     seen: dict[str, str] = {}
-    out = []
-    for i, tbl in enumerate(entries):
-        path = join("regions", i)
-        region = _region(tbl, path, materials)
-        label = name(tbl["name"], join(path, "name"), seen) if "name" in tbl else None
-        out.append(replace(region, entry=i, name=label))
-    return tuple(out)
+    return tuple(
+        replace(region, entry=i)
+        for i, tbl in enumerate(entries)
+        for region in _regions(tbl, join("regions", i), materials, ctx, seen)
+    )
 
 
-def _region(tbl: dict, path: str, materials: dict[str, Material]) -> Region:
-    table(tbl, path, allowed=("name", "material", "cavity", "box", "polygon"))
+def _regions(
+    tbl: dict, path: str, materials: dict[str, Material], ctx: Context, seen: dict[str, str]
+) -> list[Region]:
+    """The regions of one ``[[regions]]`` entry: one, or one per closed shape of its layer."""
+    table(tbl, path, allowed=("name", "material", "cavity", "box", "polygon", "layer"))
+    rname = name(tbl["name"], join(path, "name"), seen) if "name" in tbl else None
     if ("material" in tbl) == ("cavity" in tbl):
         raise Invalid(
             path, 'give exactly one of material = "name" or cavity = { heat_flow = "+x", ... }'
         )
-    vertices, is_box = _shape(tbl, path)
+    shapes = _shapes(tbl, path, ctx)
     if "cavity" in tbl:
-        material = _cavity_material(tbl["cavity"], join(path, "cavity"), vertices)
-        materials[material.name] = material
-        return Region(material=material.name, vertices=vertices, is_box=is_box)
+        regions = []
+        for k, shape in enumerate(shapes):
+            material = _cavity_material(tbl["cavity"], join(path, "cavity"), shape.vertices)
+            if len(shapes) > 1:  # each cavity of a layer has its own size and conductivity
+                material = replace(material, name=join(material.name, k))
+            materials[material.name] = material
+            regions.append(_region(material.name, shape, rname))
+        return regions
     material = string(tbl, "material", path)
+    assert material is not None
     if material not in materials:
         try:
             materials[material] = library_material(lookup(material))
@@ -69,7 +83,17 @@ def _region(tbl: dict, path: str, materials: dict[str, Material]) -> Region:
                 f"unknown material {material!r}: define [materials.{material}] or use a library "
                 f"name (fvheat materials lists them); defined: {known}",
             ) from None
-    return Region(material=material, vertices=vertices, is_box=is_box)
+    return [_region(material, shape, rname) for shape in shapes]
+
+
+def _region(material: str, shape: LayerShape, rname: str | None) -> Region:
+    return Region(
+        material=material,
+        vertices=shape.vertices,
+        is_box=shape.is_box,
+        name=rname,
+        holes=shape.holes,
+    )
 
 
 _CAVITY_KEYS = ("heat_flow", "emissivity", "ventilation", "section", "delta_t", "mean_temperature")
@@ -119,19 +143,25 @@ def _cavity_material(value: Any, path: str, vertices: np.ndarray) -> Material:
     )
 
 
-def _shape(tbl: dict, path: str) -> tuple[np.ndarray, bool]:
-    """Vertices (read-only) and box flag of a region's ``box`` or ``polygon``."""
-    if ("box" in tbl) == ("polygon" in tbl):
+def _shapes(tbl: dict, path: str, ctx: Context) -> list[LayerShape]:
+    """The shapes (vertices read-only, m) of a region's ``box``, ``polygon`` or ``layer``."""
+    given = [k for k in ("box", "polygon", "layer") if k in tbl]
+    if len(given) != 1:
         raise Invalid(
-            path, "give exactly one of box = [x0, y0, x1, y1] or polygon = [[x, y], ...] (m)"
+            path,
+            "give exactly one of box = [x0, y0, x1, y1], polygon = [[x, y], ...] or "
+            'layer = "NAME" (a layer of the [geometry] drawing)'
+            + (f"; got {' and '.join(given)}" if given else ""),
         )
+    if "layer" in tbl:
+        return layer_shapes(ctx, tbl["layer"], join(path, "layer"))
     if "box" in tbl:
         vertices = _box(tbl["box"], join(path, "box"))
         is_box = True
     else:
         vertices, is_box = _polygon(tbl["polygon"], join(path, "polygon"))
     vertices.flags.writeable = False
-    return vertices, is_box
+    return [LayerShape(vertices, (), is_box)]
 
 
 def _box_vertices(x0: float, y0: float, x1: float, y1: float) -> np.ndarray:
@@ -171,7 +201,7 @@ def _polygon(value: Any, path: str) -> tuple[np.ndarray, bool]:
         raise Invalid(path, f"vertices {k} and {(k + 1) % n} coincide")
     if np.linalg.svd(p - p.mean(axis=0), compute_uv=False)[1] <= 1e-12 * scale:
         raise Invalid(path, "the polygon has zero area: all its vertices lie on one line")
-    crossing = _crossing_edges(p, scale)
+    crossing = crossing_edges(p, scale)
     if crossing is not None:
         i, j = crossing
         raise Invalid(
@@ -187,59 +217,3 @@ def _polygon(value: Any, path: str) -> tuple[np.ndarray, bool]:
         lo, hi = p.min(axis=0), p.max(axis=0)
         return _box_vertices(lo[0], lo[1], hi[0], hi[1]), True
     return p, False
-
-
-def _crossing_edges(p: np.ndarray, scale: float) -> tuple[int, int] | None:
-    """The first pair of edges (i, j), i < j, of the closed ring ``p`` that cross, touch or
-    overlap other than at the vertex two neighbouring edges share; None for a simple ring.
-
-    All pairs are tested at once, in blocks of rows to bound memory for long outlines.
-    """
-    n = len(p)
-    rows = max(1, 2_000_000 // n)
-    for first_row in range(0, n, rows):
-        i, j = _pairs(n, first_row, rows)
-        hit = _edges_meet(p, i, j, scale)
-        found = np.flatnonzero(hit)
-        if found.size:
-            return int(i[found[0]]), int(j[found[0]])
-    return None
-
-
-def _pairs(n: int, first_row: int, rows: int) -> tuple[np.ndarray, np.ndarray]:
-    """Index pairs (i, j), i < j < n, for i in first_row ... first_row + rows - 1."""
-    i, j = np.meshgrid(np.arange(first_row, min(n, first_row + rows)), np.arange(n), indexing="ij")
-    keep = j > i
-    return i[keep], j[keep]
-
-
-def _edges_meet(p: np.ndarray, i: np.ndarray, j: np.ndarray, scale: float) -> np.ndarray:
-    """Whether edge i and edge j (i < j) of the ring ``p`` have a point in common beyond the
-    vertex shared by neighbouring edges."""
-    n = len(p)
-    b = np.roll(p, -1, axis=0)
-    ai, bi, aj, bj = p[i], b[i], p[j], b[j]
-
-    def side(q: np.ndarray, r: np.ndarray, s: np.ndarray) -> np.ndarray:
-        """Sign of the turn q -> r -> s, 0 when collinear to within round-off."""
-        rq, sq = r - q, s - q
-        cross = rq[:, 0] * sq[:, 1] - rq[:, 1] * sq[:, 0]
-        return np.where(np.abs(cross) <= 1e-12 * scale**2, 0.0, np.sign(cross))
-
-    def on(q: np.ndarray, r: np.ndarray, s: np.ndarray, turn: np.ndarray) -> np.ndarray:
-        """Whether s lies on segment q-r (given its turn sign)."""
-        tol = 1e-12 * scale
-        inside = (s >= np.minimum(q, r) - tol) & (s <= np.maximum(q, r) + tol)
-        return (turn == 0) & inside.all(axis=1)
-
-    s1, s2, s3, s4 = side(ai, bi, aj), side(ai, bi, bj), side(aj, bj, ai), side(aj, bj, bi)
-    proper = (s1 * s2 < 0) & (s3 * s4 < 0)
-    follows = j == i + 1  # edge j starts where edge i ends: aj is bi
-    wraps = (i == 0) & (j == n - 1)  # edge i starts where edge j ends: ai is bj
-    return (
-        proper
-        | (on(ai, bi, aj, s1) & ~follows)
-        | (on(aj, bj, bi, s4) & ~follows)
-        | (on(ai, bi, bj, s2) & ~wraps)
-        | (on(aj, bj, ai, s3) & ~wraps)
-    )

@@ -107,6 +107,19 @@ def materials() -> None:
     print_library()
 
 
+@app.command()
+def layers(
+    drawing: Annotated[Path, typer.Argument(help="DXF drawing.", show_default=False)],
+    units: Annotated[
+        str, typer.Option("--units", "-u", help="Unit the drawing is in: m, cm or mm.")
+    ] = "m",
+) -> None:
+    """List a drawing's layers: entities, closed shapes, open paths and extents."""
+    from fvheat.cli.layers_command import list_layers
+
+    list_layers(drawing, units)
+
+
 ResultsArg = Annotated[
     Path,
     typer.Argument(

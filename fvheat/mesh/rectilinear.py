@@ -143,7 +143,8 @@ def _near_any(values: np.ndarray, keys: np.ndarray, tol: float) -> np.ndarray:
 
 def paint_regions(case: Case, x: np.ndarray, y: np.ndarray) -> np.ndarray:
     """Index of the region that paints each grid cell, shape (rows, columns): the last one
-    whose outline contains the cell centre; −1 outside every region."""
+    whose outline contains the cell centre and none of whose holes does; −1 outside every
+    region."""
     owner = np.full((y.size - 1, x.size - 1), -1, dtype=np.int32)
     xc = 0.5 * (x[1:] + x[:-1])
     yc = 0.5 * (y[1:] + y[:-1])
@@ -151,11 +152,16 @@ def paint_regions(case: Case, x: np.ndarray, y: np.ndarray) -> np.ndarray:
         x0, y0, x1, y1 = region.bounds
         i0, i1 = np.searchsorted(xc, [x0, x1])
         j0, j1 = np.searchsorted(yc, [y0, y1])
-        if region.is_box:
+        if region.is_box and not region.holes:
             owner[j0:j1, i0:i1] = k
             continue
         px, py = np.meshgrid(xc[i0:i1], yc[j0:j1])
-        inside = points_in_polygon(px, py, region.vertices)
+        if region.is_box:
+            inside = np.ones(px.shape, dtype=bool)
+        else:
+            inside = points_in_polygon(px, py, region.vertices)
+        for hole in region.holes:  # cells centred in a hole keep what was painted before
+            inside &= ~points_in_polygon(px, py, hole)
         owner[j0:j1, i0:i1][inside] = k
     return owner
 

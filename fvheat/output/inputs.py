@@ -13,7 +13,7 @@ from typing import Any
 
 import numpy as np
 
-from fvheat.case.model import Boundary, Case
+from fvheat.case.model import Boundary, Case, Geometry
 from fvheat.case.signals import Constant, Cosine, Series
 from fvheat.mesh.mesh import Mesh
 from fvheat.output.files import atomic_write_text
@@ -97,6 +97,7 @@ def case_inputs(case: Case, mesh: Mesh) -> dict[str, Any]:
     out: dict[str, Any] = {
         "title": case.title,
         "case_file": str(case.source),
+        "geometry": (case.geometry or Geometry()).as_dict(),
         "materials": materials,
         "boundaries": boundaries,
         "adiabatic_faces": int((mesh.b_boundary < 0).sum()),

@@ -10,6 +10,7 @@ from typing import Any
 import numpy as np
 
 from fvheat import __version__
+from fvheat.case.model import Geometry
 from fvheat.cautions import CAUTION
 from fvheat.output.files import atomic_write_text
 from fvheat.simulate import Solution
@@ -34,6 +35,7 @@ def build_summary(study: Study, overrides: tuple[str, ...] = ()) -> dict[str, An
         "case_file": str(case.source),
         "case_sha256": case_digest(case.source, overrides) if Path(case.source).is_file() else None,
         "overrides": list(overrides),
+        "geometry": (case.geometry or Geometry()).as_dict(),
         "fvheat_version": __version__,
         "mode": "transient" if case.transient else "steady",
         "time_s": solution.time,

@@ -391,7 +391,7 @@ def test_cavity_materials_show_their_equivalent_conductivity():
 def test_named_regions_are_labelled_and_holes_outlined(tmp_path):
     """Region names and holes (from drawings) are drawn as typed."""
     case = load(tmp_path, WALL)
-    hole = np.array([[0.05, 0.05], [0.15, 0.05], [0.15, 0.15], [0.05, 0.15]])
+    hole = np.array([[0.12, 0.12], [0.18, 0.12], [0.18, 0.18], [0.12, 0.18]])
     case = replace(case, regions=(replace(case.regions[0], name="leaf", holes=(hole,)),))
     fig = preview.preview_figure(case, build_mesh(case))
     (outlines,) = by_gid(fig, preview.OUTLINE_GID)
@@ -401,7 +401,7 @@ def test_named_regions_are_labelled_and_holes_outlined(tmp_path):
     (label,) = [t for t in fig.axes[0].texts if t.get_text() == "leaf"]
     x, y = label.get_position()
     # in the region, not in its hole
-    assert 0 < x < 0.2 and 0 < y < 0.2 and not (0.05 <= x <= 0.15 and 0.05 <= y <= 0.15)
+    assert 0 < x < 0.2 and 0 < y < 0.2 and not (0.12 <= x <= 0.18 and 0.12 <= y <= 0.18)
 
 
 def test_svg_is_the_same_every_time(tmp_path):
