@@ -47,20 +47,55 @@ def build_mesh(case: Case, refine: float = 1.0) -> Mesh:
     return mesh
 
 
+#: an outline turning by more than this at a vertex makes the vertex a corner of the grid
+#: (a chamfer's end, a polygon's corner); flattened arcs turn less at each chord
+CORNER_TURN_DEG = 30.0
+
+
 def key_lines(case: Case) -> tuple[list[np.ndarray], float]:
-    """Sorted x and y coordinates (m) every grid must contain: region vertices and
-    boundary-segment ends within the regions' extent; and the tolerance (m) within which
-    two coordinates are one."""
-    corners = np.concatenate([r.vertices for r in case.regions])
-    lo, hi = corners.min(axis=0), corners.max(axis=0)
-    tol = 1e-9 * max(float(np.max(hi - lo)), 1.0)
-    ends = np.array([p for b in case.boundaries for e in b.edges for p in e], float).reshape(-1, 2)
-    # a segment end off the body (a segment drawn past the body's edge) adds no line: it
-    # must not change the mesh
-    ends = ends[on_body(case, ends)]
-    allpts = np.concatenate([corners, ends])
-    keys = [merge_close(allpts[:, axis], tol) for axis in (0, 1)]
+    """Sorted x and y coordinates (m) every grid must contain, and the tolerance (m)
+    within which two coordinates are one.
+
+    From region outlines and holes: the x of every vertex on a vertical edge, the y of
+    every vertex on a horizontal edge, both coordinates of every vertex where the outline
+    turns by more than :data:`CORNER_TURN_DEG` (so the chords of a flattened curve add no
+    lines of their own), and the outline's extent. From boundary segments: the ends of
+    grid-aligned segments that lie on the body (a segment drawn past the body's edge must
+    not change the mesh).
+    """
+    rings = [r.vertices for r in case.regions] + [h for r in case.regions for h in r.holes]
+    allpts = np.concatenate(rings)
+    tol = 1e-9 * max(float(np.max(allpts.max(axis=0) - allpts.min(axis=0))), 1.0)
+    xs, ys = [], []
+    for ring in rings:
+        on_x, on_y = _ring_keys(ring)
+        # the outline's extent too, so that the grid covers the whole body
+        xs += [ring[on_x, 0], [ring[:, 0].min(), ring[:, 0].max()]]
+        ys += [ring[on_y, 1], [ring[:, 1].min(), ring[:, 1].max()]]
+    for b in case.boundaries:
+        for (x0, y0), (x1, y1) in b.edges:
+            if x0 == x1 or y0 == y1:
+                ends = np.array([[x0, y0], [x1, y1]])[on_body(case, np.array([[x0, y0], [x1, y1]]))]
+                xs.append(ends[:, 0])
+                ys.append(ends[:, 1])
+    keys = [merge_close(np.concatenate(v), tol) for v in (xs, ys)]
     return keys, tol
+
+
+def _ring_keys(ring: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Which vertices of a closed outline give an x key line and which a y key line."""
+    e_in = ring - np.roll(ring, 1, axis=0)
+    e_out = np.roll(ring, -1, axis=0) - ring
+    length_in, length_out = np.hypot(*e_in.T), np.hypot(*e_out.T)
+    vertical = (np.abs(e_in[:, 0]) <= 1e-12 * length_in) | (
+        np.abs(e_out[:, 0]) <= 1e-12 * length_out
+    )
+    horizontal = (np.abs(e_in[:, 1]) <= 1e-12 * length_in) | (
+        np.abs(e_out[:, 1]) <= 1e-12 * length_out
+    )
+    cos_turn = np.einsum("ij,ij->i", e_in, e_out) / np.maximum(length_in * length_out, 1e-300)
+    corner = cos_turn < np.cos(np.radians(CORNER_TURN_DEG))
+    return vertical | corner, horizontal | corner
 
 
 def on_body(case: Case, points: np.ndarray) -> np.ndarray:

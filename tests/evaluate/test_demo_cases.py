@@ -29,6 +29,12 @@ PINS = {
     ),
     "wall-window jamb": ("wall_window_junction.toml", (), "psi", 0.06004484051649461),
     "aluminium frame": ("window_frame_section.toml", (), "u_f", 2.5906785719232865),
+    "undercroft slab edge (from a drawing)": (
+        "undercroft_slab_edge.toml",
+        (),
+        "psi",
+        0.2081536782984872,
+    ),
 }
 
 
