@@ -52,6 +52,7 @@ class Material:
     ``latent_heat`` (J/kg) is released on freezing across ``phase_change`` = (solidus,
     liquidus) °C; the base properties are those of the unfrozen phase and ``frozen`` those
     below the solidus. ``emissivity`` is informational (surfaces take theirs from boundaries).
+    ``cavity``: an air cavity of equivalent conductivity made from a region's ``cavity``.
     """
 
     name: str
@@ -62,6 +63,7 @@ class Material:
     latent_heat: float | None = None
     phase_change: tuple[float, float] | None = None
     frozen: Phase | None = None
+    cavity: bool = False
 
     @property
     def volumetric_heat_capacity(self) -> float | None:

@@ -140,6 +140,7 @@ def _cavity_material(value: Any, path: str, vertices: np.ndarray) -> Material:
         density=_AIR_DENSITY,
         specific_heat=_AIR_SPECIFIC_HEAT,
         emissivity=eps,
+        cavity=True,
     )
 
 

@@ -12,7 +12,6 @@ from __future__ import annotations
 
 import io
 import math
-import re
 from pathlib import Path
 
 import numpy as np
@@ -128,17 +127,11 @@ def preview_figure(case: Case, mesh: Mesh, *, show_mesh: bool = False):
 # --- materials -------------------------------------------------------------------------
 
 
-def is_cavity(name: str) -> bool:
-    """Whether material ``name`` is an air cavity made from a region's ``cavity`` table
-    (such materials are named after the region: ``regions.<i or name>.cavity``)."""
-    return re.fullmatch(r"regions\.[^.]+\.cavity", name) is not None
-
-
 def material_label(material: Material, cells: int, *, used: bool = True) -> str:
     """Legend text of a material: name, λ (W/(m·K)) or the cavity's λ_eq; "0 cells" when
     the mesher painted none (``used``: some region names it)."""
     k = _num(material.conductivity)
-    if is_cavity(material.name):
+    if material.cavity:
         text = f"{material.name}: cavity, λ_eq {k} W/(m·K)"
     else:
         text = f"{material.name}: λ {k} W/(m·K)"
@@ -156,10 +149,10 @@ def material_colours(case: Case, counts: np.ndarray) -> list[str | None]:
     for a material that paints no cell (``counts``: cells per material)."""
     out: list[str | None] = []
     solid = cavity = 0
-    for name, n in zip(case.materials, counts, strict=True):
+    for material, n in zip(case.materials.values(), counts, strict=True):
         if n == 0:
             out.append(None)
-        elif is_cavity(name):
+        elif material.cavity:
             out.append(CAVITY_COLOURS[cavity % len(CAVITY_COLOURS)])
             cavity += 1
         else:
@@ -376,8 +369,12 @@ def _label_sides(ax, case: Case, geom: GeometryView) -> None:
             (float(mid[0]), float(mid[1])),
             xytext=(5.0 * out[0], 5.0 * out[1]),
             textcoords="offset points",
+            # along a vertical boundary the label runs along it: it needs little room
+            # beside a model that fills the width of the page
+            rotation=90 if horizontal else 0,
             ha=("left" if out[0] > 0 else "right") if horizontal else "center",
             va="center" if horizontal else ("bottom" if out[1] > 0 else "top"),
+            rotation_mode="anchor",
             fontsize=7,
             fontweight="bold",
             color=colour,
