@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import math
 from typing import Any
 
 from fvheat.case.fields import (
@@ -19,6 +20,11 @@ from fvheat.case.model import (
 )
 
 SCHEMES = ("backward_euler", "crank_nicolson")
+
+#: saved states of a transient run when ``save_every`` is not given: the smallest multiple
+#: of the step giving at most this many (every saved state is a field kept in memory and a
+#: VTU file)
+DEFAULT_SAVES = 100
 
 
 def parse_time(value: Any, ctx: Context) -> TimeSettings | None:
@@ -64,7 +70,9 @@ def parse_time(value: Any, ctx: Context) -> TimeSettings | None:
         initial = temperature(
             to_number(initial, "time.initial_temperature"), "time.initial_temperature"
         )
-    save_every = number(tbl, "save_every", path, required=False, default=step, gt=0)
+    # by default at most DEFAULT_SAVES saved states (each a field in memory and a VTU file)
+    default_save = step * max(1, math.ceil(round(n_steps) / DEFAULT_SAVES))
+    save_every = number(tbl, "save_every", path, required=False, default=default_save, gt=0)
     ratio = save_every / step
     if ratio < 1 - 1e-9 or abs(ratio - round(ratio)) > 1e-9 * ratio:
         lower = max(1, int(ratio)) * step

@@ -231,3 +231,14 @@ def test_warnings_in_summary_and_on_the_console(tmp_path):
     assert r.returncode == 0 and "fvheat: warning: boundary 'top'" in r.stderr
     study = run_study(load_case(path))
     assert any("'top'" in w and "50 %" in w for w in study.all_warnings)
+
+
+def test_default_save_every_bounds_the_saved_states(tmp_path):
+    """Without save_every a 10-day run of 60-s steps saves at most 100 states (+ t = 0),
+    not 14 400; asking for every step warns."""
+    run = "\n[time]\nduration = 864000\nstep = 60\ninitial_temperature = 10\n"
+    case, _, warnings = checked(tmp_path, WALL + INSIDE + OUTSIDE + run)
+    assert case.time.save_every == 8640.0 and warnings == []
+    _, _, warnings = checked(tmp_path, WALL + INSIDE + OUTSIDE + run + "save_every = 60\n")
+    (w,) = warnings
+    assert w.startswith("time.save_every = 60 s saves 14401 states (14401 VTU files")
