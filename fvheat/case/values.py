@@ -116,6 +116,10 @@ def _cell(cells: list[str], col: int, header: list[str], fname: str, line: int, 
     return x
 
 
+#: largest CSV series file read, bytes (a year of one-minute values is about 20 MB)
+MAX_CSV_BYTES = 200 * 1024**2
+
+
 def _read_csv(
     csv_path: Path, fname: str, key: str, ctx: Context
 ) -> tuple[list[str], list[tuple[int, list[str]]]]:
@@ -127,6 +131,15 @@ def _read_csv(
     if cache_key in ctx.cache:
         return ctx.cache[cache_key]
     try:
+        if csv_path.exists() and not csv_path.is_file():
+            raise Invalid(key, f"{fname} is not a regular file (a folder, device or pipe)")
+        size = csv_path.stat().st_size
+        if size > MAX_CSV_BYTES:
+            raise Invalid(
+                key,
+                f"{fname} is {size / 1024**2:.0f} MB; series files up to "
+                f"{MAX_CSV_BYTES // 1024**2} MB are read (thin it out, e.g. hourly values)",
+            )
         text = csv_path.read_text(encoding="utf-8-sig")
     except FileNotFoundError:
         raise Invalid(

@@ -1,5 +1,6 @@
 """Case loading: a valid case becomes the expected dataclasses; bad input names file and key."""
 
+import os
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -745,3 +746,27 @@ def test_missing_case_file(tmp_path: Path):
 def test_first_error_wins_in_section_order(case_file: Path):
     with pytest.raises(CaseError, match=r": mesh.max_cell: "):
         load_case(case_file, ["regions.0.material=steel", "mesh.max_cell=-1"])
+
+
+@pytest.mark.parametrize("kind", ["fifo", "device", "folder", "huge"])
+def test_csv_series_must_be_a_regular_file_of_sane_size(tmp_path: Path, kind, monkeypatch):
+    """A FIFO would block the run, /dev/zero never ends, a folder cannot be read, and a
+    file over the size limit is refused: one line naming the key, before any reading."""
+    path = write(tmp_path, CASE + TIME)
+    if kind == "fifo":
+        os.mkfifo(tmp_path / "w.csv")
+        target = "w.csv"
+    elif kind == "device":
+        target = "/dev/zero"
+    elif kind == "folder":
+        (tmp_path / "w.csv").mkdir()
+        target = "w.csv"
+    else:
+        write(tmp_path, WEATHER, "w.csv")
+        monkeypatch.setattr("fvheat.case.values.MAX_CSV_BYTES", 10)
+        target = "w.csv"
+    with pytest.raises(CaseError) as info:
+        load_case(path, [f'boundaries.1.air_temperature={{file = "{target}", column = "t_out"}}'])
+    msg = str(info.value)
+    assert "boundaries.1.air_temperature" in msg and "\n" not in msg
+    assert ("MB; series files up to" in msg) if kind == "huge" else ("not a regular file" in msg)
