@@ -52,7 +52,7 @@ def graded(keys: list[float], h: float, h0: float, ratio: float) -> np.ndarray:
     return np.unique(np.array(out))
 
 
-def _on_segments(points: np.ndarray, segments, tol: float = 1e-9) -> np.ndarray:
+def on_segments(points: np.ndarray, segments, tol: float = 1e-9) -> np.ndarray:
     """Whether each point (2, n) lies on one of the axis-aligned ``segments``."""
     hit = np.zeros(points.shape[1], dtype=bool)
     for (x0, y0), (x1, y1) in segments:
@@ -133,7 +133,7 @@ def solve_boxes(case: Case, h: float = 0.02, h0: float = 1e-4, ratio: float = 1.
     mid = mesh.p[:, mesh.facets[:, boundary]].mean(axis=1)
     facets = {}
     for name, edges, air, r in surfaces:
-        facets[name] = boundary[_on_segments(mid, edges)]
+        facets[name] = boundary[on_segments(mid, edges)]
         fb = FacetBasis(mesh, element, facets=facets[name])
         a = a + asm(mass, fb) / r
         b = b + asm(unit, fb) * air / r

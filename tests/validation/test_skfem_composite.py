@@ -32,6 +32,7 @@ from skfem import (
 )
 from skfem.helpers import dot, grad
 
+from .fem_reference import on_segments as _on_segments
 from .helpers import probes_toml, report, run, toml_list
 
 CONDUCTIVITY = {"brick": 0.9, "insulation": 0.04, "concrete": 2.3}  # W/(m·K)
@@ -76,18 +77,6 @@ def _lines(keys: list[float], h: float) -> np.ndarray:
         n = int(np.ceil((b - a) / h - 1e-9))
         out.extend(np.linspace(a, b, n + 1)[1:])
     return np.array(out)
-
-
-def _on_segments(points: np.ndarray, segments, tol: float = 1e-9) -> np.ndarray:
-    hit = np.zeros(points.shape[1], dtype=bool)
-    for (x0, y0), (x1, y1) in segments:
-        hit |= (
-            (points[0] >= min(x0, x1) - tol)
-            & (points[0] <= max(x0, x1) + tol)
-            & (points[1] >= min(y0, y1) - tol)
-            & (points[1] <= max(y0, y1) + tol)
-        )
-    return hit
 
 
 def skfem_solution(h: float) -> tuple[float, float, dict[str, float]]:
