@@ -269,14 +269,26 @@ Dimensions = Literal["internal", "overall_internal", "external"]
 @dataclass(frozen=True)
 class Flanking:
     """A flanking element of a junction: its length ``length`` (m, in the junction's
-    dimension system) and U-value, given (``u_value``, W/(m²·K)) or taken from the model's
-    layers along ``cut`` (a segment across the element from surface to surface)."""
+    primary dimension system), its lengths in every dimension system given (``lengths``:
+    system → m, the primary one included) and U-value, given (``u_value``, W/(m²·K)) or
+    taken from the model's layers along ``cut`` (a segment across the element from surface
+    to surface)."""
 
     name: str
     length: float
     u_value: float | None = None
     cut: tuple[tuple[float, float], tuple[float, float]] | None = None
     thickness: float | None = None
+    lengths: dict[str, float] = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class Environment:
+    """One environment of a junction with more than two (ISO 10211 coupling coefficients):
+    its ``name`` and the boundaries exchanging with it (one common temperature)."""
+
+    name: str
+    boundaries: tuple[str, ...]
 
 
 @dataclass(frozen=True)
@@ -290,6 +302,8 @@ class Junction:
     (default: all inside ones); ``indoor_humidity`` (0–1) enables the dew-point check;
     ``frame_width`` (m) turns the ψ of a frame section with an insulating panel into U_f
     (ISO 10077-2); ``centre`` (m) locates the junction for the cut-off-plane check.
+    ``environments`` (two or more) ask for the coupling coefficients between them; then
+    ``inside`` and ``outside`` may be empty (no ψ, f_Rsi: see :attr:`pair`).
     """
 
     inside: tuple[str, ...]
@@ -305,6 +319,12 @@ class Junction:
     frame_width: float | None = None
     centre: tuple[float, float] | None = None
     grid_check: bool = False
+    environments: tuple[Environment, ...] = ()
+
+    @property
+    def pair(self) -> bool:
+        """Whether a warm and a cold side are declared (L2D, ψ, f_Rsi are evaluated)."""
+        return bool(self.inside and self.outside)
 
 
 SolverMethod = Literal["auto", "direct", "amg"]

@@ -97,6 +97,9 @@ def _print_results(study: Study, out: Path, elapsed: float) -> None:
             f"grid check: Σ|Φ| changes {100 * g.change:.3f} % from {g.cells} to "
             f"{g.cells_refined} cells — {'pass' if g.passed else 'FAIL'} (limit 1 %, ISO 10211)"
         )
+        for name, (a, b) in g.quantities.items():
+            rel = f", {100 * (b - a) / abs(b):+.3f} %" if b != 0.0 else ""
+            con.print(f"  {name} on both grids: {a:.5g} → {b:.5g} (change {b - a:+.3g}{rel})")
     bal = solution.balance
     con.print(
         f"cells {solution.mesh.n_cells}; energy balance: {bal.describe()}; "
@@ -119,8 +122,15 @@ def _junction_table(study: Study):
     t.add_row("L2D", f"{j.l2d:.4f} W/(m·K)")
     for f in j.flanking:
         src = "from layers" if f.cut is not None else "given"
-        t.add_row(f"  U·l {f.name}", f"{f.u_value:.4f} × {f.length:g} ({src})")
-    t.add_row("ψ", f"{j.psi:.4f} W/(m·K)")
+        others = [f"{v:g} {k}" for k, v in f.lengths.items() if k != j.dimensions]
+        more = f"; {', '.join(others)}" if others else ""
+        t.add_row(f"  U·l {f.name}", f"{f.u_value:.4f} × {f.length:g} ({src}{more})")
+    t.add_row(f"ψ ({j.dimensions.replace('_', ' ')})", f"{j.psi:.4f} W/(m·K)")
+    for system, value in j.psi_by_dimensions.items():
+        if system != j.dimensions:
+            t.add_row(f"ψ ({system.replace('_', ' ')})", f"{value:.4f} W/(m·K)")
+    if j.psi_note is not None:
+        t.add_row("", j.psi_note)
     if j.u_f is not None:
         t.add_row("U_f", f"{j.u_f:.3f} W/(m²·K)")
     verdict = "" if j.f_rsi_pass is None else (" pass" if j.f_rsi_pass else " FAIL")

@@ -383,6 +383,18 @@ def _result_sections(s: dict[str, Any]) -> list[Section]:
                         f"{g['sum_abs_heat_flow']:.5g} → {g['sum_abs_heat_flow_refined']:.5g}",
                     ],
                     ["change", f"{100 * g['change']:.3f} % (limit {100 * g['limit']:g} %)"],
+                    *(
+                        [
+                            f"{name} (shown, not judged)",
+                            f"{q['value']:.5g} → {q['refined']:.5g} (change {q['change']:+.3g}"
+                            + (
+                                f", {100 * q['relative_change']:+.3f} %)"
+                                if q.get("relative_change") is not None
+                                else ")"
+                            ),
+                        ]
+                        for name, q in (g.get("junction") or {}).items()
+                    ),
                 ],
                 [False, True],
             )
@@ -469,12 +481,32 @@ def _junction_section(j: dict[str, Any] | None) -> Section:
         ["heat flow through the warm side Φ", num(j.get("heat_flow"), ".4f", "W/m")],
         ["L2D", num(j["L2D"], ".4f", "W/(m·K)")],
     ]
+    primary = str(j.get("dimensions", ""))
     for f in j.get("flanking", []):
         src = "from the model's layers" if f.get("u_from") == "layers" else "given"
+        others = [
+            f"{v:g} m {k.replace('_', ' ')}"
+            for k, v in (f.get("lengths") or {}).items()
+            if k != primary
+        ]
+        more = f"; {', '.join(others)}" if others else ""
         rows.append(
-            [f"U·l {f['name']}", f"{f['u_value']:.4f} W/(m²·K) × {f['length']:g} m ({src})"]
+            [
+                f"U·l {f['name']}",
+                f"{f['u_value']:.4f} W/(m²·K) × {f['length']:g} m ({src}{more})",
+            ]
         )
-    rows.append(["ψ", num(j["psi"], ".4f", "W/(m·K)") + f" ({j.get('dimensions', '')} dimensions)"])
+    by_dims = j.get("psi_by_dimensions") or {primary: j["psi"]}
+    for system, value in by_dims.items():
+        mark = ", as declared" if system == primary and len(by_dims) > 1 else ""
+        rows.append(
+            [
+                f"ψ, {system.replace('_', ' ')} dimensions{mark}",
+                num(value, ".4f", "W/(m·K)"),
+            ]
+        )
+    if j.get("psi_dimensions_note"):
+        rows.append(["dimension system", str(j["psi_dimensions_note"])])
     if j.get("U_f") is not None:
         rows.append(["U_f", num(j["U_f"], ".3f", "W/(m²·K)")])
     verdict = ""
