@@ -9,6 +9,7 @@ from typing import Any
 from fvheat.case.model import Case
 from fvheat.case.resistances import with_surface_resistances
 from fvheat.checks import check_model
+from fvheat.evaluate.coupling import CouplingResult, coupling_coefficients
 from fvheat.evaluate.junction import JunctionResult, evaluate_junction
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.rectilinear import build_mesh
@@ -77,11 +78,13 @@ class Study:
     surface_solution: Solution | None = None
     grid: GridCheck | None = None
     warnings: list[str] = field(default_factory=list)
+    coupling: CouplingResult | None = None
 
     @property
     def all_warnings(self) -> list[str]:
         """The modelling checks' warnings, then the junction evaluation's."""
-        return self.warnings + (self.junction.warnings if self.junction is not None else [])
+        out = self.warnings + (self.junction.warnings if self.junction is not None else [])
+        return out + (self.coupling.warnings if self.coupling is not None else [])
 
 
 def surface_case(case: Case) -> Case | None:
@@ -148,7 +151,9 @@ def run_study(
     if j is None and not want_grid:
         return study
     base = solution if not case.transient else simulate(steady_case(case), mesh=mesh)
-    if j is not None:
+    if j is not None and j.environments:
+        study.coupling = coupling_coefficients(steady_case(case), base.system)
+    if j is not None and j.pair:
         surf = surface_case(case)
         if surf is not None:
             study.surface_solution = simulate(steady_case(surf), mesh=mesh)

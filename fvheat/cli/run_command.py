@@ -91,6 +91,14 @@ def _print_results(study: Study, out: Path, elapsed: float) -> None:
         con.print(f"probe {name}: {v:.2f} °C")
     if study.junction is not None:
         con.print(_junction_table(study))
+    if study.coupling is not None:
+        con.print(_coupling_table(study))
+        for p in study.coupling.points:
+            g = ", ".join(f"{v:.4f}" for v in p.g)
+            con.print(
+                f"  coldest point of {p.environment}: {p.temperature:.2f} °C at "
+                f"({p.at[0]:.3f}, {p.at[1]:.3f}) m on {p.boundary}; weighting factors g = {g}"
+            )
     if study.grid is not None:
         g = study.grid
         con.print(
@@ -106,6 +114,27 @@ def _print_results(study: Study, out: Path, elapsed: float) -> None:
         f"solved in {elapsed:.2f} s; results in {out}/"
     )
     con.print(f"[dim]Caution: {CAUTION}[/dim]")
+
+
+def _coupling_table(study: Study):
+    from rich.table import Table
+
+    c = study.coupling
+    assert c is not None
+    ok = "pass" if c.symmetry_error < 1e-8 and c.row_sum_error < 1e-8 else "CHECK"
+    t = Table(
+        title=(
+            "coupling coefficients L W/(m·K) (ISO 10211; off-diagonal ≥ 0, diagonal = row sum); "
+            f"symmetry {c.symmetry_error:.1e}, row sums {c.row_sum_error:.1e}: {ok}"
+        ),
+        title_justify="left",
+    )
+    t.add_column("environment")
+    for name in c.environments:
+        t.add_column(name, justify="right")
+    for name, row in zip(c.environments, c.matrix, strict=True):
+        t.add_row(name, *(f"{v:.5f}" for v in row))
+    return t
 
 
 def _junction_table(study: Study):

@@ -54,8 +54,11 @@ def build_summary(study: Study, overrides: tuple[str, ...] = ()) -> dict[str, An
         "caution": CAUTION,
     }
     summary["warnings"] = study.all_warnings
-    if study.junction is not None:
-        summary["junction"] = study.junction.as_dict()
+    junction = study.junction.as_dict() if study.junction is not None else {}
+    if study.coupling is not None:
+        junction["coupling"] = study.coupling.as_dict()
+    if junction:
+        summary["junction"] = junction
     if study.grid is not None:
         summary["grid_check"] = study.grid.as_dict()
     return summary

@@ -469,11 +469,68 @@ def _other_results(s: dict[str, Any]) -> Section | None:
     )
 
 
+def _coupling_blocks(c: dict[str, Any]) -> list[Block]:
+    """The coupling-coefficient matrix, its checks and the weighting factors."""
+    names = list(c["environments"])
+    blocks: list[Block] = [
+        Table(
+            ["L W/(m·K)", *names],
+            [[n, *(f"{v:.5f}" for v in row)] for n, row in zip(names, c["L"], strict=True)],
+            [False, *([True] * len(names))],
+        ),
+        Para(
+            "Thermal coupling coefficients (ISO 10211) from one steady solve per environment "
+            "(that environment at 1 K, the others at 0). Off the diagonal L[i][j] ≥ 0: the heat "
+            "flow from environment i to j is L[i][j]·(θ_i − θ_j); the diagonal is the heat flow "
+            "into the body from i alone at 1 K, the sum of the rest of its row. "
+            f"Largest asymmetry {c['symmetry_error']:.1e} and row-sum deviation "
+            f"{c['row_sum_error']:.1e} (relative to the largest entry).",
+            "pass" if c.get("checks_pass") else "fail",
+        ),
+    ]
+    temps = ", ".join(
+        f"{n} {t:g} °C" for n, t in zip(names, c.get("temperatures", []), strict=False)
+    )
+    rows = [
+        [
+            p["environment"],
+            f"{p['temperature']:.2f} °C at {point(p['at'])} ({p['boundary']})",
+            ", ".join(f"{v:.4f}" for v in p["g"]),
+        ]
+        for p in c.get("weighting_factors", [])
+    ]
+    if rows:
+        blocks.append(
+            Table(
+                ["environment", f"coldest surface point ({temps})", f"g ({', '.join(names)})"],
+                rows,
+            )
+        )
+        blocks.append(
+            Para(
+                "Temperature weighting factors: the surface temperature at the point is "
+                "θ = Σ g_j·θ_j for any environment temperatures θ_j; from the "
+                f"{c.get('weighting_factors_from', 'heat-loss solve')}.",
+                "note",
+            )
+        )
+    return blocks
+
+
 def _junction_section(j: dict[str, Any] | None) -> Section:
     sec = Section("junction", "Junction: ψ, L2D, f_Rsi", 3)
     if j is None:
         sec.blocks.append(
             Para("No [junction] declared: ψ, L2D, f_Rsi and U_f are not evaluated.", "note")
+        )
+        return sec
+    if j.get("coupling"):
+        sec.blocks += _coupling_blocks(j["coupling"])
+        for w in j["coupling"].get("warnings", []):
+            sec.blocks.append(Para(f"Warning: {w}", "caution"))
+    if "L2D" not in j:
+        sec.blocks.append(
+            Para("No inside and outside declared: ψ, L2D and f_Rsi are not evaluated.", "note")
         )
         return sec
     rows = [
