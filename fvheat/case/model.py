@@ -327,6 +327,47 @@ class Junction:
         return bool(self.inside and self.outside)
 
 
+@dataclass(frozen=True)
+class Ground:
+    """The ``[ground]`` table: a slab-on-ground edge with the soil block built around it
+    (see :mod:`fvheat.case.ground`). Lengths in m, x and y coordinates of the section.
+
+    ``width`` is the floor's characteristic dimension B' (ISO 13370); ``floor_edge`` the x of
+    the inside face of the external wall; ``ground_level`` the y of the outside ground
+    surface; ``wall_outside`` the x where the ground surface meets the wall's outside face;
+    ``interior`` (−1 or +1) the direction of the building's inside along x; ``soil`` the
+    soil material's name; ``boundary`` the outside boundary the ground surface joins;
+    ``floor_boundary`` the floor surface; ``floor_resistance`` R_f (m²·K/W) and
+    ``wall_thickness`` w when given (else taken from the model)."""
+
+    width: float
+    floor_edge: float
+    ground_level: float
+    wall_outside: float
+    soil: str
+    boundary: str
+    floor_boundary: str
+    floor_resistance: float | None = None
+    wall_thickness: float | None = None
+
+    @property
+    def interior(self) -> float:
+        """−1 when the building lies towards −x of the floor edge, +1 towards +x."""
+        return -1.0 if self.wall_outside > self.floor_edge else 1.0
+
+    @property
+    def symmetry_x(self) -> float:
+        """x of the floor's symmetry plane, 0.5·B' inside the floor edge (adiabatic)."""
+        return self.floor_edge + self.interior * 0.5 * self.width
+
+    @property
+    def thickness(self) -> float:
+        """w: the wall thickness given, else the floor edge to the outside face at ground."""
+        if self.wall_thickness is not None:
+            return self.wall_thickness
+        return abs(self.wall_outside - self.floor_edge)
+
+
 SolverMethod = Literal["auto", "direct", "amg"]
 
 
@@ -364,6 +405,7 @@ class Case:
     condensation: Condensation | None = None
     junction: Junction | None = None
     solver: SolverSettings = field(default_factory=SolverSettings)
+    ground: Ground | None = None
     geometry: Geometry | None = None
 
     @property

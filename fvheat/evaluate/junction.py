@@ -18,9 +18,11 @@ from typing import Any
 
 import numpy as np
 
+from fvheat.case.ground import FLOOR_FLANKING
 from fvheat.case.junction import DIMENSIONS
 from fvheat.case.model import Case, Junction
 from fvheat.errors import CaseError
+from fvheat.evaluate.ground import GroundFloor, ground_floor
 from fvheat.evaluate.humidity import SATURATION_BASIS, dew_point, surface_relative_humidity
 from fvheat.evaluate.layers import CutError, LayerCut, layer_cut
 from fvheat.mesh.mesh import Mesh
@@ -40,6 +42,12 @@ class FlankingResult:
     length: float
     cut: LayerCut | None = None
     lengths: dict[str, float] = field(default_factory=dict)
+    u_from: str | None = None  # where U came from when neither given nor from layers
+
+    @property
+    def source(self) -> str:
+        """Where the U-value came from: "layers", "given" or e.g. "ISO 13370"."""
+        return self.u_from or ("layers" if self.cut is not None else "given")
 
     def as_dict(self) -> dict[str, Any]:
         out: dict[str, Any] = {"name": self.name, "u_value": self.u_value, "length": self.length}
@@ -51,7 +59,7 @@ class FlankingResult:
             ]
             out["r_si"], out["r_se"] = self.cut.r_start, self.cut.r_end
         else:
-            out["u_from"] = "given"
+            out["u_from"] = self.source
         return out
 
 
@@ -79,6 +87,7 @@ class JunctionResult:
     surface_rh: float | None = None
     warnings: list[str] = field(default_factory=list)
     psi_by_dimensions: dict[str, float] = field(default_factory=dict)
+    ground: GroundFloor | None = None
 
     @property
     def psi_note(self) -> str | None:
@@ -116,6 +125,8 @@ class JunctionResult:
         }
         if self.psi_note is not None:
             out["psi_dimensions_note"] = self.psi_note
+        if self.ground is not None:
+            out["ground"] = {"psi_g": self.psi, **self.ground.as_dict()}
         if self.u_f is not None:
             out["U_f"] = self.u_f
         if self.dew_point is not None:
@@ -131,14 +142,15 @@ class JunctionResult:
 
 
 def side_temperature(case: Case, names: tuple[str, ...], side: str) -> float:
-    """The common, constant reference temperature (°C) of the boundaries ``names``."""
+    """The common reference temperature (°C) of the boundaries ``names`` at t = 0 (the
+    steady junction solves use the t = 0 conditions; see :func:`varying_sides`)."""
     temps = {}
     for n in names:
         b = case.boundary(n)
         sig = b.reference_temperature
-        if sig is None or not sig.is_constant:
+        if sig is None:
             raise CaseError(
-                f"boundary {n!r} needs a constant air or surface temperature for junction results",
+                f"boundary {n!r} needs an air or surface temperature for junction results",
                 file=str(case.source),
                 key=f"junction.{side}",
             )
@@ -152,9 +164,20 @@ def side_temperature(case: Case, names: tuple[str, ...], side: str) -> float:
     return next(iter(temps.values()))
 
 
+def varying_sides(case: Case) -> list[str]:
+    """The junction's side boundaries whose temperature changes with time."""
+    j = case.junction
+    assert j is not None
+    return [
+        n
+        for n in (*j.inside, *j.outside)
+        if (sig := case.boundary(n).reference_temperature) is not None and not sig.is_constant
+    ]
+
+
 def junction_temperatures(case: Case) -> tuple[float, float]:
     """The warm-side and cold-side temperatures θ_i, θ_e (°C) of the case's junction;
-    :class:`CaseError` when a side has no common constant temperature or both are equal."""
+    :class:`CaseError` when a side has no common temperature at t = 0 or both are equal."""
     j = case.junction
     assert j is not None
     theta_i = side_temperature(case, j.inside, "inside")
@@ -185,6 +208,11 @@ def flanking_results(case: Case, mesh: Mesh) -> list[FlankingResult]:
                 str(err), file=str(case.source), key=f"junction.flanking.{k}.cut"
             ) from None
         out.append(FlankingResult(f.name, cut.u_value, f.length, cut, dict(f.lengths)))
+    if case.ground is not None:
+        g = ground_floor(case, mesh)
+        out.append(
+            FlankingResult(FLOOR_FLANKING, g.u_value, g.length, None, g.lengths(), "ISO 13370")
+        )
     return out
 
 
@@ -232,6 +260,7 @@ def evaluate_junction(
         f_rsi_default=bool(j.surface_resistances.defaulted),
         separate_surface_solve=surface is not None,
         psi_by_dimensions=by_dims,
+        ground=ground_floor(case, heat_loss.mesh) if case.ground is not None else None,
     )
     if j.frame_width is not None:
         result.u_f = psi / j.frame_width
@@ -239,6 +268,13 @@ def evaluate_junction(
         result.dew_point = dew_point(theta_i, j.indoor_humidity)
         result.surface_rh = surface_relative_humidity(theta_i, j.indoor_humidity, theta_si)
     result.warnings += cutoff_warnings(case, heat_loss, flanks)
+    varying = varying_sides(case)
+    if varying:
+        result.warnings.append(
+            f"the temperatures of {', '.join(repr(n) for n in varying)} vary in time: L2D, ψ "
+            f"and f_Rsi come from the steady field of the t = 0 conditions (θ_i = "
+            f"{theta_i:g} °C, θ_e = {theta_e:g} °C)"
+        )
     phi_out = sum(heat_loss.surfaces[n].heat_flow for n in j.outside)
     other = abs(phi + phi_out) / max(abs(phi), 1e-300)
     if other > 1e-6:

@@ -54,7 +54,15 @@ def build_summary(study: Study, overrides: tuple[str, ...] = ()) -> dict[str, An
         "caution": CAUTION,
     }
     summary["warnings"] = study.all_warnings
+    ext = solution.extremes
+    if ext is not None:
+        for name, b in summary["boundaries"].items():
+            b.update(ext.boundary_dict(name))
+        if ext.phase:
+            summary["phase_change_max"] = ext.phase_dict()
     junction = study.junction.as_dict() if study.junction is not None else {}
+    if ext is not None and study.junction is not None:
+        junction.update(ext.factor_dict())
     if study.coupling is not None:
         junction["coupling"] = study.coupling.as_dict()
     if junction:

@@ -346,6 +346,9 @@ def _result_sections(s: dict[str, Any]) -> list[Section]:
         )
     )
     out.append(flows)
+    over = _over_run_section(s)
+    if over is not None:
+        out.append(over)
     if s.get("probes"):
         out.append(
             Section(
@@ -432,7 +435,79 @@ KNOWN_KEYS = {
     "solve_seconds",
     "junction",
     "grid_check",
+    "phase_change_max",
 }
+
+
+def _over_run_section(s: dict[str, Any]) -> Section | None:
+    """Lowest and highest surface temperatures, the lowest f(t) and the largest frost
+    measures over every step of a transient run."""
+    bounds = s.get("boundaries") or {}
+    rows = [
+        [
+            name,
+            num(r["min_temperature_over_run"], ".2f"),
+            point(r.get("min_temperature_over_run_at")),
+            num(r["min_temperature_over_run_time_s"] / 3600, ".4g", "h"),
+            num(r["max_temperature_over_run"], ".2f"),
+            point(r.get("max_temperature_over_run_at")),
+            num(r["max_temperature_over_run_time_s"] / 3600, ".4g", "h"),
+        ]
+        for name, r in bounds.items()
+        if "min_temperature_over_run" in r
+    ]
+    if not rows:
+        return None
+    sec = Section("over-run", "Extremes over the run", 3)
+    sec.blocks.append(
+        Table(
+            ["boundary", "lowest θ_s °C", "at", "time", "highest θ_s °C", "at", "time"],
+            rows,
+            [False, True, False, True, True, False, True],
+        )
+    )
+    sec.blocks.append(
+        Para(
+            "Sampled at every time step (the initial state included; the last cycle of a "
+            "periodic run), over face centres and face end points as the steady results."
+        )
+    )
+    j = s.get("junction") or {}
+    if j.get("f_min_over_run") is not None:
+        sec.blocks.append(
+            Para(
+                f"Lowest temperature factor over the run f(t) = {j['f_min_over_run']:.4f} at "
+                f"t = {j['f_min_over_run_time_s'] / 3600:.4g} h on "
+                f"{j['f_min_over_run_boundary']} {point(j.get('f_min_over_run_at'))} "
+                f"(θ_si = {j['f_min_over_run_theta_si']:.2f} °C, θ_i = "
+                f"{j['f_min_over_run_theta_i']:.2f} °C, θ_e = {j['f_min_over_run_theta_e']:.2f}"
+                f" °C). {j.get('f_over_run_basis', '')}; "
+                f"{j.get('f_over_run_skipped_steps', 0)} of {j.get('f_over_run_steps', 0)} "
+                "steps skipped. Not the steady f_Rsi: a massive construction lags the air "
+                "temperatures."
+            )
+        )
+    elif "f_min_over_run" in j:
+        sec.blocks.append(
+            Para("No step had warm and cold sides 1 K apart or more: no f(t).", "note")
+        )
+    phase = s.get("phase_change_max") or {}
+    if phase:
+        sec.blocks.append(
+            Table(
+                ["largest over the run", "value", "time"],
+                [
+                    [
+                        k,
+                        num(v["value"], ".4g", "m²" if k == "frozen_area" else "m"),
+                        num(v["time_s"] / 3600, ".4g", "h"),
+                    ]
+                    for k, v in phase.items()
+                ],
+                [False, True, True],
+            )
+        )
+    return sec
 
 
 def _flat(prefix: str, value: Any, rows: list[list[str]]) -> None:
@@ -540,7 +615,9 @@ def _junction_section(j: dict[str, Any] | None) -> Section:
     ]
     primary = str(j.get("dimensions", ""))
     for f in j.get("flanking", []):
-        src = "from the model's layers" if f.get("u_from") == "layers" else "given"
+        src = {"layers": "from the model's layers", None: "given"}.get(
+            f.get("u_from"), str(f.get("u_from"))
+        )
         others = [
             f"{v:g} m {k.replace('_', ' ')}"
             for k, v in (f.get("lengths") or {}).items()
@@ -562,6 +639,18 @@ def _junction_section(j: dict[str, Any] | None) -> Section:
                 num(value, ".4f", "W/(m·K)"),
             ]
         )
+    g = j.get("ground")
+    if g:
+        rows.append(
+            [
+                "ground floor U (ISO 13370, from memory)",
+                f"{g['U_floor']:.4f} W/(m²·K): B' {g['B_prime']:g} m, λ_g "
+                f"{g['soil_conductivity']:g} W/(m·K), w {g['wall_thickness']:.3g} m, R_si "
+                f"{g['R_si']:g}, R_f {g['R_f']:.3f} ({g['R_f_from']}), R_se {g['R_se']:g} "
+                f"m²·K/W, d_t {g['d_t']:.3f} m; {g['U_floor_formula']}",
+            ]
+        )
+        rows.append(["ψ_g", num(g["psi_g"], ".4f", "W/(m·K)") + " (ψ of the ground-floor edge)"])
     if j.get("psi_dimensions_note"):
         rows.append(["dimension system", str(j["psi_dimensions_note"])])
     if j.get("U_f") is not None:
