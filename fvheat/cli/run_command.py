@@ -130,7 +130,8 @@ def _print_results(study: Study, out: Path, elapsed: float) -> None:
         )
         for name, (a, b) in g.quantities.items():
             rel = f", {100 * (b - a) / abs(b):+.3f} %" if b != 0.0 else ""
-            con.print(f"  {name} on both grids: {a:.5g} → {b:.5g} (change {b - a:+.3g}{rel})")
+            label = "ψ" if name == "psi" else name
+            con.print(f"  {label} on both grids: {a:.5g} → {b:.5g} (change {b - a:+.3g}{rel})")
     bal = solution.balance
     con.print(
         f"cells {solution.mesh.n_cells}; energy balance: {bal.describe()}; "

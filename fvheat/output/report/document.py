@@ -388,7 +388,7 @@ def _result_sections(s: dict[str, Any]) -> list[Section]:
                     ["change", f"{100 * g['change']:.3f} % (limit {100 * g['limit']:g} %)"],
                     *(
                         [
-                            f"{name} (shown, not judged)",
+                            f"{'ψ' if name == 'psi' else name} (shown, not judged)",
                             f"{q['value']:.5g} → {q['refined']:.5g} (change {q['change']:+.3g}"
                             + (
                                 f", {100 * q['relative_change']:+.3f} %)"
