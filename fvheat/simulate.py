@@ -15,6 +15,7 @@ from fvheat.case.model import Case
 from fvheat.case.resistances import with_surface_resistances
 from fvheat.evaluate.balance import ISOTHERMAL_K, EnergyBalance
 from fvheat.evaluate.condensation import CondensationHours
+from fvheat.evaluate.extremes import RunExtremes
 from fvheat.evaluate.fronts import FrontLines
 from fvheat.evaluate.periodic import PeriodicResponse
 from fvheat.evaluate.probes import probe_operator
@@ -62,6 +63,7 @@ class Solution:
     history: History | None = None
     periodic: PeriodicResponse | None = None
     condensation: CondensationHours | None = None
+    extremes: RunExtremes | None = None
 
 
 def simulate(
@@ -130,6 +132,8 @@ def _transient(
         history = History()
         periodic = PeriodicResponse.start(case, system) if ts.periodic else None
         hours = CondensationHours.start(case, system) if count_hours else None
+        extremes = RunExtremes.start(case, system, model, lines)
+        extremes.add(temp0, 0.0)
 
         def record(t: float, temp: np.ndarray, history: History = history) -> None:
             history.times.append(t)
@@ -157,6 +161,7 @@ def _transient(
         temp, t = temp0, 0.0
         for k, (t, temp, heat) in enumerate(steps, start=1):
             energy += heat
+            extremes.add(temp, t)
             if periodic is not None or hours is not None:
                 at_t = _at_phase(system, model, temp)
                 if periodic is not None:
@@ -182,6 +187,7 @@ def _transient(
         solution.periodic = periodic
     if hours is not None:
         solution.condensation = hours
+    solution.extremes = extremes
     return solution
 
 

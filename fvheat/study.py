@@ -9,6 +9,7 @@ from typing import Any
 from fvheat.case.model import Case
 from fvheat.case.resistances import with_surface_resistances
 from fvheat.checks import check_model
+from fvheat.evaluate.coupling import CouplingResult, coupling_coefficients
 from fvheat.evaluate.junction import JunctionResult, evaluate_junction
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.rectilinear import build_mesh
@@ -21,14 +22,21 @@ GRID_CHECK_LIMIT = 0.01
 GRID_CHECK_REFINE = 2.0
 
 
+#: junction quantities the grid check also shows on both grids (name, JunctionResult attribute)
+GRID_QUANTITIES = (("L2D", "l2d"), ("psi", "psi"), ("U_f", "u_f"), ("f_Rsi", "f_rsi"))
+
+
 @dataclass(frozen=True)
 class GridCheck:
-    """Sum of absolute boundary heat flows (W/m) on the mesh and on a refined one."""
+    """Sum of absolute boundary heat flows (W/m) on the mesh and on a refined one, and the
+    junction quantities (ψ, L2D, U_f, f_Rsi) on both: ``quantities`` name → (value on the
+    mesh, value on the refined mesh). Only Σ|Φ| decides pass or fail (ISO 10211)."""
 
     cells: int
     cells_refined: int
     total: float
     total_refined: float
+    quantities: dict[str, tuple[float, float]] = field(default_factory=dict)
 
     @property
     def change(self) -> float:
@@ -48,6 +56,15 @@ class GridCheck:
             "change": self.change,
             "limit": GRID_CHECK_LIMIT,
             "pass": self.passed,
+            "junction": {
+                name: {
+                    "value": a,
+                    "refined": b,
+                    "change": b - a,
+                    "relative_change": (b - a) / abs(b) if b != 0.0 else None,
+                }
+                for name, (a, b) in self.quantities.items()
+            },
         }
 
 
@@ -61,11 +78,13 @@ class Study:
     surface_solution: Solution | None = None
     grid: GridCheck | None = None
     warnings: list[str] = field(default_factory=list)
+    coupling: CouplingResult | None = None
 
     @property
     def all_warnings(self) -> list[str]:
         """The modelling checks' warnings, then the junction evaluation's."""
-        return self.warnings + (self.junction.warnings if self.junction is not None else [])
+        out = self.warnings + (self.junction.warnings if self.junction is not None else [])
+        return out + (self.coupling.warnings if self.coupling is not None else [])
 
 
 def surface_case(case: Case) -> Case | None:
@@ -81,14 +100,27 @@ def steady_case(case: Case) -> Case:
     return replace(case, time=None)
 
 
-def grid_check(case: Case, solution: Solution) -> GridCheck:
-    """Solve again with every cell size halved and compare Σ|Φ| over all boundaries."""
-    fine = simulate(case, mesh=build_mesh(case, refine=GRID_CHECK_REFINE), keep_fields=False)
+def grid_check(case: Case, solution: Solution, junction: JunctionResult | None = None) -> GridCheck:
+    """Solve again with every cell size halved and compare Σ|Φ| over all boundaries; with
+    the ``junction`` results of ``solution``, evaluate the junction on the refined mesh too
+    (its surface-temperature solve included) and show ψ, L2D, U_f and f_Rsi on both."""
+    mesh = build_mesh(case, refine=GRID_CHECK_REFINE)
+    fine = simulate(case, mesh=mesh, keep_fields=False)
+    quantities: dict[str, tuple[float, float]] = {}
+    if junction is not None:
+        surf = surface_case(case)
+        fine_surface = None if surf is None else simulate(surf, mesh=mesh, keep_fields=False)
+        fine_j = evaluate_junction(case, fine, fine_surface)
+        for name, attr in GRID_QUANTITIES:
+            a, b = getattr(junction, attr), getattr(fine_j, attr)
+            if a is not None and b is not None:
+                quantities[name] = (float(a), float(b))
     return GridCheck(
         cells=solution.mesh.n_cells,
         cells_refined=fine.mesh.n_cells,
         total=sum(abs(r.heat_flow) for r in solution.surfaces.values()),
         total_refined=sum(abs(r.heat_flow) for r in fine.surfaces.values()),
+        quantities=quantities,
     )
 
 
@@ -119,11 +151,13 @@ def run_study(
     if j is None and not want_grid:
         return study
     base = solution if not case.transient else simulate(steady_case(case), mesh=mesh)
-    if j is not None:
+    if j is not None and j.environments:
+        study.coupling = coupling_coefficients(steady_case(case), base.system)
+    if j is not None and j.pair:
         surf = surface_case(case)
         if surf is not None:
             study.surface_solution = simulate(steady_case(surf), mesh=mesh)
         study.junction = evaluate_junction(steady_case(case), base, study.surface_solution)
     if want_grid:
-        study.grid = grid_check(steady_case(case), base)
+        study.grid = grid_check(steady_case(case), base, study.junction)
     return study

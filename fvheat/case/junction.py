@@ -18,9 +18,14 @@ grid_check = true              # solve again with twice the cells (ISO 10211 gri
 
 [[junction.flanking]]
 name = "wall"
-length = 1.5                   # m
+length = 1.5                   # m, in the system of `dimensions`; or per dimension system:
+                               # { internal = 1.5, overall_internal = 1.5, external = 1.86 }
 u_value = 0.25                 # W/(m²·K); or cut = [[x0, y0], [x1, y1]] across the element
 thickness = 0.36               # m, optional (taken from the cut when there is one)
+
+[[junction.environments]]      # two or more: ISO 10211 coupling coefficients between them
+name = "room_a"                # (then inside / outside are optional)
+boundaries = ["room_a_wall", "room_a_floor"]
 ```
 """
 
@@ -39,8 +44,9 @@ from fvheat.case.fields import (
     string,
     table,
     tables,
+    to_number,
 )
-from fvheat.case.model import Case, Flanking, Junction
+from fvheat.case.model import Case, Environment, Flanking, Junction
 from fvheat.case.resistances import read_resistances
 
 _KEYS = (
@@ -55,6 +61,7 @@ _KEYS = (
     "frame_width",
     "centre",
     "grid_check",
+    "environments",
 )
 DIMENSIONS = ("internal", "overall_internal", "external")
 
@@ -64,16 +71,29 @@ def parse_junction(value: Any, ctx: Context) -> Junction | None:
     if value is None:
         return None
     path = "junction"
-    tbl = table(value, path, allowed=_KEYS, required=("inside", "outside"))
+    tbl = table(value, path, allowed=_KEYS)
     known = {b.name for b in ctx.parsed.get("boundaries", ())}
-    inside = _names(tbl["inside"], join(path, "inside"), known)
-    outside = _names(tbl["outside"], join(path, "outside"), known)
+    environments = _environments(tbl.get("environments"), join(path, "environments"), known)
+    for side in ("inside", "outside"):
+        if side not in tbl and not environments:
+            raise Invalid(
+                join(path, side),
+                "required key is missing (or give two or more [[junction.environments]])",
+            )
+    inside = _names(tbl["inside"], join(path, "inside"), known) if "inside" in tbl else ()
+    outside = _names(tbl["outside"], join(path, "outside"), known) if "outside" in tbl else ()
+    if bool(inside) != bool(outside):
+        missing = "outside" if inside else "inside"
+        raise Invalid(join(path, missing), "give both inside and outside, or neither")
     both = set(inside) & set(outside)
     if both:
         raise Invalid(join(path, "outside"), f"{sorted(both)} cannot be both inside and outside")
+    dimensions = string(
+        tbl, "dimensions", path, required=False, default="internal", choices=DIMENSIONS
+    )
     seen: dict[str, str] = {}
     flanking = tuple(
-        _flanking(t, join(join(path, "flanking"), i), seen)
+        _flanking(t, join(join(path, "flanking"), i), seen, dimensions)
         for i, t in enumerate(tables(tbl.get("flanking", []), join(path, "flanking")))
     )
     humidity = number(tbl, "indoor_humidity", path, required=False, gt=0, le=100)
@@ -84,9 +104,7 @@ def parse_junction(value: Any, ctx: Context) -> Junction | None:
         inside=inside,
         outside=outside,
         flanking=flanking,
-        dimensions=string(
-            tbl, "dimensions", path, required=False, default="internal", choices=DIMENSIONS
-        ),
+        dimensions=dimensions,
         surface_resistances=read_resistances(tbl, "condensation_resistance", path, inside),
         f_rsi_boundaries=(
             _names(tbl["f_rsi_boundaries"], join(path, "f_rsi_boundaries"), set(inside))
@@ -98,7 +116,36 @@ def parse_junction(value: Any, ctx: Context) -> Junction | None:
         frame_width=number(tbl, "frame_width", path, required=False, gt=0),
         centre=point(tbl["centre"], join(path, "centre")) if "centre" in tbl else None,
         grid_check=grid,
+        environments=environments,
     )
+
+
+def _environments(value: Any, path: str, known: set[str]) -> tuple[Environment, ...]:
+    """``[[junction.environments]]``: two or more, unique names, no boundary in two."""
+    if value is None:
+        return ()
+    entries = tables(value, path)
+    if len(entries) < 2:
+        raise Invalid(
+            path, f"coupling coefficients need two or more environments, got {len(entries)}"
+        )
+    seen: dict[str, str] = {}
+    owner: dict[str, str] = {}
+    out = []
+    for i, t in enumerate(entries):
+        p = join(path, i)
+        table(t, p, allowed=("name", "boundaries"), required=("name", "boundaries"))
+        ename = name(t["name"], join(p, "name"), seen)
+        names = _names(t["boundaries"], join(p, "boundaries"), known)
+        for n in names:
+            if n in owner:
+                raise Invalid(
+                    join(p, "boundaries"),
+                    f"boundary {n!r} already belongs to environment {owner[n]!r}",
+                )
+            owner[n] = ename
+        out.append(Environment(ename, names))
+    return tuple(out)
 
 
 def _names(value: Any, path: str, known: set[str]) -> tuple[str, ...]:
@@ -114,7 +161,25 @@ def _names(value: Any, path: str, known: set[str]) -> tuple[str, ...]:
     return tuple(value)
 
 
-def _flanking(tbl: dict, path: str, seen: dict[str, str]) -> Flanking:
+def _lengths(value: Any, path: str, primary: str) -> dict[str, float]:
+    """``length``: one number (m, in the ``primary`` system) or a table of lengths by
+    dimension system, which must hold the primary one."""
+    if not isinstance(value, dict):
+        return {primary: to_number(value, path, gt=0)}
+    if not value:
+        raise Invalid(path, f"expected a length or a table of lengths by {', '.join(DIMENSIONS)}")
+    table(value, path, allowed=DIMENSIONS)
+    lengths = {k: to_number(value[k], join(path, k), gt=0) for k in DIMENSIONS if k in value}
+    if primary not in lengths:
+        raise Invalid(
+            path,
+            f"no {primary} length, the system of junction.dimensions; give {primary} = ... "
+            f"or set junction.dimensions to one of {', '.join(repr(k) for k in lengths)}",
+        )
+    return lengths
+
+
+def _flanking(tbl: dict, path: str, seen: dict[str, str], primary: str) -> Flanking:
     table(
         tbl,
         path,
@@ -122,7 +187,8 @@ def _flanking(tbl: dict, path: str, seen: dict[str, str]) -> Flanking:
         required=("name", "length"),
     )
     fname = name(tbl["name"], join(path, "name"), seen)
-    length = number(tbl, "length", path, gt=0)
+    lengths = _lengths(tbl["length"], join(path, "length"), primary)
+    length = lengths[primary]
     u = number(tbl, "u_value", path, required=False, gt=0)
     cut = None
     if "cut" in tbl:
@@ -142,14 +208,32 @@ def _flanking(tbl: dict, path: str, seen: dict[str, str]) -> Flanking:
         u_value=u,
         cut=cut,
         thickness=number(tbl, "thickness", path, required=False, gt=0),
+        lengths=lengths,
     )
 
 
 def check_junction_side_kinds(case: Case) -> None:
-    """Junction boundaries must carry a temperature (surface exchange or fixed)."""
+    """Junction boundaries must carry a temperature (surface exchange or fixed); with
+    environments, every boundary carrying one belongs to an environment."""
     j = case.junction
     if j is None:
         return
+    for i, env in enumerate(j.environments):
+        for n in env.boundaries:
+            if case.boundary(n).kind == "flux":
+                raise Invalid(
+                    f"junction.environments.{i}.boundaries",
+                    f"boundary {n!r} has only a heat flux; it needs a temperature",
+                )
+    if j.environments:
+        listed = {n for env in j.environments for n in env.boundaries}
+        left = [b.name for b in case.boundaries if b.ties_temperature and b.name not in listed]
+        if left:
+            raise Invalid(
+                "junction.environments",
+                f"boundaries {', '.join(repr(n) for n in left)} tie the body to a temperature "
+                "but belong to no environment; list each in one environment",
+            )
     for side in ("inside", "outside"):
         for n in getattr(j, side):
             if case.boundary(n).kind == "flux":

@@ -28,6 +28,7 @@ from fvheat.case.fields import (
     table,
 )
 from fvheat.case.geometry import parse_geometry
+from fvheat.case.ground import parse_ground
 from fvheat.case.junction import check_junction_side_kinds, parse_junction
 from fvheat.case.materials import parse_materials
 from fvheat.case.model import (
@@ -173,6 +174,7 @@ register_section("probe_lines", parse_probe_lines)
 register_section("condensation", parse_condensation)
 register_section("junction", parse_junction)
 register_section("solver", parse_solver)
+register_section("ground", parse_ground)  # last: adds its soil to the regions, boundaries
 register_check(check_junction_side_kinds)
 
 

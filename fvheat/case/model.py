@@ -269,14 +269,26 @@ Dimensions = Literal["internal", "overall_internal", "external"]
 @dataclass(frozen=True)
 class Flanking:
     """A flanking element of a junction: its length ``length`` (m, in the junction's
-    dimension system) and U-value, given (``u_value``, W/(m²·K)) or taken from the model's
-    layers along ``cut`` (a segment across the element from surface to surface)."""
+    primary dimension system), its lengths in every dimension system given (``lengths``:
+    system → m, the primary one included) and U-value, given (``u_value``, W/(m²·K)) or
+    taken from the model's layers along ``cut`` (a segment across the element from surface
+    to surface)."""
 
     name: str
     length: float
     u_value: float | None = None
     cut: tuple[tuple[float, float], tuple[float, float]] | None = None
     thickness: float | None = None
+    lengths: dict[str, float] = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class Environment:
+    """One environment of a junction with more than two (ISO 10211 coupling coefficients):
+    its ``name`` and the boundaries exchanging with it (one common temperature)."""
+
+    name: str
+    boundaries: tuple[str, ...]
 
 
 @dataclass(frozen=True)
@@ -290,6 +302,8 @@ class Junction:
     (default: all inside ones); ``indoor_humidity`` (0–1) enables the dew-point check;
     ``frame_width`` (m) turns the ψ of a frame section with an insulating panel into U_f
     (ISO 10077-2); ``centre`` (m) locates the junction for the cut-off-plane check.
+    ``environments`` (two or more) ask for the coupling coefficients between them; then
+    ``inside`` and ``outside`` may be empty (no ψ, f_Rsi: see :attr:`pair`).
     """
 
     inside: tuple[str, ...]
@@ -305,6 +319,53 @@ class Junction:
     frame_width: float | None = None
     centre: tuple[float, float] | None = None
     grid_check: bool = False
+    environments: tuple[Environment, ...] = ()
+
+    @property
+    def pair(self) -> bool:
+        """Whether a warm and a cold side are declared (L2D, ψ, f_Rsi are evaluated)."""
+        return bool(self.inside and self.outside)
+
+
+@dataclass(frozen=True)
+class Ground:
+    """The ``[ground]`` table: a slab-on-ground edge with the soil block built around it
+    (see :mod:`fvheat.case.ground`). Lengths in m, x and y coordinates of the section.
+
+    ``width`` is the floor's characteristic dimension B' (ISO 13370); ``floor_edge`` the x of
+    the inside face of the external wall; ``ground_level`` the y of the outside ground
+    surface; ``wall_outside`` the x where the ground surface meets the wall's outside face;
+    ``interior`` (−1 or +1) the direction of the building's inside along x; ``soil`` the
+    soil material's name; ``boundary`` the outside boundary the ground surface joins;
+    ``floor_boundary`` the floor surface; ``floor_resistance`` R_f (m²·K/W) and
+    ``wall_thickness`` w when given (else taken from the model)."""
+
+    width: float
+    floor_edge: float
+    ground_level: float
+    wall_outside: float
+    soil: str
+    boundary: str
+    floor_boundary: str
+    floor_resistance: float | None = None
+    wall_thickness: float | None = None
+
+    @property
+    def interior(self) -> float:
+        """−1 when the building lies towards −x of the floor edge, +1 towards +x."""
+        return -1.0 if self.wall_outside > self.floor_edge else 1.0
+
+    @property
+    def symmetry_x(self) -> float:
+        """x of the floor's symmetry plane, 0.5·B' inside the floor edge (adiabatic)."""
+        return self.floor_edge + self.interior * 0.5 * self.width
+
+    @property
+    def thickness(self) -> float:
+        """w: the wall thickness given, else the floor edge to the outside face at ground."""
+        if self.wall_thickness is not None:
+            return self.wall_thickness
+        return abs(self.wall_outside - self.floor_edge)
 
 
 SolverMethod = Literal["auto", "direct", "amg"]
@@ -344,6 +405,7 @@ class Case:
     condensation: Condensation | None = None
     junction: Junction | None = None
     solver: SolverSettings = field(default_factory=SolverSettings)
+    ground: Ground | None = None
     geometry: Geometry | None = None
 
     @property

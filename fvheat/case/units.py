@@ -36,6 +36,11 @@ LENGTH_KEYS = (
     "junction.flanking.*.cut",
     "junction.flanking.*.length",
     "junction.flanking.*.thickness",
+    "ground.width",
+    "ground.floor_edge",
+    "ground.ground_level",
+    "ground.wall_outside",
+    "ground.wall_thickness",
 )
 
 _PATTERNS = tuple(re.compile(re.escape(k).replace(r"\*", r"\d+") + r"(\..*)?") for k in LENGTH_KEYS)

@@ -4,6 +4,7 @@ take minutes): side temperatures, and the layer cuts of the flanking elements.""
 from __future__ import annotations
 
 from fvheat.case.model import Case
+from fvheat.evaluate.coupling import check_coupling
 from fvheat.evaluate.junction import flanking_results, junction_temperatures
 from fvheat.mesh.mesh import Mesh
 
@@ -12,5 +13,8 @@ def check_junction(case: Case, mesh: Mesh) -> None:
     """Raise :class:`~fvheat.errors.CaseError` for a junction that cannot be evaluated."""
     if case.junction is None:
         return
-    junction_temperatures(case)
+    if case.junction.environments:
+        check_coupling(case, mesh)
+    if case.junction.pair:
+        junction_temperatures(case)
     flanking_results(case, mesh)

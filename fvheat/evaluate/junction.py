@@ -4,6 +4,11 @@ ISO 10211: L2D = Φ / (θ_i − θ_e) with Φ the heat flow through the warm-sid
 (W/m); ψ = L2D − Σ U_j·l_j over the flanking elements; f_Rsi = (θ_si,min − θ_e)/(θ_i − θ_e).
 ISO 10077-2: with the glazing replaced by an insulating panel, U_f = (L2D − U_p·b_p)/b_f,
 i.e. ψ/b_f when the panel is the only flanking element.
+
+Dimension systems (ISO 10211 / ISO 14683 terms): ψ depends on how the flanking lengths l_j
+were measured (internal, overall internal or external dimensions); L2D does not. ψ is
+computed for every system in which every flanking element has a length,
+ψ_sys = L2D − Σ U_j·l_j,sys; ``psi`` is the one of the junction's ``dimensions``.
 """
 
 from __future__ import annotations
@@ -13,8 +18,11 @@ from typing import Any
 
 import numpy as np
 
+from fvheat.case.ground import FLOOR_FLANKING
+from fvheat.case.junction import DIMENSIONS
 from fvheat.case.model import Case, Junction
 from fvheat.errors import CaseError
+from fvheat.evaluate.ground import GroundFloor, ground_floor
 from fvheat.evaluate.humidity import SATURATION_BASIS, dew_point, surface_relative_humidity
 from fvheat.evaluate.layers import CutError, LayerCut, layer_cut
 from fvheat.mesh.mesh import Mesh
@@ -33,9 +41,17 @@ class FlankingResult:
     u_value: float
     length: float
     cut: LayerCut | None = None
+    lengths: dict[str, float] = field(default_factory=dict)
+    u_from: str | None = None  # where U came from when neither given nor from layers
+
+    @property
+    def source(self) -> str:
+        """Where the U-value came from: "layers", "given" or e.g. "ISO 13370"."""
+        return self.u_from or ("layers" if self.cut is not None else "given")
 
     def as_dict(self) -> dict[str, Any]:
         out: dict[str, Any] = {"name": self.name, "u_value": self.u_value, "length": self.length}
+        out["lengths"] = dict(self.lengths or {})
         if self.cut is not None:
             out["u_from"] = "layers"
             out["layers"] = [
@@ -43,7 +59,7 @@ class FlankingResult:
             ]
             out["r_si"], out["r_se"] = self.cut.r_start, self.cut.r_end
         else:
-            out["u_from"] = "given"
+            out["u_from"] = self.source
         return out
 
 
@@ -70,6 +86,18 @@ class JunctionResult:
     dew_point: float | None = None
     surface_rh: float | None = None
     warnings: list[str] = field(default_factory=list)
+    psi_by_dimensions: dict[str, float] = field(default_factory=dict)
+    ground: GroundFloor | None = None
+
+    @property
+    def psi_note(self) -> str | None:
+        """Which system ψ is in, when the flanking lengths are given in that one only."""
+        if not self.flanking or len(self.psi_by_dimensions) > 1:
+            return None
+        return (
+            f"ψ in {self.dimensions.replace('_', ' ')} dimensions only: no flanking length is "
+            "given in another dimension system"
+        )
 
     @property
     def f_rsi_pass(self) -> bool | None:
@@ -92,8 +120,13 @@ class JunctionResult:
             "theta_e": self.theta_e,
             "heat_flow": self.heat_flow,
             "dimensions": self.dimensions,
+            "psi_by_dimensions": dict(self.psi_by_dimensions),
             "flanking": [f.as_dict() for f in self.flanking],
         }
+        if self.psi_note is not None:
+            out["psi_dimensions_note"] = self.psi_note
+        if self.ground is not None:
+            out["ground"] = {"psi_g": self.psi, **self.ground.as_dict()}
         if self.u_f is not None:
             out["U_f"] = self.u_f
         if self.dew_point is not None:
@@ -109,14 +142,15 @@ class JunctionResult:
 
 
 def side_temperature(case: Case, names: tuple[str, ...], side: str) -> float:
-    """The common, constant reference temperature (°C) of the boundaries ``names``."""
+    """The common reference temperature (°C) of the boundaries ``names`` at t = 0 (the
+    steady junction solves use the t = 0 conditions; see :func:`varying_sides`)."""
     temps = {}
     for n in names:
         b = case.boundary(n)
         sig = b.reference_temperature
-        if sig is None or not sig.is_constant:
+        if sig is None:
             raise CaseError(
-                f"boundary {n!r} needs a constant air or surface temperature for junction results",
+                f"boundary {n!r} needs an air or surface temperature for junction results",
                 file=str(case.source),
                 key=f"junction.{side}",
             )
@@ -130,9 +164,20 @@ def side_temperature(case: Case, names: tuple[str, ...], side: str) -> float:
     return next(iter(temps.values()))
 
 
+def varying_sides(case: Case) -> list[str]:
+    """The junction's side boundaries whose temperature changes with time."""
+    j = case.junction
+    assert j is not None
+    return [
+        n
+        for n in (*j.inside, *j.outside)
+        if (sig := case.boundary(n).reference_temperature) is not None and not sig.is_constant
+    ]
+
+
 def junction_temperatures(case: Case) -> tuple[float, float]:
     """The warm-side and cold-side temperatures θ_i, θ_e (°C) of the case's junction;
-    :class:`CaseError` when a side has no common constant temperature or both are equal."""
+    :class:`CaseError` when a side has no common temperature at t = 0 or both are equal."""
     j = case.junction
     assert j is not None
     theta_i = side_temperature(case, j.inside, "inside")
@@ -154,7 +199,7 @@ def flanking_results(case: Case, mesh: Mesh) -> list[FlankingResult]:
     for k, f in enumerate(j.flanking):
         if f.cut is None:
             assert f.u_value is not None
-            out.append(FlankingResult(f.name, f.u_value, f.length))
+            out.append(FlankingResult(f.name, f.u_value, f.length, None, dict(f.lengths)))
             continue
         try:
             cut = layer_cut(case, mesh, f.cut)
@@ -162,7 +207,12 @@ def flanking_results(case: Case, mesh: Mesh) -> list[FlankingResult]:
             raise CaseError(
                 str(err), file=str(case.source), key=f"junction.flanking.{k}.cut"
             ) from None
-        out.append(FlankingResult(f.name, cut.u_value, f.length, cut))
+        out.append(FlankingResult(f.name, cut.u_value, f.length, cut, dict(f.lengths)))
+    if case.ground is not None:
+        g = ground_floor(case, mesh)
+        out.append(
+            FlankingResult(FLOOR_FLANKING, g.u_value, g.length, None, g.lengths(), "ISO 13370")
+        )
     return out
 
 
@@ -180,6 +230,7 @@ def evaluate_junction(
     l2d = phi / dtheta
     flanks = flanking_results(case, heat_loss.mesh)
     psi = l2d - sum(f.u_value * f.length for f in flanks)
+    by_dims = psi_by_dimensions(l2d, flanks, j.dimensions)
 
     src = surface if surface is not None else heat_loss
     coldest = min(j.f_rsi_boundaries or j.inside, key=lambda n: src.surfaces[n].min_temperature)
@@ -208,6 +259,8 @@ def evaluate_junction(
         f_rsi_resistances=j.surface_resistances.values,
         f_rsi_default=bool(j.surface_resistances.defaulted),
         separate_surface_solve=surface is not None,
+        psi_by_dimensions=by_dims,
+        ground=ground_floor(case, heat_loss.mesh) if case.ground is not None else None,
     )
     if j.frame_width is not None:
         result.u_f = psi / j.frame_width
@@ -215,6 +268,13 @@ def evaluate_junction(
         result.dew_point = dew_point(theta_i, j.indoor_humidity)
         result.surface_rh = surface_relative_humidity(theta_i, j.indoor_humidity, theta_si)
     result.warnings += cutoff_warnings(case, heat_loss, flanks)
+    varying = varying_sides(case)
+    if varying:
+        result.warnings.append(
+            f"the temperatures of {', '.join(repr(n) for n in varying)} vary in time: L2D, ψ "
+            f"and f_Rsi come from the steady field of the t = 0 conditions (θ_i = "
+            f"{theta_i:g} °C, θ_e = {theta_e:g} °C)"
+        )
     phi_out = sum(heat_loss.surfaces[n].heat_flow for n in j.outside)
     other = abs(phi + phi_out) / max(abs(phi), 1e-300)
     if other > 1e-6:
@@ -223,6 +283,24 @@ def evaluate_junction(
             "crosses boundaries of neither side; L2D counts only the warm side"
         )
     return result
+
+
+def psi_by_dimensions(l2d: float, flanks: list[FlankingResult], primary: str) -> dict[str, float]:
+    """ψ (W/(m·K)) in every dimension system in which every flanking element has a length:
+    L2D − Σ U·l_sys (ISO 10211), the ``primary`` system first. Without flanking elements
+    ψ = L2D in the primary system only."""
+    out = {}
+    for system in (primary, *(d for d in DIMENSIONS if d != primary)):
+        if system == primary:
+            lengths: list[float | None] = [f.length for f in flanks]
+        else:
+            lengths = [f.lengths.get(system) for f in flanks]
+        if flanks and any(v is None for v in lengths):
+            continue
+        if not flanks and system != primary:
+            continue
+        out[system] = l2d - sum(f.u_value * v for f, v in zip(flanks, lengths, strict=True))
+    return out
 
 
 def cutoff_warnings(case: Case, solution: Solution, flanks: list[FlankingResult]) -> list[str]:

@@ -56,33 +56,65 @@ class SurfacePoints:
     bid: np.ndarray
 
 
+@dataclass(frozen=True)
+class SurfacePointMap:
+    """Where the surface points of :func:`surface_points` are and how their temperatures
+    follow from the face temperatures; built once per mesh and set of surface terms, so a
+    time step evaluates them with a few vector operations. ``neighbour``/``use`` and
+    ``weight`` per end (start point, end point) give T_end = T_f + (T_f − T_n)·w where
+    ``use``, T_f elsewhere."""
+
+    at: np.ndarray
+    bid: np.ndarray
+    neighbour: tuple[np.ndarray, np.ndarray]
+    use: tuple[np.ndarray, np.ndarray]
+    weight: tuple[np.ndarray, np.ndarray]
+
+    @classmethod
+    def build(cls, mesh: Mesh, s: SurfaceTerms) -> SurfacePointMap:
+        face = s.face
+        centre, normal, half = mesh.b_centre[face], mesh.b_normal[face], 0.5 * mesh.b_area[face]
+        both = face_ends(centre, normal, mesh.b_area[face])
+        ends = (both[:, 0], both[:, 1])
+        # a collinear neighbour continues the face on the same line, same boundary and material
+        scale = max(float(np.ptp(mesh.centres)), 1.0)
+        material = mesh.material[mesh.b_cell[face]]
+        straight = s.exchange == 1.0
+        keys = [_point_keys(p, normal, scale) for p in ends]
+        after = _match(keys[1], keys[0])  # the face that starts where this one ends
+        before = _match(keys[0], keys[1])
+        others, uses, weights = [], [], []
+        for across in (after, before):  # start point: look beyond the end; end: before start
+            ok = across >= 0
+            other = np.where(ok, across, 0)
+            ok &= (
+                (s.bid[other] == s.bid) & (material[other] == material) & straight & straight[other]
+            )
+            # T_end = T_f + (T_f − T_other)·(L_f/2)/((L_f + L_other)/2)
+            others.append(other)
+            uses.append(ok)
+            weights.append(half / (half + half[other]))
+        return cls(
+            at=np.concatenate([centre, *ends]),
+            bid=np.tile(s.bid, 3),
+            neighbour=(others[0], others[1]),
+            use=(uses[0], uses[1]),
+            weight=(weights[0], weights[1]),
+        )
+
+    def temperatures(self, ts: np.ndarray) -> np.ndarray:
+        """Temperatures (°C) at every point from the face-centre temperatures ``ts``."""
+        values = [ts]
+        for other, ok, w in zip(self.neighbour, self.use, self.weight, strict=True):
+            values.append(np.where(ok, ts + (ts - ts[other]) * w, ts))
+        return np.concatenate(values)
+
+
 def surface_points(mesh: Mesh, s: SurfaceTerms, ts: np.ndarray) -> SurfacePoints:
     """Face-centre temperatures ``ts`` (°C, one per surface face of ``s``) and the values
     extrapolated to both end points of every face."""
-    face = s.face
-    centre, normal, half = mesh.b_centre[face], mesh.b_normal[face], 0.5 * mesh.b_area[face]
-    both = face_ends(centre, normal, mesh.b_area[face])
-    ends = (both[:, 0], both[:, 1])
-    # a collinear neighbour continues the face on the same line, same boundary and material
-    scale = max(float(np.ptp(mesh.centres)), 1.0)
-    material = mesh.material[mesh.b_cell[face]]
-    straight = s.exchange == 1.0
-    keys = [_point_keys(p, normal, scale) for p in ends]
-    after = _match(keys[1], keys[0])  # the face that starts where this one ends
-    before = _match(keys[0], keys[1])
-    values = [ts]
-    for across in (after, before):  # start point: look beyond the end; end: before the start
-        ok = across >= 0
-        other = np.where(ok, across, 0)
-        ok &= (s.bid[other] == s.bid) & (material[other] == material) & straight & straight[other]
-        # T_end = T_f + (T_f − T_other)·(L_f/2)/((L_f + L_other)/2)
-        weight = half / (half + half[other])
-        values.append(np.where(ok, ts + (ts - ts[other]) * weight, ts))
-    return SurfacePoints(
-        temperature=np.concatenate(values),
-        at=np.concatenate([centre, *ends]),
-        bid=np.tile(s.bid, 3),
-    )
+    m = SurfacePointMap.build(mesh, s)
+    return SurfacePoints(temperature=m.temperatures(ts), at=m.at, bid=m.bid)
 
 
 def _point_keys(points: np.ndarray, normal: np.ndarray, scale: float) -> np.ndarray:

@@ -132,6 +132,20 @@ def case_inputs(case: Case, mesh: Mesh) -> dict[str, Any]:
             "f_rsi_limit": j.f_rsi_limit,
             "indoor_humidity": j.indoor_humidity,
             "frame_width": j.frame_width,
+            "environments": {e.name: list(e.boundaries) for e in j.environments},
+        }
+    if case.ground is not None:
+        g = case.ground
+        out["ground"] = {
+            "width": g.width,
+            "floor_edge": g.floor_edge,
+            "ground_level": g.ground_level,
+            "wall_outside": g.wall_outside,
+            "soil": g.soil,
+            "boundary": g.boundary,
+            "floor_boundary": g.floor_boundary,
+            "floor_resistance": g.floor_resistance,
+            "wall_thickness": g.wall_thickness,
         }
     return out
 

@@ -54,8 +54,19 @@ def build_summary(study: Study, overrides: tuple[str, ...] = ()) -> dict[str, An
         "caution": CAUTION,
     }
     summary["warnings"] = study.all_warnings
-    if study.junction is not None:
-        summary["junction"] = study.junction.as_dict()
+    ext = solution.extremes
+    if ext is not None:
+        for name, b in summary["boundaries"].items():
+            b.update(ext.boundary_dict(name))
+        if ext.phase:
+            summary["phase_change_max"] = ext.phase_dict()
+    junction = study.junction.as_dict() if study.junction is not None else {}
+    if ext is not None and study.junction is not None:
+        junction.update(ext.factor_dict())
+    if study.coupling is not None:
+        junction["coupling"] = study.coupling.as_dict()
+    if junction:
+        summary["junction"] = junction
     if study.grid is not None:
         summary["grid_check"] = study.grid.as_dict()
     return summary

@@ -89,8 +89,26 @@ def from_run(folder: str | Path) -> Table:
         params[key.strip()] = text.strip()
     table = Table()
     output = str(summary_path.parent)
-    table.add(params, "done", main_results(summary), message=None, output=output)
+    results = {**main_results(summary), **over_run_results(summary)}
+    table.add(params, "done", results, message=None, output=output)
     return table
+
+
+def over_run_results(summary: dict[str, Any]) -> dict[str, float]:
+    """Extremes over a transient run: ``min_temperature_over_run_<boundary>`` and
+    ``max_temperature_over_run_<boundary>`` (°C), ``f_min_over_run`` (junction cases) and
+    ``max_<measure>`` (frozen area m², fronts m) when present."""
+    out: dict[str, float] = {}
+    for name, b in summary.get("boundaries", {}).items():
+        for key in ("min_temperature_over_run", "max_temperature_over_run"):
+            if b.get(key) is not None:
+                out[f"{key}_{name}"] = b[key]
+    f = (summary.get("junction") or {}).get("f_min_over_run")
+    if f is not None:
+        out["f_min_over_run"] = f
+    for key, v in (summary.get("phase_change_max") or {}).items():
+        out[f"max_{key}"] = v["value"]
+    return out
 
 
 def collect(sources: Sequence[str | Path]) -> Table:

@@ -35,6 +35,12 @@ PINS = {
         "psi",
         0.2081536782984872,
     ),
+    "ground-floor edge, slab on ground (psi_g)": (
+        "ground_floor_edge.toml",
+        (),
+        "psi",
+        0.08480061277876239,
+    ),
 }
 
 

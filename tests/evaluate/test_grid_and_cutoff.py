@@ -17,7 +17,8 @@ from pathlib import Path
 import pytest
 
 from fvheat.case.load import load_case
-from fvheat.study import GRID_CHECK_LIMIT, run_study
+from fvheat.mesh.rectilinear import build_mesh
+from fvheat.study import GRID_CHECK_LIMIT, GRID_CHECK_REFINE, run_study
 
 from .helpers import study
 
@@ -37,6 +38,7 @@ def test_grid_check_on_demo_balcony():
         "change",
         "limit",
         "pass",
+        "junction",
     }
     assert d["cells"] == s.solution.mesh.n_cells
     assert d["cells_refined"] >= 2 * d["cells"]  # at least doubled
@@ -48,6 +50,19 @@ def test_grid_check_on_demo_balcony():
     assert d["limit"] == GRID_CHECK_LIMIT == 0.01
     assert d["change"] < 0.01
     assert d["pass"] is True
+    # the junction quantities on both grids: the coarse ones are the run's own, the refined
+    # ones those of a whole study on the refined mesh (the same evaluation, run separately)
+    q = d["junction"]
+    assert set(q) == {"L2D", "psi", "f_Rsi"}  # no frame width: no U_f
+    assert q["psi"]["value"] == s.junction.psi
+    assert q["f_Rsi"]["value"] == s.junction.f_rsi
+    case = load_case(CASES / "balcony_slab.toml")
+    fine = run_study(case, mesh=build_mesh(case, refine=GRID_CHECK_REFINE), check_grid=False)
+    assert q["psi"]["refined"] == pytest.approx(fine.junction.psi, rel=1e-9)
+    assert q["f_Rsi"]["refined"] == pytest.approx(fine.junction.f_rsi, rel=1e-9)
+    assert q["psi"]["change"] == q["psi"]["refined"] - q["psi"]["value"]
+    # a grid that passes Σ|Φ| changes ψ by far less than the 0.01 W/(m·K) ψ is quoted to
+    assert abs(q["psi"]["change"]) < 0.01
 
 
 def test_grid_check_follows_the_case_switch(tmp_path):

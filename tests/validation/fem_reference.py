@@ -9,7 +9,8 @@ at most ``h``), so that corner points are resolved to a fraction of a millimetre
 are painted in order (a later box overrides an earlier one), as case files define them.
 
 Only what a case file states is taken from the case: boxes, conductivities, boundary
-segments, air temperatures and surface resistances.
+segments, air temperatures and surface resistances. The heat flow into the body through a
+boundary is the functional ∫_Γ (θ_air − θ)/R ds over its facets (W/m).
 """
 
 from __future__ import annotations
@@ -25,6 +26,7 @@ from skfem import (
     ElementTriP0,
     ElementTriP2,
     FacetBasis,
+    Functional,
     LinearForm,
     MeshTri,
     asm,
@@ -73,6 +75,13 @@ class FemSolution:
     basis: CellBasis
     u: np.ndarray
     facets: dict[str, np.ndarray]
+    surfaces: dict[str, tuple[FacetBasis, float, float]] | None = None
+
+    def heat_flow(self, name: str) -> float:
+        """Heat flow into the body through boundary ``name`` (W/m): ∫ (θ_air − θ)/R ds."""
+        assert self.surfaces is not None
+        fb, air, r = self.surfaces[name]
+        return float(_heat_in.assemble(fb, u=fb.interpolate(self.u), air=air, r=r))
 
     def surface_minimum(self, name: str) -> tuple[float, np.ndarray]:
         """Lowest temperature (°C) over the mesh vertices on boundary ``name``, and where."""
@@ -86,8 +95,20 @@ class FemSolution:
         return self.basis.probes(np.asarray(points, float)) @ self.u
 
 
-def solve_boxes(case: Case, h: float = 0.02, h0: float = 1e-4, ratio: float = 1.3) -> FemSolution:
-    """The steady field of ``case`` (box regions, surface boundaries with a resistance)."""
+@Functional
+def _heat_in(w):
+    return (w.air - w.u) / w.r
+
+
+def solve_boxes(
+    case: Case,
+    h: float = 0.02,
+    h0: float = 1e-4,
+    ratio: float = 1.3,
+    air: dict[str, float] | None = None,
+) -> FemSolution:
+    """The steady field of ``case`` (box regions, surface boundaries with a resistance);
+    ``air`` replaces the air temperatures (°C) of the boundaries it names."""
     boxes = []
     for r in case.regions:
         if not r.is_box:
@@ -97,7 +118,10 @@ def solve_boxes(case: Case, h: float = 0.02, h0: float = 1e-4, ratio: float = 1.
     for b in case.boundaries:
         if b.kind != "surface" or b.emissivity > 0 or not b.air_temperature.is_constant:
             raise ValueError(f"boundary {b.name}: the reference handles constant resistances only")
-        surfaces.append((b.name, b.edges, float(b.air_temperature.at(0.0)), 1.0 / b.convection))
+        t_air = float(b.air_temperature.at(0.0)) if air is None else air.get(b.name, 0.0)
+        if air is not None and b.name not in air:
+            raise ValueError(f"boundary {b.name}: no air temperature given")
+        surfaces.append((b.name, b.edges, t_air, 1.0 / b.convection))
     xs = [v for _, bx in boxes for v in (bx[0], bx[2])]
     ys = [v for _, bx in boxes for v in (bx[1], bx[3])]
     for _, edges, _, _ in surfaces:
@@ -132,10 +156,12 @@ def solve_boxes(case: Case, h: float = 0.02, h0: float = 1e-4, ratio: float = 1.
     boundary = mesh.boundary_facets()
     mid = mesh.p[:, mesh.facets[:, boundary]].mean(axis=1)
     facets = {}
-    for name, edges, air, r in surfaces:
+    bases = {}
+    for name, edges, t_air, r in surfaces:
         facets[name] = boundary[on_segments(mid, edges)]
         fb = FacetBasis(mesh, element, facets=facets[name])
         a = a + asm(mass, fb) / r
-        b = b + asm(unit, fb) * air / r
+        b = b + asm(unit, fb) * t_air / r
+        bases[name] = (fb, t_air, r)
     u = spla.spsolve(a.tocsc(), b)
-    return FemSolution(mesh, basis, u, facets)
+    return FemSolution(mesh, basis, u, facets, bases)

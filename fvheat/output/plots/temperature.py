@@ -27,7 +27,7 @@ def coldest_point(summary: dict[str, Any]) -> Marked | None:
     """The coldest inside-surface point of a run summary: the junction's θ_si,min when a
     junction is declared, otherwise the lowest ``min_temperature`` over all boundaries."""
     j = summary.get("junction")
-    if j is not None:
+    if j is not None and "theta_si_min_at" in j:
         x, y = j["theta_si_min_at"]
         return Marked(float(x), float(y), float(j["theta_si_min"]), "θ_si,min")
     bounds = summary.get("boundaries") or {}

@@ -346,6 +346,9 @@ def _result_sections(s: dict[str, Any]) -> list[Section]:
         )
     )
     out.append(flows)
+    over = _over_run_section(s)
+    if over is not None:
+        out.append(over)
     if s.get("probes"):
         out.append(
             Section(
@@ -383,6 +386,18 @@ def _result_sections(s: dict[str, Any]) -> list[Section]:
                         f"{g['sum_abs_heat_flow']:.5g} → {g['sum_abs_heat_flow_refined']:.5g}",
                     ],
                     ["change", f"{100 * g['change']:.3f} % (limit {100 * g['limit']:g} %)"],
+                    *(
+                        [
+                            f"{'ψ' if name == 'psi' else name} (shown, not judged)",
+                            f"{q['value']:.5g} → {q['refined']:.5g} (change {q['change']:+.3g}"
+                            + (
+                                f", {100 * q['relative_change']:+.3f} %)"
+                                if q.get("relative_change") is not None
+                                else ")"
+                            ),
+                        ]
+                        for name, q in (g.get("junction") or {}).items()
+                    ),
                 ],
                 [False, True],
             )
@@ -420,7 +435,79 @@ KNOWN_KEYS = {
     "solve_seconds",
     "junction",
     "grid_check",
+    "phase_change_max",
 }
+
+
+def _over_run_section(s: dict[str, Any]) -> Section | None:
+    """Lowest and highest surface temperatures, the lowest f(t) and the largest frost
+    measures over every step of a transient run."""
+    bounds = s.get("boundaries") or {}
+    rows = [
+        [
+            name,
+            num(r["min_temperature_over_run"], ".2f"),
+            point(r.get("min_temperature_over_run_at")),
+            num(r["min_temperature_over_run_time_s"] / 3600, ".4g", "h"),
+            num(r["max_temperature_over_run"], ".2f"),
+            point(r.get("max_temperature_over_run_at")),
+            num(r["max_temperature_over_run_time_s"] / 3600, ".4g", "h"),
+        ]
+        for name, r in bounds.items()
+        if "min_temperature_over_run" in r
+    ]
+    if not rows:
+        return None
+    sec = Section("over-run", "Extremes over the run", 3)
+    sec.blocks.append(
+        Table(
+            ["boundary", "lowest θ_s °C", "at", "time", "highest θ_s °C", "at", "time"],
+            rows,
+            [False, True, False, True, True, False, True],
+        )
+    )
+    sec.blocks.append(
+        Para(
+            "Sampled at every time step (the initial state included; the last cycle of a "
+            "periodic run), over face centres and face end points as the steady results."
+        )
+    )
+    j = s.get("junction") or {}
+    if j.get("f_min_over_run") is not None:
+        sec.blocks.append(
+            Para(
+                f"Lowest temperature factor over the run f(t) = {j['f_min_over_run']:.4f} at "
+                f"t = {j['f_min_over_run_time_s'] / 3600:.4g} h on "
+                f"{j['f_min_over_run_boundary']} {point(j.get('f_min_over_run_at'))} "
+                f"(θ_si = {j['f_min_over_run_theta_si']:.2f} °C, θ_i = "
+                f"{j['f_min_over_run_theta_i']:.2f} °C, θ_e = {j['f_min_over_run_theta_e']:.2f}"
+                f" °C). {j.get('f_over_run_basis', '')}; "
+                f"{j.get('f_over_run_skipped_steps', 0)} of {j.get('f_over_run_steps', 0)} "
+                "steps skipped. Not the steady f_Rsi: a massive construction lags the air "
+                "temperatures."
+            )
+        )
+    elif "f_min_over_run" in j:
+        sec.blocks.append(
+            Para("No step had warm and cold sides 1 K apart or more: no f(t).", "note")
+        )
+    phase = s.get("phase_change_max") or {}
+    if phase:
+        sec.blocks.append(
+            Table(
+                ["largest over the run", "value", "time"],
+                [
+                    [
+                        k,
+                        num(v["value"], ".4g", "m²" if k == "frozen_area" else "m"),
+                        num(v["time_s"] / 3600, ".4g", "h"),
+                    ]
+                    for k, v in phase.items()
+                ],
+                [False, True, True],
+            )
+        )
+    return sec
 
 
 def _flat(prefix: str, value: Any, rows: list[list[str]]) -> None:
@@ -457,6 +544,54 @@ def _other_results(s: dict[str, Any]) -> Section | None:
     )
 
 
+def _coupling_blocks(c: dict[str, Any]) -> list[Block]:
+    """The coupling-coefficient matrix, its checks and the weighting factors."""
+    names = list(c["environments"])
+    blocks: list[Block] = [
+        Table(
+            ["L W/(m·K)", *names],
+            [[n, *(f"{v:.5f}" for v in row)] for n, row in zip(names, c["L"], strict=True)],
+            [False, *([True] * len(names))],
+        ),
+        Para(
+            "Thermal coupling coefficients (ISO 10211) from one steady solve per environment "
+            "(that environment at 1 K, the others at 0). Off the diagonal L[i][j] ≥ 0: the heat "
+            "flow from environment i to j is L[i][j]·(θ_i − θ_j); the diagonal is the heat flow "
+            "into the body from i alone at 1 K, the sum of the rest of its row. "
+            f"Largest asymmetry {c['symmetry_error']:.1e} and row-sum deviation "
+            f"{c['row_sum_error']:.1e} (relative to the largest entry).",
+            "pass" if c.get("checks_pass") else "fail",
+        ),
+    ]
+    temps = ", ".join(
+        f"{n} {t:g} °C" for n, t in zip(names, c.get("temperatures", []), strict=False)
+    )
+    rows = [
+        [
+            p["environment"],
+            f"{p['temperature']:.2f} °C at {point(p['at'])} ({p['boundary']})",
+            ", ".join(f"{v:.4f}" for v in p["g"]),
+        ]
+        for p in c.get("weighting_factors", [])
+    ]
+    if rows:
+        blocks.append(
+            Table(
+                ["environment", f"coldest surface point ({temps})", f"g ({', '.join(names)})"],
+                rows,
+            )
+        )
+        blocks.append(
+            Para(
+                "Temperature weighting factors: the surface temperature at the point is "
+                "θ = Σ g_j·θ_j for any environment temperatures θ_j; from the "
+                f"{c.get('weighting_factors_from', 'heat-loss solve')}.",
+                "note",
+            )
+        )
+    return blocks
+
+
 def _junction_section(j: dict[str, Any] | None) -> Section:
     sec = Section("junction", "Junction: ψ, L2D, f_Rsi", 3)
     if j is None:
@@ -464,17 +599,60 @@ def _junction_section(j: dict[str, Any] | None) -> Section:
             Para("No [junction] declared: ψ, L2D, f_Rsi and U_f are not evaluated.", "note")
         )
         return sec
+    if j.get("coupling"):
+        sec.blocks += _coupling_blocks(j["coupling"])
+        for w in j["coupling"].get("warnings", []):
+            sec.blocks.append(Para(f"Warning: {w}", "caution"))
+    if "L2D" not in j:
+        sec.blocks.append(
+            Para("No inside and outside declared: ψ, L2D and f_Rsi are not evaluated.", "note")
+        )
+        return sec
     rows = [
         ["θ_i / θ_e", f"{j['theta_i']:g} / {j['theta_e']:g} °C"],
         ["heat flow through the warm side Φ", num(j.get("heat_flow"), ".4f", "W/m")],
         ["L2D", num(j["L2D"], ".4f", "W/(m·K)")],
     ]
+    primary = str(j.get("dimensions", ""))
     for f in j.get("flanking", []):
-        src = "from the model's layers" if f.get("u_from") == "layers" else "given"
-        rows.append(
-            [f"U·l {f['name']}", f"{f['u_value']:.4f} W/(m²·K) × {f['length']:g} m ({src})"]
+        src = {"layers": "from the model's layers", None: "given"}.get(
+            f.get("u_from"), str(f.get("u_from"))
         )
-    rows.append(["ψ", num(j["psi"], ".4f", "W/(m·K)") + f" ({j.get('dimensions', '')} dimensions)"])
+        others = [
+            f"{v:g} m {k.replace('_', ' ')}"
+            for k, v in (f.get("lengths") or {}).items()
+            if k != primary
+        ]
+        more = f"; {', '.join(others)}" if others else ""
+        rows.append(
+            [
+                f"U·l {f['name']}",
+                f"{f['u_value']:.4f} W/(m²·K) × {f['length']:g} m ({src}{more})",
+            ]
+        )
+    by_dims = j.get("psi_by_dimensions") or {primary: j["psi"]}
+    for system, value in by_dims.items():
+        mark = ", as declared" if system == primary and len(by_dims) > 1 else ""
+        rows.append(
+            [
+                f"ψ, {system.replace('_', ' ')} dimensions{mark}",
+                num(value, ".4f", "W/(m·K)"),
+            ]
+        )
+    g = j.get("ground")
+    if g:
+        rows.append(
+            [
+                "ground floor U (ISO 13370, from memory)",
+                f"{g['U_floor']:.4f} W/(m²·K): B' {g['B_prime']:g} m, λ_g "
+                f"{g['soil_conductivity']:g} W/(m·K), w {g['wall_thickness']:.3g} m, R_si "
+                f"{g['R_si']:g}, R_f {g['R_f']:.3f} ({g['R_f_from']}), R_se {g['R_se']:g} "
+                f"m²·K/W, d_t {g['d_t']:.3f} m; {g['U_floor_formula']}",
+            ]
+        )
+        rows.append(["ψ_g", num(g["psi_g"], ".4f", "W/(m·K)") + " (ψ of the ground-floor edge)"])
+    if j.get("psi_dimensions_note"):
+        rows.append(["dimension system", str(j["psi_dimensions_note"])])
     if j.get("U_f") is not None:
         rows.append(["U_f", num(j["U_f"], ".3f", "W/(m²·K)")])
     verdict = ""
