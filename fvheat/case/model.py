@@ -88,6 +88,17 @@ class Region:
     holes: tuple[np.ndarray, ...] = field(default=(), repr=False)
 
     @property
+    def key(self) -> str:
+        """The case key of the region's entry (regions the tool adds itself, such as the
+        soil block of ``[ground]``, have a negative entry and are named after their table)."""
+        return f"regions.{self.entry}" if self.entry >= 0 else "ground"
+
+    @property
+    def label(self) -> str:
+        """``region 'name' (regions.N)`` or ``regions.N``, for messages."""
+        return f"region {self.name!r} ({self.key})" if self.name else self.key
+
+    @property
     def bounds(self) -> tuple[float, float, float, float]:
         """(x0, y0, x1, y1) of the region's bounding box, m."""
         lo = self.vertices.min(axis=0)

@@ -62,7 +62,7 @@ def _describe_part(case: Case, mesh: Mesh, cells: np.ndarray) -> str:
     if mesh.region is not None:
         for k in np.unique(mesh.region[cells]):
             r = case.regions[k]
-            label = r.name or f"regions.{r.entry}"
+            label = r.name or r.key
             if label not in names:
                 names.append(label)
     else:

@@ -35,15 +35,15 @@ def region_area_warnings(case: Case, mesh: Mesh) -> list[str]:
         shape = shapely.union_all([polys[k] for k in ks])
         visible = shape.difference(covering)
         covering = shapely.union_all([covering, shape])
-        message = _area_message(case, case.regions[ks[0]], entry, shape, visible, painted[ks])
+        message = _area_message(case, case.regions[ks[0]], shape, visible, painted[ks])
         if message:
             out.append(message)
     return out[::-1]
 
 
-def _area_message(case, r: Region, entry: int, shape, visible, painted) -> str | None:
+def _area_message(case, r: Region, shape, visible, painted) -> str | None:
     drawn, got = float(visible.area), float(painted.sum())
-    label = f"region {r.name!r} (regions.{entry})" if r.name else f"regions.{entry}"
+    label = r.label
     if drawn <= 1e-9 * max(float(shape.area), 1e-300):
         return (
             f"{label} ({r.material}) is painted over entirely by later regions and gives "
