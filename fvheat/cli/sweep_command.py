@@ -11,6 +11,7 @@ from typing import TYPE_CHECKING
 
 from fvheat.cautions import CAUTION
 from fvheat.errors import CaseError
+from fvheat.output.paths import check_output_file, check_output_folder
 from fvheat.sweep.local_executor import LocalExecutor
 from fvheat.sweep.runner import SweepReport, plan_sweep, run_sweep
 from fvheat.sweep.store import Row
@@ -21,6 +22,8 @@ if TYPE_CHECKING:
 
 #: rows of the end-of-sweep table printed to the terminal (all are in the database)
 SHOWN_ROWS = 40
+#: finished variants with a damaged folder named one per line
+SHOWN_DAMAGED = 10
 #: results shown in that table when the case declares a junction
 JUNCTION_SHOWN = ("psi", "f_Rsi")
 
@@ -46,7 +49,42 @@ def sweep_case(
     quiet: bool,
 ) -> int:
     """Check the sweep (bad arguments raise :class:`CaseError` before anything is written),
-    run the missing variants, export the table; 1 if any variant failed, else 0."""
+    run the missing variants, export the table; 1 if any variant failed, else 0.
+
+    SIGTERM is treated like Ctrl-C (KeyboardInterrupt) from the start, so a sweep stopped
+    while its workers start stops them cleanly too."""
+    with _terminate_as_interrupt():
+        return _sweep(
+            case_file,
+            vary,
+            variants_file,
+            zipped=zipped,
+            fixed=fixed,
+            jobs=jobs,
+            out=out,
+            table=table,
+            retry_failed=retry_failed,
+            plots=plots,
+            scheduler=scheduler,
+            quiet=quiet,
+        )
+
+
+def _sweep(
+    case_file: Path,
+    vary: Sequence[str],
+    variants_file: Path | None,
+    *,
+    zipped: bool,
+    fixed: tuple[str, ...],
+    jobs: int | None,
+    out: Path | None,
+    table: Path | None,
+    retry_failed: bool,
+    plots: bool,
+    scheduler: str | None,
+    quiet: bool,
+) -> int:
     from fvheat.sweep.variants import vary_variants
     from fvheat.sweep.variants_file import read_variants_file
 
@@ -56,16 +94,21 @@ def sweep_case(
         if zipped:
             raise CaseError("--zip pairs --vary lists; a variants file lists variants", key="--zip")
         keys, variants = read_variants_file(variants_file)
+        origin = f"--variants {variants_file}: column"
     else:
         keys, variants = vary_variants(vary, zipped=zipped)
+        origin = "--vary"
     if jobs is not None and jobs < 1:
         raise CaseError(f"must be at least 1, got {jobs}", key="--jobs")
     if table is not None and table.suffix.lower() != ".csv":
         raise CaseError("expected a .csv file name", key=f"--table {table}")
     out = out if out is not None else default_sweep_out(case_file)
+    check_output_folder(out, "--out")
+    if table is not None:
+        check_output_file(table, "--table", made=(out,))
     executor = _executor(scheduler, jobs)  # local workers start warming up now
-    plan = plan_sweep(case_file, fixed, keys, variants, out)
-    with executor, _terminate_as_interrupt(), _progress(quiet) as progress:
+    plan = plan_sweep(case_file, fixed, keys, variants, out, origin=origin)
+    with executor, _progress(quiet) as progress:
         try:
             report = run_sweep(
                 plan,
@@ -91,7 +134,24 @@ def sweep_case(
         write_csv(from_store(plan.database, plan.keys, readonly=False), table)
     if not quiet:
         _print_report(report, plan.database, table, where)
+        print_damaged(report)
     return 1 if report.count("failed") else 0
+
+
+def print_damaged(report: SweepReport) -> None:
+    """One warning line on standard error per finished variant whose folder is missing or
+    damaged (at most :data:`SHOWN_DAMAGED`, then how many more)."""
+    for row, why in report.damaged[:SHOWN_DAMAGED]:
+        print(
+            f"fvheat: warning: {row.output}: {why} (its results are in the database); "
+            "--retry-failed runs it again",
+            file=sys.stderr,
+        )
+    more = len(report.damaged) - SHOWN_DAMAGED
+    if more > 0:
+        print(
+            f"fvheat: warning: {more} more finished variants with damaged folders", file=sys.stderr
+        )
 
 
 def _executor(scheduler: str | None, jobs: int | None) -> LocalExecutor | DaskExecutor:
@@ -104,7 +164,8 @@ def _executor(scheduler: str | None, jobs: int | None) -> LocalExecutor | DaskEx
 
 @contextlib.contextmanager
 def _terminate_as_interrupt() -> Iterator[None]:
-    """Treat SIGTERM like Ctrl-C while the sweep runs, so workers are stopped cleanly."""
+    """Treat SIGTERM like Ctrl-C while the sweep command runs, so workers are stopped
+    cleanly."""
 
     def handler(signum: int, frame: object) -> None:
         raise KeyboardInterrupt
@@ -202,6 +263,14 @@ def _print_report(report: SweepReport, database: Path, table: Path | None, where
         f"{report.count('done')} done, {report.count('failed')} failed, "
         f"{report.count('pending')} pending; ran {report.ran} now on {where}"
     )
+    notes = [
+        (report.recovered, "finished variants taken back from their folders"),
+        (report.repaired, "finished variants with damaged folders run again"),
+        (report.cleaned, "temporary files of stopped runs deleted"),
+    ]
+    for count, what in notes:
+        if count:
+            con.print(f"{count} {what}", markup=False, highlight=False)
     con.print(f"database: {database}" + (f"; table: {table}" if table else ""), markup=False)
     con.print(f"[dim]Caution: {CAUTION}[/dim]")
 

@@ -5,10 +5,21 @@ from __future__ import annotations
 
 import functools
 import os
+import re
 import tempfile
 from collections.abc import Callable
 from pathlib import Path
 from typing import IO
+
+#: the name of the temporary file :func:`atomic_write_file` writes before renaming it: "."
+#: + the target's stem + "." + 8 random characters (:func:`tempfile.mkstemp`) + its suffix
+_TEMPORARY_NAME = re.compile(r"\..+\.[a-z0-9_]{8}(\.[^.]*)?")
+
+
+def is_temporary(name: str) -> bool:
+    """Whether ``name`` is that of a temporary file written by :func:`atomic_write_file`
+    (one is left behind only when the process was killed while writing it)."""
+    return _TEMPORARY_NAME.fullmatch(name) is not None
 
 
 @functools.cache

@@ -11,6 +11,7 @@ import contextlib
 import json
 import os
 import socket
+import tempfile
 import time
 from collections.abc import Iterator
 from pathlib import Path
@@ -21,13 +22,19 @@ LOCK_FILE = ".fvheat-run.lock"
 
 
 def _alive(pid: int) -> bool:
+    """Whether process ``pid`` runs on this host (a zombie, killed but not yet reaped by
+    its parent, does not)."""
     try:
         os.kill(pid, 0)
     except ProcessLookupError:
         return False
     except PermissionError:  # exists, owned by someone else
+        pass
+    try:
+        stat = Path(f"/proc/{pid}/stat").read_text()
+    except OSError:  # no /proc here: trust the signal test
         return True
-    return True
+    return stat.rpartition(")")[2].split()[0] not in ("Z", "X")
 
 
 def _holder(lock: Path) -> dict | None:
@@ -46,25 +53,17 @@ def folder_lock(folder: Path) -> Iterator[None]:
     lock = folder / LOCK_FILE
     me = {"pid": os.getpid(), "host": socket.gethostname(), "started": time.time()}
     for _ in range(3):
-        try:
-            fd = os.open(lock, os.O_CREAT | os.O_EXCL | os.O_WRONLY, 0o644)
-        except FileExistsError:
-            holder = _holder(lock)
-            if holder is not None and _live_elsewhere(holder):
-                raise CaseError(
-                    f"another fvheat run (process {holder.get('pid')} on "
-                    f"{holder.get('host')}) is writing this folder; wait for it or give "
-                    f"another --out (if no run is going on, delete {LOCK_FILE})",
-                    file=str(folder),
-                ) from None
-            if holder is None and time.time() - lock.stat().st_mtime < 5.0:
-                time.sleep(0.5)  # its writer may still be filling it in
-                continue
-            lock.unlink(missing_ok=True)  # stale: its run no longer exists
-            continue
-        with os.fdopen(fd, "w", encoding="utf-8") as fh:
-            json.dump(me, fh)
-        break
+        if _create(lock, json.dumps(me)):
+            break
+        holder = _holder(lock)
+        if holder is not None and _live_elsewhere(holder):
+            raise CaseError(
+                f"another fvheat run (process {holder.get('pid')} on "
+                f"{holder.get('host')}) is writing this folder; wait for it or give "
+                f"another --out (if no run is going on, delete {LOCK_FILE})",
+                file=str(folder),
+            )
+        lock.unlink(missing_ok=True)  # stale: its run no longer exists
     else:
         raise CaseError(f"cannot take the lock {LOCK_FILE} of this folder", file=str(folder))
     try:
@@ -72,6 +71,30 @@ def folder_lock(folder: Path) -> Iterator[None]:
     finally:
         if (_holder(lock) or {}).get("pid") == me["pid"]:
             lock.unlink(missing_ok=True)
+
+
+def _create(lock: Path, text: str) -> bool:
+    """Create ``lock`` holding ``text`` unless it exists; False when it does. The content
+    is written to a temporary file first and linked into place, so a lock is never seen
+    empty (a run killed while taking it leaves no half-written lock)."""
+    fd, name = tempfile.mkstemp(prefix=f"{lock.name}.", dir=lock.parent)
+    tmp = Path(name)  # named like every temporary file of fvheat (files.is_temporary)
+    with os.fdopen(fd, "w", encoding="utf-8") as fh:
+        fh.write(text)
+    try:
+        os.link(tmp, lock)
+    except FileExistsError:
+        return False
+    except OSError:  # a file system without hard links: exclusive create, then write
+        try:
+            fd = os.open(lock, os.O_CREAT | os.O_EXCL | os.O_WRONLY, 0o644)
+        except FileExistsError:
+            return False
+        with os.fdopen(fd, "w", encoding="utf-8") as fh:
+            fh.write(text)
+    finally:
+        tmp.unlink(missing_ok=True)
+    return True
 
 
 def _live_elsewhere(holder: dict) -> bool:

@@ -5,7 +5,9 @@ Modules: :mod:`~fvheat.sweep.variants` (``--vary`` grids and zips),
 :mod:`~fvheat.sweep.variants_file` (CSV / TOML variant lists), :mod:`~fvheat.sweep.store`
 (the SQLite store), :mod:`~fvheat.sweep.worker` (one variant, as ``fvheat run``),
 :mod:`~fvheat.sweep.local_executor` and :mod:`~fvheat.sweep.dask_executor` (where variants
-run), :mod:`~fvheat.sweep.runner` (the coordinator), :mod:`~fvheat.sweep.table` (export)
+run), :mod:`~fvheat.sweep.runner` (the coordinator), :mod:`~fvheat.sweep.identity` (the
+input files' SHA-256), :mod:`~fvheat.sweep.folders` (variant folders on a resume),
+:mod:`~fvheat.sweep.signals` (holding signals back), :mod:`~fvheat.sweep.table` (export)
 and :mod:`~fvheat.sweep.plot` (figures).
 
 From Python::

@@ -7,12 +7,15 @@ system); only the coordinator writes the sweep database.
 
 from __future__ import annotations
 
+import asyncio
 import logging
 import os
+import socket
 from collections.abc import Callable, Iterable, Iterator
 from typing import Any
 
 from fvheat.errors import CaseError
+from fvheat.sweep.signals import signals_deferred
 from fvheat.sweep.worker import Outcome, Task, run_task
 
 log = logging.getLogger(__name__)
@@ -38,10 +41,12 @@ class DaskExecutor:
             raise CaseError(
                 "needs the 'distributed' package: pip install 'fvheat[sweep]'", key=where
             ) from None
+        check_scheduler(self.address)
         try:
             self.client = Client(self.address, timeout=CONNECT_TIMEOUT, set_as_default=False)
-        except (OSError, TimeoutError, ValueError) as err:
-            raise CaseError(f"cannot reach the Dask scheduler: {err}", key=where) from err
+        except Exception as err:  # the checks passed, yet the client could not start
+            reason = _one_line(err)
+            raise CaseError(f"cannot reach the Dask scheduler: {reason}", key=where) from err
         try:
             self.client.wait_for_workers(1, timeout=CONNECT_TIMEOUT)
         except (OSError, TimeoutError) as err:
@@ -86,10 +91,11 @@ class DaskExecutor:
                 task = next(todo, None)
                 if task is None:
                     return
-                dispatched(task)
-                fut = self.client.submit(run_task, task, pure=False, retries=0)
-                running[fut.key] = (fut, task)
-                done_iter.add(fut)
+                with signals_deferred():  # a submitted task is always known, to be cancelled
+                    dispatched(task)
+                    fut = self.client.submit(run_task, task, pure=False, retries=0)
+                    running[fut.key] = (fut, task)
+                    done_iter.add(fut)
 
         try:
             fill()
@@ -105,6 +111,77 @@ class DaskExecutor:
 
     def _threads(self) -> int:
         return int(sum(self.client.nthreads().values()))
+
+
+def check_scheduler(address: str) -> None:
+    """Raise :class:`CaseError` (key ``--scheduler ADDRESS``) unless a Dask scheduler answers
+    at ``address``, within :data:`CONNECT_TIMEOUT` seconds.
+
+    Checked before a client is made: a client that fails to start (nothing listening, a
+    server that is not a scheduler) leaves a half-made object that takes a minute to give
+    up when the program ends, with a traceback. For tcp:// a refused connection is known at
+    once; then the scheduler is asked for its identity (not for tls://, which needs the
+    cluster's certificates)."""
+    from distributed.comm.addressing import parse_address, parse_host_port
+
+    where = f"--scheduler {address}"
+    try:
+        scheme, location = parse_address(address)
+        host_port = parse_host_port(location) if scheme in ("tcp", "tls") else None
+    except ValueError as err:
+        raise CaseError(
+            f"not a scheduler address ({_one_line(err)}); expected e.g. tcp://10.0.0.5:8786",
+            key=where,
+        ) from None
+    if host_port is not None:
+        try:
+            socket.create_connection(host_port, timeout=CONNECT_TIMEOUT).close()
+        except TimeoutError:
+            raise CaseError(
+                f"cannot reach the Dask scheduler: no connection within {CONNECT_TIMEOUT} s",
+                key=where,
+            ) from None
+        except OSError as err:
+            reason = err.strerror or _one_line(err)
+            raise CaseError(f"cannot reach the Dask scheduler: {reason}", key=where) from None
+    if scheme == "tls" or _loop_running():
+        return
+    try:
+        reply = asyncio.run(asyncio.wait_for(_identity(address), CONNECT_TIMEOUT))
+    except TimeoutError:
+        raise CaseError(
+            f"no answer from a Dask scheduler within {CONNECT_TIMEOUT} s", key=where
+        ) from None
+    except Exception as err:  # garbage from a server that is not a scheduler, a bad scheme
+        detail = "" if host_port is not None else f" ({type(err).__name__}: {_one_line(err)})"
+        raise CaseError(f"no Dask scheduler answers there{detail}", key=where) from None
+    if not isinstance(reply, dict) or reply.get("type") != "Scheduler":
+        raise CaseError("the server there is not a Dask scheduler", key=where)
+
+
+async def _identity(address: str) -> Any:
+    """The identity a Dask server at ``address`` gives (a dict with its ``type``)."""
+    from distributed.comm import connect
+
+    comm = await connect(address, timeout=CONNECT_TIMEOUT)
+    try:
+        await comm.write({"op": "identity", "reply": True})
+        return await comm.read()
+    finally:
+        await comm.close()
+
+
+def _loop_running() -> bool:
+    """Whether this thread runs an asyncio loop (a notebook): then no loop of our own."""
+    try:
+        asyncio.get_running_loop()
+    except RuntimeError:
+        return False
+    return True
+
+
+def _one_line(err: object) -> str:
+    return " ".join(str(err).split())
 
 
 def _outcome(fut: Any) -> Outcome:

@@ -13,6 +13,7 @@ from concurrent.futures import FIRST_COMPLETED, Future, ProcessPoolExecutor, wai
 from concurrent.futures.process import BrokenProcessPool
 from multiprocessing.connection import Connection
 
+from fvheat.sweep.signals import signals_deferred
 from fvheat.sweep.worker import Outcome, Task, run_task
 
 log = logging.getLogger(__name__)
@@ -65,8 +66,11 @@ class LocalExecutor:
                     task = next(todo, None)
                     if task is None:
                         break
-                    dispatched(task)
-                    running[pool.submit(run_task, task)] = task
+                    # a signal must not cut a worker's start in half: the pool would not
+                    # know the new process, which then fails noisily after the pool is gone
+                    with signals_deferred():
+                        dispatched(task)
+                        running[pool.submit(run_task, task)] = task
                 if not running:
                     break
                 done, _ = wait(running, return_when=FIRST_COMPLETED)
@@ -129,14 +133,17 @@ def _context() -> multiprocessing.context.BaseContext:
 
 
 def _stop(pool: ProcessPoolExecutor) -> None:
-    """Cancel queued tasks and end the pool's worker processes now."""
+    """End the pool's worker processes now, then cancel queued tasks.
+
+    The workers are ended first: one still starting (reading its queues from the pool)
+    when the pool's queues are released would fail with a traceback on standard error."""
     procs = list((getattr(pool, "_processes", None) or {}).values())
-    pool.shutdown(wait=False, cancel_futures=True)
     for p in procs:
         if p.is_alive():
             p.terminate()
     for p in procs:
         p.join(timeout=5)
+    pool.shutdown(wait=False, cancel_futures=True)
     log.debug("stopped %d worker processes", len(procs))
 
 

@@ -43,6 +43,8 @@ def parse_vary(spec: str) -> tuple[str, list[str]]:
         raise CaseError("expected dotted.path=value1,value2,...", key=where)
     if not path:
         raise CaseError("empty key path before '='", key=where)
+    if not text.strip():
+        raise CaseError("no values after '=': expected dotted.path=value1,value2,...", key=where)
     values = split_values(text)
     if any(not v for v in values):
         raise CaseError(f"empty value in {text.strip()!r} (values are comma-separated)", key=where)

@@ -18,7 +18,8 @@ def read_variants_file(path: str | Path) -> tuple[list[str], list[Variant]]:
 
     CSV: the header names the dotted key paths, each further row is one variant, cells are
     read as in ``--set`` (an empty cell leaves that key as the case file has it; rows whose
-    first cell starts with ``#`` are comments). TOML: each ``[[variant]]`` table is one
+    first cell starts with ``#`` are comments). A UTF-8 byte-order mark, as spreadsheet
+    programs write one, is skipped. TOML: each ``[[variant]]`` table is one
     variant; its keys are dotted key paths (``"materials.wool.conductivity" = 0.035``, or
     written as nested tables). Raises :class:`CaseError` naming the file.
     """
@@ -27,7 +28,7 @@ def read_variants_file(path: str | Path) -> tuple[list[str], list[Variant]]:
     if suffix not in (".csv", ".toml"):
         raise CaseError("expected a .csv or .toml variants file", file=str(path))
     try:
-        text = path.read_text(encoding="utf-8")
+        text = path.read_text(encoding="utf-8-sig")  # a byte-order mark (as Excel saves) is skipped
     except FileNotFoundError:
         raise CaseError("variants file not found", file=str(path)) from None
     except (OSError, UnicodeDecodeError) as err:

@@ -31,33 +31,41 @@ class Task:
 @dataclass(frozen=True)
 class Outcome:
     """``status`` "done" (with ``results``) or "failed" (with a one-line ``message``);
-    ``seconds`` is the wall time the worker spent."""
+    ``seconds`` is the wall time the worker spent; ``inputs`` the SHA-256 of every file the
+    variant's case read besides the case file (:func:`fvheat.sweep.identity.input_hashes`)."""
 
     status: str
     message: str | None = None
     results: dict[str, float] = field(default_factory=dict)
     seconds: float = 0.0
+    inputs: dict[str, str] = field(default_factory=dict)
 
 
 def run_task(task: Task) -> Outcome:
     """Run one variant exactly as ``fvheat run CASE --set ... --out DIR --quiet --no-plots``
     (or with figures, when ``task.plots``) does and return its main results; any error
-    becomes a failed :class:`Outcome`, never an exception."""
+    becomes a failed :class:`Outcome`, never an exception. A finished variant's folder
+    gets its marker (:mod:`fvheat.sweep.folders`) last."""
     from fvheat.run import run_to_folder  # the very pipeline ``fvheat run`` calls
+    from fvheat.sweep.folders import clear_marker, write_marker
+    from fvheat.sweep.identity import input_hashes
 
     t0 = time.perf_counter()
+    out = Path(task.out)
     try:
-        _, summary = run_to_folder(
-            Path(task.case_file), Path(task.out), task.overrides, plots=task.plots
-        )
+        clear_marker(out)
+        study, summary = run_to_folder(Path(task.case_file), out, task.overrides, plots=task.plots)
         results = main_results(summary)
+        inputs = input_hashes(study.solution.case)
+        outcome = Outcome("done", None, results, time.perf_counter() - t0, inputs)
+        write_marker(out, task.overrides, summary.get("case_sha256"), outcome)
     except FvheatError as err:
         return Outcome("failed", _one_line(str(err)), seconds=time.perf_counter() - t0)
     except Exception as err:  # a bug or a resource problem: record it, keep sweeping
         log.debug("variant %d failed:\n%s", task.id, traceback.format_exc())
         message = f"{type(err).__name__}: {_one_line(str(err))}"
         return Outcome("failed", message, seconds=time.perf_counter() - t0)
-    return Outcome("done", None, results, time.perf_counter() - t0)
+    return outcome
 
 
 def _one_line(text: str) -> str:

@@ -37,7 +37,7 @@ def test_out_under_a_file(tmp_path, capsys):
     (tmp_path / "f").write_text("x")
     assert run(BALCONY, tmp_path / "f" / "results") == 2
     err = capsys.readouterr().err
-    assert "cannot be created" in err and "is a file" in err
+    assert "lies under" in err and "which is a file, not a folder" in err
     assert sorted(os.listdir(tmp_path)) == ["f"]
 
 
@@ -48,7 +48,7 @@ def test_out_not_writable(tmp_path, capsys):
     locked.chmod(0o555)
     try:
         assert run(BALCONY, locked / "results") == 2
-        assert "no write permission" in capsys.readouterr().err
+        assert "not writable (no permission)" in capsys.readouterr().err
     finally:
         locked.chmod(0o755)
 

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import json
 import sqlite3
 
 import pytest
@@ -60,12 +61,37 @@ def test_readonly_store_cannot_write(tmp_path):
         store.add([A])
     with SweepStore(path, readonly=True) as store:
         assert len(store.rows()) == 1
-        with pytest.raises(sqlite3.OperationalError, match="readonly"):
+        with pytest.raises(CaseError, match=r"sweep database error: .*readonly"):
             store.add([B])
 
 
 def test_not_a_database_is_bad_input(tmp_path):
     junk = tmp_path / "sweep.sqlite"
     junk.write_text("not sqlite at all, just text " * 20, encoding="utf-8")
-    with pytest.raises(CaseError, match="not a sweep database"):
+    with pytest.raises(CaseError, match=r"damaged sweep database \(file is not a database\)"):
         SweepStore(junk, readonly=True)
+
+
+def test_a_database_of_an_older_version_gains_the_inputs_column(tmp_path):
+    path = tmp_path / "sweep.sqlite"
+    with sqlite3.connect(path) as con:  # the schema before input files were recorded
+        con.executescript(
+            "CREATE TABLE meta (name TEXT PRIMARY KEY, value TEXT NOT NULL);"
+            "CREATE TABLE variants (id INTEGER PRIMARY KEY AUTOINCREMENT, key TEXT NOT NULL "
+            "UNIQUE, params TEXT NOT NULL, status TEXT NOT NULL DEFAULT 'pending', message "
+            "TEXT, results TEXT, output TEXT NOT NULL DEFAULT '', started TEXT, finished "
+            "TEXT, attempts INTEGER NOT NULL DEFAULT 0, seconds REAL);"
+            "INSERT INTO meta VALUES ('case_sha256', 'abc'), ('fixed_overrides', '[]');"
+            "INSERT INTO variants (key, params, output) "
+            """VALUES ('{"k":1.0}', '{"k": "1"}', 'v1');"""
+        )
+    con.close()
+    with SweepStore(path, readonly=True) as store:  # read as it is
+        assert store.rows()[0].inputs == {}
+    with SweepStore(path) as store:
+        store.claim("/x/case.toml", "abc", [], "title", {"weather.csv": "f00"})
+        assert json.loads(store.meta()["inputs"]) == {"weather.csv": "f00"}  # recorded now
+        store.record(1, Outcome("done", None, {"psi": 0.2}, 1.0, {"weather.csv": "f00"}))
+        assert store.row(1).inputs == {"weather.csv": "f00"}
+    with SweepStore(path) as store, pytest.raises(CaseError, match=r"weather\.csv changed since"):
+        store.claim("/x/case.toml", "abc", [], "title", {"weather.csv": "bad"})

@@ -8,12 +8,14 @@ import signal
 import sqlite3
 import subprocess
 import sys
+import tempfile
 import time
 from pathlib import Path
 
 import pytest
 
 from fvheat.cli.main import main
+from fvheat.output.files import atomic_write_file, is_temporary
 from fvheat.sweep.store import SweepStore
 
 from .conftest import CASE, SLAB
@@ -111,3 +113,112 @@ def test_killed_sweep_resumes_without_recomputing(tmp_path, sig):
             assert (out / r.output / "summary.json").stat().st_mtime_ns == stamps[r.id]
         else:
             assert r.attempts >= 1 and r.finished is not None
+
+
+def wait_for_file(path: Path, proc: subprocess.Popen, timeout: float = 120) -> None:
+    deadline = time.monotonic() + timeout
+    while not path.exists():
+        assert proc.poll() is None, "the sweep ended before creating its database"
+        assert time.monotonic() < deadline, f"no {path.name} within {timeout} s"
+        time.sleep(0.005)
+
+
+#: when SIGTERM is sent: seconds after the database appears (the coordinator is then about
+#: to start its workers), or after the start ("start+s": Python still starting, workers
+#: starting or running; which one depends on the machine's load, so several are tried)
+SIGTERM_MOMENTS = ["db+0", "db+0.03", "db+0.1", "db+0.25", "start+0.3", "start+1.0"]
+
+
+@pytest.mark.parametrize("moment", SIGTERM_MOMENTS, ids=str)
+def test_sigterm_while_workers_start_prints_no_traceback(tmp_path, moment):
+    out = tmp_path / "sweep"
+    proc = subprocess.Popen(
+        [sys.executable, "-m", "fvheat", *ARGS[:-3], "--jobs", "2", "-q", "-o", str(out)],
+        stdout=subprocess.DEVNULL,
+        stderr=subprocess.PIPE,
+        text=True,
+        start_new_session=True,
+    )
+    try:
+        after, _, delay = moment.partition("+")
+        if after == "db":
+            wait_for_file(out / "sweep.sqlite", proc)
+        time.sleep(float(delay))
+        proc.send_signal(signal.SIGTERM)
+        _, err = proc.communicate(timeout=60)
+    finally:
+        if proc.poll() is None:
+            proc.kill()
+            proc.wait()
+    assert "Traceback" not in err, err
+    # README: 130 as for Ctrl-C; ended by the signal itself if it came while Python was
+    # still loading fvheat (0 only if the whole sweep finished first)
+    assert proc.returncode in (130, -signal.SIGTERM, 0), err
+    if proc.returncode == 130:
+        assert err.strip().endswith("fvheat: interrupted; files already written are complete")
+    if os.path.isdir("/proc"):  # no worker outlives the coordinator
+        deadline = time.monotonic() + 20
+        while session_members(proc.pid) and time.monotonic() < deadline:
+            time.sleep(0.2)
+        assert session_members(proc.pid) == []
+
+
+def temporary_files(folder: Path) -> list[Path]:
+    return sorted(p for p in folder.rglob("*") if p.is_file() and is_temporary(p.name))
+
+
+def test_temporary_names_are_those_atomic_writes_use(tmp_path):
+    seen = []
+    for name in ("summary.json", "cells.csv", "temperature.vtu", "README", "a.b.c.md"):
+        atomic_write_file(tmp_path / name, lambda tmp: (seen.append(tmp), tmp.write_text("x")))
+    assert len(seen) == 5 and all(is_temporary(p.name) for p in seen)
+    assert not any(is_temporary(p.name) for p in tmp_path.iterdir())  # the renamed outputs
+    assert not any(is_temporary(n) for n in (".gitignore", ".hidden.csv", "x.abcdefgh.csv"))
+
+
+def test_sigkill_of_the_process_group_leaves_no_temporary_files_after_a_resume(tmp_path):
+    out = tmp_path / "sweep"
+    proc = subprocess.Popen(
+        [sys.executable, "-m", "fvheat", *ARGS[:-3], "--jobs", "2", "-q", "-o", str(out)],
+        stdout=subprocess.DEVNULL,
+        stderr=subprocess.DEVNULL,
+        start_new_session=True,
+    )
+    try:
+        # kill the moment a worker is seen writing a file (or, should every write be
+        # missed, once a variant is done: the kill then still cuts runs short)
+        deadline = time.monotonic() + 120
+        while not temporary_files(out) and count_done(out / "sweep.sqlite") < 1:
+            assert proc.poll() is None, "the sweep ended before it could be killed"
+            assert time.monotonic() < deadline, "no variant finished within 120 s"
+            time.sleep(0.001)
+        os.killpg(proc.pid, signal.SIGKILL)
+        proc.wait(timeout=60)
+    finally:
+        if proc.poll() is None:
+            proc.kill()
+            proc.wait()
+    with SweepStore(out / "sweep.sqlite", readonly=True) as store:
+        killed = store.rows()
+    unfinished = [r for r in killed if r.status != "done"]
+    assert unfinished, "the kill must come mid-sweep"
+    left = temporary_files(out)
+    if not left:
+        # the kill missed every write: leave what a writer killed mid-write leaves
+        fd, _ = tempfile.mkstemp(prefix=".cells.", suffix=".csv", dir=out / unfinished[0].output)
+        os.close(fd)
+        left = temporary_files(out)
+    assert all(p.relative_to(out).parts[0].startswith("v0") for p in left), left
+    # temporary-looking files that are not in a variant folder are not the sweep's
+    foreign = [out / ".notes.abcd1234.txt", out / "mine" / ".cells.abcd1234.csv"]
+    for path in foreign:
+        path.parent.mkdir(exist_ok=True)
+        path.write_text("kept\n", encoding="utf-8")
+
+    assert main([*ARGS, "-o", str(out)]) == 0
+
+    with SweepStore(out / "sweep.sqlite", readonly=True) as store:
+        final = store.rows()
+    assert len(final) == 6 and all(r.status == "done" for r in final)
+    assert [p for p in temporary_files(out) if p not in foreign] == []
+    assert all(p.read_text(encoding="utf-8") == "kept\n" for p in foreign)

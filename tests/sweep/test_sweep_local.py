@@ -123,6 +123,9 @@ def test_failed_variant_is_recorded_and_the_others_complete(tmp_path, capsys):
             "both varied and fixed",
         ),
         (["--vary", f"{SLAB}=1", "--jobs", "0"], "--jobs: must be at least 1"),
+        (["--vary", f"{SLAB}=1", "--jobs", "-3"], "--jobs: must be at least 1, got -3"),
+        (["--vary", f"{SLAB}="], f"--vary {SLAB}: no values after '='"),
+        (["--vary", f"{SLAB}=1.6,"], f"--vary {SLAB}: empty value"),
         ([], "give at least one --vary"),
     ],
 )
@@ -155,3 +158,38 @@ def test_a_case_completed_by_the_varied_keys_is_a_valid_sweep(tmp_path, capsys):
     assert main(["sweep", str(CASE), *bad, *fixed, "-o", str(tmp_path / "bad")]) == 2
     assert "unknown material 'breaker'" in capsys.readouterr().err
     assert not (tmp_path / "bad").exists()
+
+
+@pytest.mark.parametrize(
+    ("text", "message"),
+    [
+        ("", "v.csv: empty: expected a header row of dotted key paths"),
+        (f"{SLAB}\n# no rows, only a comment\n", "v.csv: lists no variants"),
+        (f"{SLAB},{INSULATION}\n1.6\n", "v.csv: line 2: 1 cells, the header has 2"),
+        (f"{SLAB},\n1.6,\n", "v.csv: line 1: header column 2 is empty"),
+        (
+            "materials.slab.conductivty\n1.6\n",
+            "--variants {v}: column materials.slab.conductivty: unknown key (did you mean",
+        ),
+    ],
+    ids=["empty", "no-rows", "short-row", "unnamed-column", "misspelt-column"],
+)
+def test_bad_variants_files_exit_2_before_anything_is_written(tmp_path, capsys, text, message):
+    variants = tmp_path / "v.csv"
+    variants.write_text(text, encoding="utf-8")
+    out = tmp_path / "sweep"
+    assert main(["sweep", str(CASE), "--variants", str(variants), "-o", str(out)]) == 2
+    err = capsys.readouterr().err.strip()
+    assert err.startswith("fvheat: error: ") and "\n" not in err
+    assert message.format(v=variants) in err
+    assert not out.exists()
+
+
+def test_repeated_variant_rows_run_once(tmp_path):
+    variants = tmp_path / "v.csv"
+    variants.write_text(f"{SLAB}\n1.6\n2.0\n1.60\n1.6\n", encoding="utf-8")
+    out = tmp_path / "sweep"
+    assert (
+        main(["sweep", str(CASE), "--variants", str(variants), *COARSE, "-o", str(out), "-q"]) == 0
+    )
+    assert [(r.params, r.attempts) for r in stored(out)] == [({SLAB: "1.6"}, 1), ({SLAB: "2.0"}, 1)]

@@ -39,7 +39,14 @@ def test_commas_inside_arrays_tables_and_quotes_do_not_split():
 
 @pytest.mark.parametrize(
     ("spec", "message"),
-    [("a.b", "expected dotted.path=value1"), ("=1,2", "empty key"), ("a=1,,2", "empty value")],
+    [
+        ("a.b", "expected dotted.path=value1"),
+        ("=1,2", "empty key"),
+        ("a=1,,2", "empty value"),
+        ("a=", "a: no values after '='"),
+        ("a= ", "a: no values after '='"),
+        ("a=1,", "empty value"),
+    ],
 )
 def test_bad_vary_specs_name_the_argument(spec, message):
     with pytest.raises(CaseError, match=message) as info:
@@ -106,3 +113,17 @@ def test_variants_file_errors_name_the_file_and_line(tmp_path):
         read_variants_file(tmp_path / "v.json")
     with pytest.raises(CaseError, match="not found"):
         read_variants_file(tmp_path / "missing.csv")
+
+
+def test_a_variants_file_with_a_byte_order_mark_reads_as_without(tmp_path):
+    # spreadsheet programs save "CSV UTF-8" with a byte-order mark before the header
+    text = "materials.slab.conductivity,regions.3.material\n2.3,slab\n1.6,thermal_break\n"
+    plain, marked = tmp_path / "plain.csv", tmp_path / "marked.csv"
+    plain.write_text(text, encoding="utf-8")
+    marked.write_bytes(b"\xef\xbb\xbf" + text.encode("utf-8"))
+    keys, variants = read_variants_file(marked)
+    assert keys[0] == "materials.slab.conductivity"  # no "\ufeff" in front of the first key
+    assert (keys, variants) == read_variants_file(plain)
+    toml_file = tmp_path / "marked.toml"
+    toml_file.write_bytes(b'\xef\xbb\xbf[[variant]]\n"materials.slab.conductivity" = 2.3\n')
+    assert read_variants_file(toml_file)[0] == ["materials.slab.conductivity"]
