@@ -18,7 +18,7 @@ import pytest
 
 from fvheat.case.load import load_case
 from fvheat.mesh.rectilinear import build_mesh
-from fvheat.study import GRID_CHECK_LIMIT, GRID_CHECK_REFINE, run_study
+from fvheat.study import GRID_CHECK_LIMIT, GRID_CHECK_REFINE, GridCheck, run_study
 
 from .helpers import study
 
@@ -141,3 +141,33 @@ def test_cutoff_not_checked_without_centre(tmp_path):
     """No centre: the check cannot run, and says so."""
     j = study(tmp_path, plane_wall_toml("")).junction
     assert any("not checked" in w and "junction.centre" in w for w in j.warnings)
+
+
+def test_grid_check_names_a_junction_quantity_that_moves():
+    """Σ|Φ| may pass the 1 % rule (ISO 10211, from memory) while ψ, a small difference of
+    large flows, moves by more than the step it is quoted to: the check says so.
+    Thresholds: more than 1 % of the value and more than 0.005 (half the 0.01 step ψ, U_f
+    and f_Rsi are usually quoted to: common practice)."""
+    g = GridCheck(
+        cells=100,
+        cells_refined=400,
+        total=100.0,
+        total_refined=100.5,  # 0.5 %: passes
+        quantities={"psi": (0.100, 0.110), "L2D": (1.000, 1.004), "f_Rsi": (0.700, 0.7049)},
+    )
+    assert g.passed
+    (w,) = g.warnings  # L2D moves 0.4 %, f_Rsi 0.0049: neither named
+    assert w.startswith("grid check: psi changes from 0.1 to 0.11 ") and "passes" in w
+    # 0.004 on ψ = 0.1 is 4 % but below the quoted step: not named
+    assert GridCheck(1, 4, 1.0, 1.0, {"psi": (0.100, 0.104)}).warnings == []
+    # 0.02 on U_f = 3 is above the step but only 0.7 %: not named
+    assert GridCheck(1, 4, 1.0, 1.0, {"U_f": (3.00, 3.02)}).warnings == []
+
+
+def test_grid_check_warnings_reach_the_study():
+    """A study lists the grid check's warnings with the others; the demo balcony has none."""
+    s = run_study(load_case(CASES / "balcony_slab.toml"), check_grid=True)
+    assert s.grid is not None and s.grid.warnings == []
+    assert not any(w.startswith("grid check:") for w in s.all_warnings)
+    s.grid = GridCheck(1, 4, 1.0, 1.0, {"psi": (0.100, 0.110)})
+    assert s.grid.warnings[0] in s.all_warnings
