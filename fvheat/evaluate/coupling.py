@@ -166,7 +166,7 @@ def coupling_coefficients(case: Case, system: System) -> CouplingResult:
         temp = solver.solve(unit.sources(0.0))
         ts, flux, _ = unit.surface.surface_state(temp, 0.0)
         per_boundary = np.bincount(surf.bid, weights=flux, minlength=len(bounds))
-        mine = env_of >= 0
+        mine: np.ndarray = env_of >= 0
         flows[:, jj] = np.bincount(env_of[mine], weights=per_boundary[mine], minlength=n)
         point_values.append(surface_points(system.mesh, unit.surface, ts).temperature)
     matrix = -flows

@@ -41,6 +41,7 @@ def build_mesh(case: Case, refine: float = 1.0) -> Mesh:
     material = np.array([names.index(r.material) for r in case.regions], dtype=np.int32)
     mat = np.where(owner >= 0, material[owner], -1).astype(np.int32)
     mesh = faces_from_grid(x, y, mat, names, tuple(b.name for b in case.boundaries))
+    assert mesh.grid is not None
     mesh = replace(mesh, region=owner[mesh.grid.cell_index >= 0])
     mesh = attach_boundaries(case, mesh)
     check_probes(case, mesh)

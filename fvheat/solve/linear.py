@@ -87,7 +87,7 @@ class DirectSolver:
 
     kind: Kind = "direct"
 
-    def __init__(self, a: sp.spmatrix):
+    def __init__(self, a: sp.csr_matrix):
         self._lu = spla.splu(
             sp.csc_matrix(a), permc_spec="MMD_AT_PLUS_A", options={"SymmetricMode": True}
         )
@@ -107,7 +107,7 @@ class AmgSolver:
 
     kind: Kind = "amg"
 
-    def __init__(self, a: sp.spmatrix, *, tolerance: float = 1e-10, max_iterations: int = 200):
+    def __init__(self, a: sp.csr_matrix, *, tolerance: float = 1e-10, max_iterations: int = 200):
         import pyamg
 
         self.a = sp.csr_matrix(a)
@@ -185,7 +185,7 @@ def v_cycle(ml) -> spla.LinearOperator:
 
 
 def make_solver(
-    a: sp.spmatrix, method: SolverChoice = "auto", *, repeated: bool = False
+    a: sp.csr_matrix, method: SolverChoice = "auto", *, repeated: bool = False
 ) -> DirectSolver | AmgSolver:
     """A solver for matrix ``a`` chosen by :func:`choose_method`.
 

@@ -11,7 +11,7 @@ import asyncio
 import logging
 import os
 import socket
-from collections.abc import Callable, Iterable, Iterator
+from collections.abc import Callable, Generator, Iterable
 from typing import Any
 
 from fvheat.errors import CaseError
@@ -76,7 +76,7 @@ class DaskExecutor:
 
     def run(
         self, tasks: Iterable[Task], dispatched: Callable[[Task], None]
-    ) -> Iterator[tuple[Task, Outcome]]:
+    ) -> Generator[tuple[Task, Outcome], None, None]:
         """Submit ``tasks`` (calling ``dispatched(task)`` just before each) and yield
         ``(task, outcome)`` as they finish; closing the iterator early cancels the rest."""
         from distributed import as_completed

@@ -21,7 +21,7 @@ from __future__ import annotations
 import contextlib
 import logging
 import re
-from collections.abc import Callable, Iterable, Iterator, Sequence
+from collections.abc import Callable, Generator, Iterable, Iterator, Sequence
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Protocol
@@ -48,7 +48,7 @@ class Executor(Protocol):
 
     def run(
         self, tasks: Iterable[Task], dispatched: Callable[[Task], None]
-    ) -> Iterator[tuple[Task, Outcome]]: ...
+    ) -> Generator[tuple[Task, Outcome], None, None]: ...
 
 
 @dataclass(frozen=True)
@@ -107,11 +107,12 @@ def plan_sweep(
     come from in messages (``"--vary"``, or ``"--variants FILE: column"``)."""
     case_path = Path(case_file)
     try:
-        case = load_case(case_path, tuple(fixed))
+        case: Case | None = load_case(case_path, tuple(fixed))
     except CaseError:
         case = _first_valid(case_path, tuple(fixed), variants)
         if case is None:
             raise
+    assert case is not None
     fixed_keys = {o.partition("=")[0].strip() for o in fixed}
     for key in keys:
         if key in fixed_keys:

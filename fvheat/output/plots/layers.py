@@ -160,8 +160,8 @@ def draw_outlines(ax, view: GeometryView, *, colour: str = style.OUTLINE_COLOUR)
     x, y = view.grid.x, view.grid.y
     inner = merge_segments(_edges(mat, x, y, "interface"))
     outer = merge_segments(_edges(mat, x, y, "outline"))
-    ax.add_collection(LineCollection(inner, colors=colour, linewidths=0.35, alpha=0.8))
-    ax.add_collection(LineCollection(outer, colors=colour, linewidths=0.7))
+    ax.add_collection(LineCollection(list(inner), colors=colour, linewidths=0.35, alpha=0.8))
+    ax.add_collection(LineCollection(list(outer), colors=colour, linewidths=0.7))
 
 
 def draw_boundaries(
@@ -186,7 +186,7 @@ def draw_boundaries(
         colour = style.BOUNDARY_COLOURS[k % len(style.BOUNDARY_COLOURS)]
         ax.add_collection(
             LineCollection(
-                merge_segments(view.face_ends[sel]),
+                list(merge_segments(view.face_ends[sel])),
                 colors=colour,
                 linewidths=width,
                 capstyle="projecting",
@@ -198,7 +198,7 @@ def draw_boundaries(
     if (view.face_boundary < 0).any():
         ax.add_collection(
             LineCollection(
-                merge_segments(view.face_ends[view.face_boundary < 0]),
+                list(merge_segments(view.face_ends[view.face_boundary < 0])),
                 colors=style.ADIABATIC_COLOUR,
                 linewidths=width * 0.5,
                 linestyles=(0, (2, 1.5)),
@@ -225,7 +225,7 @@ def isotherm_levels(lo: float, hi: float, n: int = 10) -> np.ndarray:
 
     if not hi > lo:
         return np.array([])
-    levels = MaxNLocator(nbins=n, steps=[1, 2, 2.5, 5, 10]).tick_values(lo, hi)
+    levels = np.asarray(MaxNLocator(nbins=n, steps=[1, 2, 2.5, 5, 10]).tick_values(lo, hi))
     return levels[(levels > lo) & (levels < hi)]
 
 

@@ -27,7 +27,9 @@ def mesh_figure(view: GeometryView, *, title: str = "", zoom: layers.Window | No
         layers.draw_cells(ax, view, view.material, cmap=cmap, norm=norm)
         ax.add_collection(
             LineCollection(
-                layers.cell_edges(view), colors="#3c3c3c", linewidths=edge_width(fig, view, window)
+                list(layers.cell_edges(view)),
+                colors="#3c3c3c",
+                linewidths=edge_width(fig, view, window),
             )
         )
         layers.draw_outlines(ax, view)

@@ -7,10 +7,12 @@ state), rendered with Agg, so plotting works headless and inside other programs.
 from __future__ import annotations
 
 import io
+from collections.abc import Iterator
 from contextlib import contextmanager
 from pathlib import Path
+from typing import Any
 
-from fvheat.output.files import atomic_write
+from fvheat.output.files import atomic_write_bytes
 
 #: width of the text block of an A4 page with 20 mm margins, inches
 PAGE_WIDTH = 6.7
@@ -53,7 +55,7 @@ OUTLINE_COLOUR = "#262626"
 COLDEST_COLOUR = "#ff2bd6"
 LINE_COLOURS = ("#1d7874", "#c8553d", "#6a4c93", "#e07a1f", "#3a5a80", "#7f8c2a", "#b23a6f")
 
-RC = {
+RC: dict[Any, Any] = {
     "font.size": 8.0,
     "axes.titlesize": 9.0,
     "axes.labelsize": 8.0,
@@ -80,7 +82,7 @@ RC = {
 
 
 @contextmanager
-def style():
+def style() -> Iterator[None]:
     """Context in which fvheat figures are built (fonts, spines, colours)."""
     import matplotlib
 
@@ -177,9 +179,5 @@ def save(fig, path: str | Path, *, vector: bool = True) -> list[Path]:
         buf = io.BytesIO()
         with style():  # the same settings when drawing (e.g. the SVG's fixed id salt)
             fig.savefig(buf, format=suffix[1:], **opts)
-        out.append(
-            atomic_write(
-                path.with_suffix(suffix), lambda fh, b=buf: fh.write(b.getvalue()), binary=True
-            )
-        )
+        out.append(atomic_write_bytes(path.with_suffix(suffix), buf.getvalue()))
     return out

@@ -18,7 +18,7 @@ def time_axis(times: np.ndarray) -> tuple[np.ndarray, str, float]:
     span = float(np.ptp(times)) if np.size(times) else 0.0
     if span <= 4 * 86400:
         hours = span / 3600
-        step = next((s for s in HOUR_STEPS if hours / s <= 12), 24)
+        step: float = next((s for s in HOUR_STEPS if hours / s <= 12), 24)
         return np.asarray(times) / 3600, "time (h)", float(step)
     days = span / 86400
     step = max(1.0, float(np.ceil(days / 12)))
