@@ -45,9 +45,11 @@ class GridCheck:
 
     @property
     def passed(self) -> bool:
+        """Whether Σ|Φ| changes less than the limit (1 %, ISO 10211)."""
         return self.change < GRID_CHECK_LIMIT
 
     def as_dict(self) -> dict[str, Any]:
+        """The grid check as a JSON-ready dict (W/m; change as a fraction)."""
         return {
             "cells": self.cells,
             "cells_refined": self.cells_refined,

@@ -121,6 +121,7 @@ def _library_entry(value: Any, path: str) -> LibraryMaterial:
 
 
 def library_material(entry: LibraryMaterial) -> Material:
+    """A case material from a library entry (λ W/(m·K), ρ kg/m³, c J/(kg·K), ε)."""
     return Material(
         name=entry.name,
         conductivity=entry.conductivity,

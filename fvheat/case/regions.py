@@ -33,6 +33,7 @@ from fvheat.properties.library import UnknownMaterialError, lookup
 
 
 def parse_regions(value: Any, ctx: Context) -> tuple[Region, ...]:
+    """Validate the ``[[regions]]`` entries; at least one is required."""
     if value is None:
         raise Invalid("regions", "required: at least one [[regions]] entry")
     entries = tables(value, "regions")

@@ -29,6 +29,7 @@ DEFAULT_SAVES = 100
 
 
 def parse_time(value: Any, ctx: Context) -> TimeSettings | None:
+    """Validate the ``[time]`` table (durations in s); None (steady) when absent."""
     if value is None:
         return None
     path = "time"

@@ -111,9 +111,11 @@ class Assembler:
         self.unit = unit
 
     def fail(self, message: str, entity: str | None) -> DrawingError:
+        """A :class:`DrawingError` naming the file, the layer and ``entity``."""
         return DrawingError(message, file=self.file, layer=self.layer.name, entity=entity)
 
     def at(self, p: np.ndarray | tuple[float, float]) -> str:
+        """The point ``p`` for messages, in drawing units."""
         return f"({p[0]:.6g}, {p[1]:.6g}) {self.unit}"
 
     def snapped(self, curves: list[Curve]) -> list[Curve]:

@@ -55,6 +55,7 @@ class WeightedPoint:
     g: tuple[float, ...]
 
     def as_dict(self) -> dict[str, Any]:
+        """The point as a JSON-ready dict (°C, m, weighting factors g)."""
         return {
             "environment": self.environment,
             "boundary": self.boundary,
@@ -87,6 +88,7 @@ class CouplingResult:
         return off @ np.ones_like(t) * t - off @ t
 
     def as_dict(self) -> dict[str, Any]:
+        """The coupling coefficients L (W/(m·K)) as a JSON-ready dict."""
         return {
             "environments": list(self.environments),
             "L": self.matrix.tolist(),

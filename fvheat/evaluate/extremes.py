@@ -71,6 +71,7 @@ class RunExtremes:
     def start(
         cls, case: Case, system: System, model: EnthalpyModel, lines: FrontLines
     ) -> RunExtremes:
+        """Empty extremes for the surfaces, probe lines and f_Rsi sides of ``case``."""
         s = system.surface
         names = [b.name for b in s.boundaries]
         points = SurfacePointMap.build(system.mesh, s)

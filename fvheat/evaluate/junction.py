@@ -50,6 +50,7 @@ class FlankingResult:
         return self.u_from or ("layers" if self.cut is not None else "given")
 
     def as_dict(self) -> dict[str, Any]:
+        """The flanking element as a JSON-ready dict (U W/(m²·K), lengths m)."""
         out: dict[str, Any] = {"name": self.name, "u_value": self.u_value, "length": self.length}
         out["lengths"] = dict(self.lengths or {})
         if self.cut is not None:
@@ -101,9 +102,11 @@ class JunctionResult:
 
     @property
     def f_rsi_pass(self) -> bool | None:
+        """Whether f_Rsi reaches the limit; None without a limit."""
         return None if self.f_rsi_limit is None else bool(self.f_rsi >= self.f_rsi_limit)
 
     def as_dict(self) -> dict[str, Any]:
+        """The junction result as a JSON-ready dict (L2D, ψ W/(m·K); θ °C)."""
         out: dict[str, Any] = {
             "L2D": self.l2d,
             "psi": self.psi,

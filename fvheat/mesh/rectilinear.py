@@ -366,7 +366,9 @@ def face_reach(mesh: Mesh) -> np.ndarray:
     return 0.5 * np.hypot(dx[cols], dy[rows])
 
 
-def segment_faces(mesh: Mesh, seg, reach: np.ndarray) -> tuple[np.ndarray, np.ndarray, float]:
+def segment_faces(
+    mesh: Mesh, seg: tuple[tuple[float, float], tuple[float, float]], reach: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, float]:
     """The exterior faces on segment ``seg`` ((x0, y0), (x1, y1)) m, their exchange
     fractions, and the fraction of the segment's length they cover (1 when the segment
     lies on the body's outline over its whole length).

@@ -21,7 +21,7 @@ import logging
 from collections.abc import Iterator
 from contextlib import contextmanager
 from dataclasses import replace
-from typing import Literal, Protocol
+from typing import TYPE_CHECKING, Literal, Protocol
 
 import numpy as np
 import scipy.sparse as sp
@@ -29,6 +29,9 @@ import scipy.sparse.linalg as spla
 
 from fvheat.case.model import SolverMethod, SolverSettings
 from fvheat.errors import ConvergenceError
+
+if TYPE_CHECKING:
+    from pyamg.multilevel import MultilevelSolver
 
 log = logging.getLogger(__name__)
 
@@ -63,7 +66,9 @@ def choose_method(n: int, choice: SolverChoice = "auto", *, repeated: bool = Fal
 class LinearSolver(Protocol):
     """Solves A·x = b for a fixed matrix A."""
 
-    def solve(self, b: np.ndarray) -> np.ndarray: ...
+    def solve(self, b: np.ndarray) -> np.ndarray:
+        """x for the right-hand side ``b`` (units of the system)."""
+        ...
 
 
 _controller = None
@@ -93,6 +98,7 @@ class DirectSolver:
         )
 
     def solve(self, b: np.ndarray) -> np.ndarray:
+        """x for the right-hand side ``b`` from the factorisation."""
         return self._lu.solve(b)
 
 
@@ -132,6 +138,7 @@ class AmgSolver:
         return s
 
     def solve(self, b: np.ndarray, x0: np.ndarray | None = None) -> np.ndarray:
+        """x for the right-hand side ``b`` by AMG-preconditioned CG from ``x0``."""
         count = 0
 
         def counter(_: np.ndarray) -> None:
@@ -162,7 +169,7 @@ class AmgSolver:
         return x
 
 
-def v_cycle(ml) -> spla.LinearOperator:
+def v_cycle(ml: MultilevelSolver) -> spla.LinearOperator:
     """One V-cycle of the pyamg hierarchy ``ml`` from a zero guess, as a preconditioner.
 
     The same cycle as ``ml.aspreconditioner("V")`` without the two residual norms on the

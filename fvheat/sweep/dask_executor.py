@@ -60,6 +60,7 @@ class DaskExecutor:
             self.client = None
 
     def describe(self) -> str:
+        """One line naming the cluster and its worker threads."""
         return f"Dask cluster at {self.address} ({self._threads()} worker threads)"
 
     def check_paths(self, case_file: str, out: str) -> None:

@@ -48,6 +48,7 @@ class LocalExecutor:
         pass
 
     def describe(self) -> str:
+        """One line naming the number of worker processes."""
         return f"{self.jobs} local worker process{'es' if self.jobs != 1 else ''}"
 
     def run(

@@ -48,7 +48,9 @@ class Executor(Protocol):
 
     def run(
         self, tasks: Iterable[Task], dispatched: Callable[[Task], None]
-    ) -> Generator[tuple[Task, Outcome], None, None]: ...
+    ) -> Generator[tuple[Task, Outcome], None, None]:
+        """Run ``tasks`` and yield ``(task, outcome)`` as they finish."""
+        ...
 
 
 @dataclass(frozen=True)
@@ -67,6 +69,7 @@ class SweepPlan:
 
     @property
     def database(self) -> Path:
+        """Path of the sweep's database file."""
         return self.out / DB_NAME
 
 
@@ -88,6 +91,7 @@ class SweepReport:
     cleaned: int = 0
 
     def count(self, status: str) -> int:
+        """Number of variants with ``status``."""
         return sum(r.status == status for r in self.rows)
 
 

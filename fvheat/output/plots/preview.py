@@ -13,7 +13,7 @@ from __future__ import annotations
 import io
 import math
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -26,6 +26,9 @@ from fvheat.output.files import atomic_write
 from fvheat.output.plots import layers, style
 from fvheat.output.plots.meshplot import edge_width
 from fvheat.output.view import GeometryView, geometry_view
+
+if TYPE_CHECKING:
+    from matplotlib.figure import Figure
 
 #: the caution every preview carries
 PREVIEW_NOTE = "preview: no solve; check geometry, materials and boundary conditions before use"
@@ -84,7 +87,7 @@ def write_preview(case: Case, mesh: Mesh, path: str | Path, *, show_mesh: bool =
         raise CaseError(f"cannot write the preview: {err.strerror or err}", file=str(path)) from err
 
 
-def preview_figure(case: Case, mesh: Mesh, *, show_mesh: bool = False):
+def preview_figure(case: Case, mesh: Mesh, *, show_mesh: bool = False) -> Figure:
     """The model of ``case`` as meshed in ``mesh`` (a rectilinear grid), before any solve.
 
     With ``show_mesh`` the grid lines are drawn too: every one, or on fine grids every k-th

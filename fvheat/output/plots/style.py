@@ -10,9 +10,13 @@ import io
 from collections.abc import Iterator
 from contextlib import contextmanager
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from fvheat.output.files import atomic_write_bytes
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
+    from matplotlib.figure import Figure
 
 #: width of the text block of an A4 page with 20 mm margins, inches
 PAGE_WIDTH = 6.7
@@ -90,7 +94,7 @@ def style() -> Iterator[None]:
         yield
 
 
-def new_figure(width: float, height: float):
+def new_figure(width: float, height: float) -> Figure:
     """A Figure (inches) with constrained layout and an Agg canvas."""
     from matplotlib.backends.backend_agg import FigureCanvasAgg
     from matplotlib.figure import Figure
@@ -113,13 +117,13 @@ def field_size(dx: float, dy: float, *, extra_width: float = 1.5) -> tuple[float
     return min(PAGE_WIDTH, max(w + extra_width, 3.6)), max(h + 1.6, 2.4)
 
 
-def legend_columns(fig, labels: list[str], fontsize: float = 7.5, most: int = 4) -> int:
+def legend_columns(fig: Figure, labels: list[str], fontsize: float = 7.5, most: int = 4) -> int:
     """How many legend entries fit side by side across the figure."""
     entry = max((len(t) for t in labels), default=1) * 0.6 * fontsize + 3.5 * fontsize
     return int(max(1, min(most, len(labels), (0.95 * fig.get_figwidth() * 72) // entry)))
 
 
-def boundary_legend(fig, handles: list) -> None:
+def boundary_legend(fig: Figure, handles: list) -> None:
     """The boundaries' legend below the axes (nothing when there are no handles)."""
     if not handles:
         return
@@ -133,7 +137,7 @@ def boundary_legend(fig, handles: list) -> None:
     )
 
 
-def wrap(text: str, fig, fontsize: float = 9.0, share: float = 0.95) -> str:
+def wrap(text: str, fig: Figure, fontsize: float = 9.0, share: float = 0.95) -> str:
     """``text`` wrapped to ``share`` of the figure's width (about 0.6 em per character)."""
     import textwrap
 
@@ -141,7 +145,7 @@ def wrap(text: str, fig, fontsize: float = 9.0, share: float = 0.95) -> str:
     return "\n".join(textwrap.wrap(text, chars)) if text else text
 
 
-def headings(fig, ax, title: str, subtitle: str = "", note: str = "") -> None:
+def headings(fig: Figure, ax: Axes, title: str, subtitle: str = "", note: str = "") -> None:
     """Bold figure title, a plain subtitle above the axes (left) and a small grey note
     (right), wrapped so that they do not run into each other."""
     if title:
@@ -161,7 +165,7 @@ def headings(fig, ax, title: str, subtitle: str = "", note: str = "") -> None:
         )
 
 
-def save(fig, path: str | Path, *, vector: bool = True) -> list[Path]:
+def save(fig: Figure, path: str | Path, *, vector: bool = True) -> list[Path]:
     """Write ``fig`` as ``path`` with suffix .png and, if ``vector``, .svg; atomically.
 
     The layout is computed once, for the PNG, and reused for the SVG.
