@@ -49,7 +49,7 @@ class GridCheck:
 
     @property
     def passed(self) -> bool:
-        """ISO 10211: Σ|Φ| changes by less than 1 %."""
+        """Whether Σ|Φ| changes less than the limit (1 %, ISO 10211)."""
         return self.change < GRID_CHECK_LIMIT
 
     @property
@@ -69,6 +69,7 @@ class GridCheck:
         return out
 
     def as_dict(self) -> dict[str, Any]:
+        """The grid check as a JSON-ready dict (W/m; change as a fraction)."""
         return {
             "cells": self.cells,
             "cells_refined": self.cells_refined,

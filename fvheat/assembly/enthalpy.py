@@ -143,4 +143,5 @@ class EnthalpyModel:
 
     @property
     def variable_conductivity(self) -> bool:
+        """Whether some phase-change cell conducts differently frozen and unfrozen."""
         return bool(np.any(self.pcm & (self.k_f != self.k_u)))

@@ -44,6 +44,7 @@ class System:
 
     @property
     def n(self) -> int:
+        """Number of unknowns (cells)."""
         return self.mesh.n_cells
 
     @property

@@ -36,6 +36,7 @@ _BOUNDARY_KEYS = (
 
 
 def parse_boundaries(value: Any, ctx: Context) -> tuple[Boundary, ...]:
+    """Validate the ``[boundaries.*]`` tables (none when absent)."""
     if value is None:
         return ()
     seen: dict[str, str] = {}

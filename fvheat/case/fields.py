@@ -14,7 +14,7 @@ import re
 from collections.abc import Collection, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
+from typing import Any, Literal, overload
 
 NAME_PATTERN = re.compile(r"[A-Za-z0-9_.-]+")
 """Allowed names of materials, boundaries and probes (they become CSV column names)."""
@@ -128,6 +128,46 @@ def to_number(
     return x
 
 
+# A required key, or one with a float default, always reads as a float
+@overload
+def number(
+    tbl: Mapping[str, Any],
+    key: str,
+    path: str,
+    *,
+    required: Literal[True] = ...,
+    default: float | None = ...,
+    gt: float | None = ...,
+    ge: float | None = ...,
+    lt: float | None = ...,
+    le: float | None = ...,
+) -> float: ...
+@overload
+def number(
+    tbl: Mapping[str, Any],
+    key: str,
+    path: str,
+    *,
+    required: bool = ...,
+    default: float,
+    gt: float | None = ...,
+    ge: float | None = ...,
+    lt: float | None = ...,
+    le: float | None = ...,
+) -> float: ...
+@overload
+def number(
+    tbl: Mapping[str, Any],
+    key: str,
+    path: str,
+    *,
+    required: bool = ...,
+    default: None = ...,
+    gt: float | None = ...,
+    ge: float | None = ...,
+    lt: float | None = ...,
+    le: float | None = ...,
+) -> float | None: ...
 def number(
     tbl: Mapping[str, Any],
     key: str,
@@ -148,6 +188,36 @@ def number(
     return to_number(tbl[key], join(path, key), gt=gt, ge=ge, lt=lt, le=le)
 
 
+@overload
+def string(
+    tbl: Mapping[str, Any],
+    key: str,
+    path: str,
+    *,
+    required: Literal[True] = ...,
+    default: str | None = ...,
+    choices: Collection[str] | None = ...,
+) -> str: ...
+@overload
+def string(
+    tbl: Mapping[str, Any],
+    key: str,
+    path: str,
+    *,
+    required: bool = ...,
+    default: str,
+    choices: Collection[str] | None = ...,
+) -> str: ...
+@overload
+def string(
+    tbl: Mapping[str, Any],
+    key: str,
+    path: str,
+    *,
+    required: bool = ...,
+    default: None = ...,
+    choices: Collection[str] | None = ...,
+) -> str | None: ...
 def string(
     tbl: Mapping[str, Any],
     key: str,

@@ -31,7 +31,7 @@ boundaries = ["room_a_wall", "room_a_floor"]
 
 from __future__ import annotations
 
-from typing import Any
+from typing import Any, cast
 
 from fvheat.case.fields import (
     Context,
@@ -46,7 +46,7 @@ from fvheat.case.fields import (
     tables,
     to_number,
 )
-from fvheat.case.model import Case, Environment, Flanking, Junction
+from fvheat.case.model import Case, Dimensions, Environment, Flanking, Junction
 from fvheat.case.resistances import read_resistances
 
 _KEYS = (
@@ -104,7 +104,7 @@ def parse_junction(value: Any, ctx: Context) -> Junction | None:
         inside=inside,
         outside=outside,
         flanking=flanking,
-        dimensions=dimensions,
+        dimensions=cast("Dimensions", dimensions),
         surface_resistances=read_resistances(tbl, "condensation_resistance", path, inside),
         f_rsi_boundaries=(
             _names(tbl["f_rsi_boundaries"], join(path, "f_rsi_boundaries"), set(inside))

@@ -81,15 +81,28 @@ def _material(key: str, spec: Any, seen: dict[str, str]) -> Material:
             "conductivity",
             path,
             required=base is None,
-            default=base.conductivity if base else None,
+            default=base.conductivity if base else 0.0,  # (unused without a base: required)
             gt=0,
         ),
-        density=number(tbl, "density", path, required=False, default=base and base.density, gt=0),
+        density=number(
+            tbl, "density", path, required=False, default=base.density if base else None, gt=0
+        ),
         specific_heat=number(
-            tbl, "specific_heat", path, required=False, default=base and base.specific_heat, gt=0
+            tbl,
+            "specific_heat",
+            path,
+            required=False,
+            default=base.specific_heat if base else None,
+            gt=0,
         ),
         emissivity=number(
-            tbl, "emissivity", path, required=False, default=base and base.emissivity, gt=0, le=1
+            tbl,
+            "emissivity",
+            path,
+            required=False,
+            default=base.emissivity if base else None,
+            gt=0,
+            le=1,
         ),
         latent_heat=latent,
         phase_change=phase_change,
@@ -108,6 +121,7 @@ def _library_entry(value: Any, path: str) -> LibraryMaterial:
 
 
 def library_material(entry: LibraryMaterial) -> Material:
+    """A case material from a library entry (λ W/(m·K), ρ kg/m³, c J/(kg·K), ε)."""
     return Material(
         name=entry.name,
         conductivity=entry.conductivity,

@@ -154,6 +154,7 @@ class Boundary:
 
     @property
     def radiative(self) -> bool:
+        """Whether the surface exchanges long-wave radiation (ε > 0)."""
         return self.kind == "surface" and self.emissivity > 0.0
 
     @property
@@ -421,6 +422,7 @@ class Case:
 
     @property
     def transient(self) -> bool:
+        """Whether the case has a ``[time]`` table (a transient run)."""
         return self.time is not None
 
     def boundary(self, name: str) -> Boundary:

@@ -20,6 +20,7 @@ from fvheat.case.model import (
 
 
 def parse_probes(value: Any, ctx: Context) -> tuple[Probe, ...]:
+    """Validate the ``[[probes]]`` entries (points in m; none when absent)."""
     if value is None:
         return ()
     seen: dict[str, str] = {}
@@ -37,6 +38,7 @@ def parse_probes(value: Any, ctx: Context) -> tuple[Probe, ...]:
 
 
 def parse_probe_lines(value: Any, ctx: Context) -> tuple[ProbeLine, ...]:
+    """Validate the ``[[probe_lines]]`` entries (ends in m; none when absent)."""
     if value is None:
         return ()
     seen: dict[str, str] = {}

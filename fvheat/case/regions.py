@@ -4,7 +4,7 @@
 from __future__ import annotations
 
 from dataclasses import replace
-from typing import Any
+from typing import Any, Literal, cast
 
 import numpy as np
 
@@ -28,11 +28,12 @@ from fvheat.case.model import (
     Region,
 )
 from fvheat.drawing.polygons import crossing_edges
-from fvheat.properties.cavity import cavity_dimensions, equivalent_conductivity
+from fvheat.properties.cavity import Ventilation, cavity_dimensions, equivalent_conductivity
 from fvheat.properties.library import UnknownMaterialError, lookup
 
 
 def parse_regions(value: Any, ctx: Context) -> tuple[Region, ...]:
+    """Validate the ``[[regions]]`` entries; at least one is required."""
     if value is None:
         raise Invalid("regions", "required: at least one [[regions]] entry")
     entries = tables(value, "regions")
@@ -65,11 +66,11 @@ def _regions(
     if "cavity" in tbl:
         regions = []
         for k, shape in enumerate(shapes):
-            material = _cavity_material(tbl["cavity"], join(path, "cavity"), shape.vertices)
+            cavity = _cavity_material(tbl["cavity"], join(path, "cavity"), shape.vertices)
             if len(shapes) > 1:  # each cavity of a layer has its own size and conductivity
-                material = replace(material, name=join(material.name, k))
-            materials[material.name] = material
-            regions.append(_region(material.name, shape, rname))
+                cavity = replace(cavity, name=join(cavity.name, k))
+            materials[cavity.name] = cavity
+            regions.append(_region(cavity.name, shape, rname))
         return regions
     material = string(tbl, "material", path)
     assert material is not None
@@ -120,7 +121,7 @@ def _cavity_material(value: Any, path: str, vertices: np.ndarray) -> Material:
     dims = cavity_dimensions(
         float(width),
         float(height),
-        flow[1],
+        cast(Literal["x", "y"], flow[1]),
         1 if flow[0] == "+" else -1,
         vertical_axis="y" if section == "vertical" else None,
     )
@@ -132,7 +133,7 @@ def _cavity_material(value: Any, path: str, vertices: np.ndarray) -> Material:
         direction=dims.direction,
         delta_t=delta_t,
         mean_temperature=t_mean + 273.15,
-        ventilation=vent,
+        ventilation=cast("Ventilation", vent),
     )
     return Material(
         name=path,

@@ -23,6 +23,7 @@ class Constant:
 
     @property
     def is_constant(self) -> bool:
+        """Always True."""
         return True
 
 
@@ -42,6 +43,7 @@ class Cosine:
 
     @property
     def is_constant(self) -> bool:
+        """Whether the amplitude (K) is zero."""
         return self.amplitude == 0.0
 
 
@@ -78,6 +80,7 @@ class Series:
 
     @property
     def is_constant(self) -> bool:
+        """Whether every value of the series is the same."""
         return bool(np.all(self.values == self.values[0]))
 
 

@@ -14,10 +14,10 @@ transient_amg_above = 2000000 # "auto": AMG-CG for time stepping above this many
 
 from __future__ import annotations
 
-from typing import Any
+from typing import Any, cast
 
 from fvheat.case.fields import Context, Invalid, describe, join, number, string, table
-from fvheat.case.model import SolverSettings
+from fvheat.case.model import SolverMethod, SolverSettings
 
 METHODS = ("auto", "direct", "amg")
 _KEYS = ("method", "tolerance", "max_iterations", "amg_above", "transient_amg_above")
@@ -33,7 +33,10 @@ def parse_solver(value: Any, ctx: Context) -> SolverSettings:
     path = "solver"
     tbl = table(value, path, allowed=_KEYS)
     return SolverSettings(
-        method=string(tbl, "method", path, required=False, default="auto", choices=METHODS),
+        method=cast(
+            "SolverMethod",
+            string(tbl, "method", path, required=False, default="auto", choices=METHODS),
+        ),
         tolerance=number(
             tbl,
             "tolerance",

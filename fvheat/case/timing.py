@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import math
-from typing import Any
+from typing import Any, cast
 
 from fvheat.case.fields import (
     Context,
@@ -16,6 +16,7 @@ from fvheat.case.fields import (
     to_number,
 )
 from fvheat.case.model import (
+    Scheme,
     TimeSettings,
 )
 
@@ -28,6 +29,7 @@ DEFAULT_SAVES = 100
 
 
 def parse_time(value: Any, ctx: Context) -> TimeSettings | None:
+    """Validate the ``[time]`` table (durations in s); None (steady) when absent."""
     if value is None:
         return None
     path = "time"
@@ -93,7 +95,7 @@ def parse_time(value: Any, ctx: Context) -> TimeSettings | None:
         step=step,
         initial_temperature=initial,
         save_every=save_every,
-        scheme=scheme,
+        scheme=cast("Scheme", scheme),
         periodic=periodic,
         periodic_tolerance=number(
             tbl, "periodic_tolerance", path, required=False, default=1e-4, gt=0

@@ -82,7 +82,7 @@ def _convert(node: Any, keys: list[str], per_metre: int) -> None:
     """Divide every number under the path ``keys`` of ``node`` by ``per_metre`` in place."""
     head, rest = keys[0], keys[1:]
     if head == "*":
-        items = list(enumerate(node)) if isinstance(node, list) else []
+        items: list[tuple[Any, Any]] = list(enumerate(node)) if isinstance(node, list) else []
     elif isinstance(node, dict) and head in node:
         items = [(head, node[head])]
     else:

@@ -29,7 +29,7 @@ def region_area_warnings(case: Case, mesh: Mesh) -> list[str]:
     for k, r in enumerate(case.regions):
         entries.setdefault(r.entry, []).append(k)
     out = []
-    covering = shapely.Polygon()  # the union of the regions painted after this entry
+    covering: shapely.Geometry = shapely.Polygon()  # union of the regions painted after this entry
     for entry in sorted(entries, reverse=True):
         ks = entries[entry]
         shape = shapely.union_all([polys[k] for k in ks])

@@ -2,6 +2,11 @@
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING, cast
+
+if TYPE_CHECKING:
+    from rich.console import JustifyMethod
+
 from pathlib import Path
 
 from fvheat.errors import CaseError
@@ -41,7 +46,7 @@ def list_layers(drawing: Path, units: str) -> None:
         (f"y range {units}", "right"),
         ("size m", "right"),
     ):
-        t.add_column(col, justify=just)
+        t.add_column(col, justify=cast("JustifyMethod", just))
     for r in rows:
         entities = ", ".join(f"{k} {n}" for k, n in r.entities.items()) or "-"
         if r.extent is None:

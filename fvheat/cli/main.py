@@ -363,8 +363,9 @@ def _parser_exit(err: Exception, args: list[str]) -> int | None:
             print(text)
         return 0
     code = getattr(err, "exit_code", None)
-    if isinstance(code, int) and callable(getattr(err, "show", None)):
-        err.show()  # "Usage: ...", "Try 'fvheat ... --help' for help.", "Error: ..."
+    show = getattr(err, "show", None)
+    if isinstance(code, int) and callable(show):
+        show()  # "Usage: ...", "Try 'fvheat ... --help' for help.", "Error: ..."
         if getattr(err, "ctx", False) is None:  # raised by the option parser: no usage shown
             print(f"Try '{_help_command(args)}' for help.", file=sys.stderr)
         return code

@@ -2,6 +2,11 @@
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING, cast
+
+if TYPE_CHECKING:
+    from rich.console import JustifyMethod
+
 
 def print_library() -> None:
     """Print every library material with its design values and source."""
@@ -25,7 +30,7 @@ def print_library() -> None:
         ("ε", "right"),
         ("source", "left"),
     ):
-        t.add_column(col, justify=just)
+        t.add_column(col, justify=cast("JustifyMethod", just))
     for m in library().values():
         t.add_row(
             m.name,

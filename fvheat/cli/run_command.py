@@ -117,10 +117,10 @@ def _print_results(study: Study, out: Path, elapsed: float) -> None:
     if study.coupling is not None:
         con.print(_coupling_table(study))
         for p in study.coupling.points:
-            g = ", ".join(f"{v:.4f}" for v in p.g)
+            weights = ", ".join(f"{v:.4f}" for v in p.g)
             con.print(
                 f"  coldest point of {p.environment}: {p.temperature:.2f} °C at "
-                f"({p.at[0]:.3f}, {p.at[1]:.3f}) m on {p.boundary}; weighting factors g = {g}"
+                f"({p.at[0]:.3f}, {p.at[1]:.3f}) m on {p.boundary}; weighting factors g = {weights}"
             )
     if study.grid is not None:
         g = study.grid

@@ -18,6 +18,8 @@ from fvheat.sweep.store import Row
 from fvheat.sweep.values import display_value
 
 if TYPE_CHECKING:
+    from rich.progress import TaskID
+
     from fvheat.sweep.dask_executor import DaskExecutor
 
 #: rows of the end-of-sweep table printed to the terminal (all are in the database)
@@ -186,7 +188,7 @@ class _Bar:
 
     def __init__(self, quiet: bool):
         self.bar = None
-        self.task = None
+        self.task: TaskID | None = None
         self.recorded = 0
         self.failed = 0
         if not quiet:

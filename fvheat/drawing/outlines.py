@@ -111,9 +111,11 @@ class Assembler:
         self.unit = unit
 
     def fail(self, message: str, entity: str | None) -> DrawingError:
+        """A :class:`DrawingError` naming the file, the layer and ``entity``."""
         return DrawingError(message, file=self.file, layer=self.layer.name, entity=entity)
 
     def at(self, p: np.ndarray | tuple[float, float]) -> str:
+        """The point ``p`` for messages, in drawing units."""
         return f"({p[0]:.6g}, {p[1]:.6g}) {self.unit}"
 
     def snapped(self, curves: list[Curve]) -> list[Curve]:
@@ -155,9 +157,9 @@ class Assembler:
             ends[tuple(c.points[-1])].append((i, 1))
         for point, at in ends.items():
             if len(at) > 2:
-                names = ", ".join(sorted({curves[i].entity for i, _ in at}))
+                listed = ", ".join(sorted({curves[i].entity for i, _ in at}))
                 raise self.fail(
-                    f"{len(at)} line ends meet at {self.at(point)} ({names}): an outline must "
+                    f"{len(at)} line ends meet at {self.at(point)} ({listed}): an outline must "
                     "be one closed loop; draw each region as its own closed polyline",
                     curves[at[0][0]].entity,
                 )
@@ -230,15 +232,15 @@ class Assembler:
                     inside[i, j] = share > 0.5
         depth = inside.sum(axis=1)
         shapes: dict[int, Shape] = {}
-        for i in np.flatnonzero(depth % 2 == 0):
+        for i in np.flatnonzero(depth % 2 == 0).tolist():
             shapes[int(i)] = Shape(loops[i][0], (), loops[i][1])
-        for i in np.flatnonzero(depth % 2 == 1):
+        for i in np.flatnonzero(depth % 2 == 1).tolist():
             parents = [j for j in np.flatnonzero(inside[i]) if depth[j] == depth[i] - 1]
             if not parents:
                 continue
-            p = int(parents[0])
-            s = shapes[p]
-            shapes[p] = Shape(s.outline, (*s.holes, loops[i][0]), s.entity)
+            parent = int(parents[0])
+            s = shapes[parent]
+            shapes[parent] = Shape(s.outline, (*s.holes, loops[i][0]), s.entity)
         return [shapes[k] for k in sorted(shapes)]
 
 

@@ -25,6 +25,7 @@ def crossing_edges(p: np.ndarray, scale: float) -> tuple[int, int] | None:
         import shapely
 
         segments = shapely.linestrings(np.stack([p, np.roll(p, -1, axis=0)], axis=1))
+        assert isinstance(segments, np.ndarray)
         a, b = shapely.STRtree(segments).query(segments)
         keep = a < b
         order = np.lexsort((b[keep], a[keep]))

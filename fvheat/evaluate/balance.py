@@ -29,14 +29,17 @@ class EnergyBalance:
 
     @property
     def heat_in(self) -> float:
+        """Sum of the boundaries' net heat inflows (W/m steady, J/m transient)."""
         return float(sum(v for v in self.boundary.values() if v > 0))
 
     @property
     def heat_out(self) -> float:
+        """Sum of the boundaries' net heat outflows (W/m steady, J/m transient)."""
         return float(-sum(v for v in self.boundary.values() if v < 0))
 
     @property
     def residual(self) -> float:
+        """Σ boundary − stored (W/m steady, J/m transient)."""
         return float(sum(self.boundary.values()) - self.stored)
 
     @property
@@ -46,6 +49,7 @@ class EnergyBalance:
 
     @property
     def relative(self) -> float:
+        """Residual over :attr:`scale` (dimensionless; 0 with no flow)."""
         return abs(self.residual) / self.scale if self.scale > 0 else 0.0
 
     @property
@@ -66,6 +70,7 @@ class EnergyBalance:
         return f"residual {self.relative:.1e} of the largest flow: {verdict} to round-off"
 
     def as_dict(self) -> dict[str, object]:
+        """The balance as a JSON-ready dict (W/m steady, J/m transient)."""
         return {
             "heat_in": self.heat_in,
             "heat_out": self.heat_out,

@@ -35,6 +35,7 @@ class CondensationHours:
 
     @classmethod
     def start(cls, case: Case, system: System) -> CondensationHours:
+        """Empty counters over the faces of the case's condensation boundaries."""
         c = case.condensation
         assert c is not None
         s = system.surface

@@ -55,6 +55,7 @@ class WeightedPoint:
     g: tuple[float, ...]
 
     def as_dict(self) -> dict[str, Any]:
+        """The point as a JSON-ready dict (°C, m, weighting factors g)."""
         return {
             "environment": self.environment,
             "boundary": self.boundary,
@@ -87,6 +88,7 @@ class CouplingResult:
         return off @ np.ones_like(t) * t - off @ t
 
     def as_dict(self) -> dict[str, Any]:
+        """The coupling coefficients L (W/(m·K)) as a JSON-ready dict."""
         return {
             "environments": list(self.environments),
             "L": self.matrix.tolist(),
@@ -166,7 +168,7 @@ def coupling_coefficients(case: Case, system: System) -> CouplingResult:
         temp = solver.solve(unit.sources(0.0))
         ts, flux, _ = unit.surface.surface_state(temp, 0.0)
         per_boundary = np.bincount(surf.bid, weights=flux, minlength=len(bounds))
-        mine = env_of >= 0
+        mine: np.ndarray = env_of >= 0
         flows[:, jj] = np.bincount(env_of[mine], weights=per_boundary[mine], minlength=n)
         point_values.append(surface_points(system.mesh, unit.surface, ts).temperature)
     matrix = -flows

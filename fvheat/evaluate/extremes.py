@@ -71,6 +71,7 @@ class RunExtremes:
     def start(
         cls, case: Case, system: System, model: EnthalpyModel, lines: FrontLines
     ) -> RunExtremes:
+        """Empty extremes for the surfaces, probe lines and f_Rsi sides of ``case``."""
         s = system.surface
         names = [b.name for b in s.boundaries]
         points = SurfacePointMap.build(system.mesh, s)
@@ -105,9 +106,9 @@ class RunExtremes:
         for k in np.flatnonzero(self.present):
             name = self.names[k]
             if name not in self.lowest or lo[k] < self.lowest[name].value:
-                self.lowest[name] = self._where(values, k, lo[k], t, np.argmin)
+                self.lowest[name] = self._where(values, int(k), lo[k], t, np.argmin)
             if name not in self.highest or hi[k] > self.highest[name].value:
-                self.highest[name] = self._where(values, k, hi[k], t, np.argmax)
+                self.highest[name] = self._where(values, int(k), hi[k], t, np.argmax)
         if self.f_sides is not None:
             self._factor(lo, values, t)
         for key, v in self.lines.measure(temp).items():

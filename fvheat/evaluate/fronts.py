@@ -33,6 +33,7 @@ class FrontLines:
 
     @classmethod
     def build(cls, case: Case, mesh: Mesh, model: EnthalpyModel) -> FrontLines:
+        """The sampling operators of the case's probe lines on ``mesh``."""
         samplers, distances = [], []
         for line in case.probe_lines:
             s = np.linspace(0.0, 1.0, SAMPLES)[:, None]

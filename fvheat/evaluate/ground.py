@@ -66,6 +66,7 @@ class GroundFloor:
         }
 
     def as_dict(self) -> dict[str, Any]:
+        """The ground-floor result as a JSON-ready dict (B' m, λ W/(m·K), ψ_g W/(m·K))."""
         return {
             "B_prime": self.width,
             "soil_conductivity": self.soil_conductivity,

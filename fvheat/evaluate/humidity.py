@@ -34,7 +34,7 @@ def _scalar_or_array(x: np.ndarray) -> float | np.ndarray:
     return float(x) if x.ndim == 0 else x
 
 
-def _magnus(theta: np.ndarray, a: float, b: float) -> np.ndarray:
+def _magnus(theta: np.ndarray, a: float | np.ndarray, b: float | np.ndarray) -> np.ndarray:
     return MAGNUS_P0 * np.exp(a * theta / (b + theta))
 
 

@@ -14,7 +14,7 @@ computed for every system in which every flanking element has a length,
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Any
+from typing import Any, cast
 
 import numpy as np
 
@@ -50,6 +50,7 @@ class FlankingResult:
         return self.u_from or ("layers" if self.cut is not None else "given")
 
     def as_dict(self) -> dict[str, Any]:
+        """The flanking element as a JSON-ready dict (U W/(m²·K), lengths m)."""
         out: dict[str, Any] = {"name": self.name, "u_value": self.u_value, "length": self.length}
         out["lengths"] = dict(self.lengths or {})
         if self.cut is not None:
@@ -101,9 +102,11 @@ class JunctionResult:
 
     @property
     def f_rsi_pass(self) -> bool | None:
+        """Whether f_Rsi reaches the limit; None without a limit."""
         return None if self.f_rsi_limit is None else bool(self.f_rsi >= self.f_rsi_limit)
 
     def as_dict(self) -> dict[str, Any]:
+        """The junction result as a JSON-ready dict (L2D, ψ W/(m·K); θ °C)."""
         out: dict[str, Any] = {
             "L2D": self.l2d,
             "psi": self.psi,
@@ -265,8 +268,8 @@ def evaluate_junction(
     if j.frame_width is not None:
         result.u_f = psi / j.frame_width
     if j.indoor_humidity is not None:
-        result.dew_point = dew_point(theta_i, j.indoor_humidity)
-        result.surface_rh = surface_relative_humidity(theta_i, j.indoor_humidity, theta_si)
+        result.dew_point = float(dew_point(theta_i, j.indoor_humidity))
+        result.surface_rh = float(surface_relative_humidity(theta_i, j.indoor_humidity, theta_si))
     result.warnings += cutoff_warnings(case, heat_loss, flanks)
     varying = varying_sides(case)
     if varying:
@@ -299,7 +302,9 @@ def psi_by_dimensions(l2d: float, flanks: list[FlankingResult], primary: str) ->
             continue
         if not flanks and system != primary:
             continue
-        out[system] = l2d - sum(f.u_value * v for f, v in zip(flanks, lengths, strict=True))
+        out[system] = l2d - sum(
+            f.u_value * cast(float, v) for f, v in zip(flanks, lengths, strict=True)
+        )
     return out
 
 

@@ -66,7 +66,7 @@ def layer_cut(case: Case, mesh: Mesh, cut: Segment) -> LayerCut:
         # A grid line: acceptable only when the rows (columns) on both sides read the same
         # layers, i.e. the line is one the mesher placed inside a layer, not a material edge.
         k = int(on_line[0])
-        sides = []
+        sides: list[LayerCut | None] = []
         for row in (k - 1, k):
             try:
                 sides.append(_read(case, mesh, along, lines, row, lo, hi, tol, cut))

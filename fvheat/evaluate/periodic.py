@@ -27,6 +27,7 @@ class Harmonic:
     sin_sum: np.ndarray | float = 0.0
 
     def add(self, t: float, y: np.ndarray | float) -> None:
+        """Add the sample ``y`` taken at time ``t`` (s)."""
         w = 2.0 * np.pi * t / self.period
         self.n += 1
         self.total = self.total + y
@@ -35,10 +36,12 @@ class Harmonic:
 
     @property
     def mean(self) -> np.ndarray | float:
+        """Mean over the period (unit of the signal)."""
         return self.total / self.n
 
     @property
     def amplitude(self) -> np.ndarray | float:
+        """First-harmonic amplitude (unit of the signal)."""
         return 2.0 / self.n * np.hypot(self.cos_sum, self.sin_sum)
 
     @property
@@ -63,6 +66,7 @@ class PeriodicResponse:
 
     @classmethod
     def start(cls, case: Case, system: System) -> PeriodicResponse:
+        """Empty harmonics of the boundary flows and drivers over one period (s)."""
         assert case.time is not None
         p = case.time.duration
         drivers = {

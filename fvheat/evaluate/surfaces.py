@@ -36,6 +36,7 @@ class SurfaceResult:
     length: float
 
     def as_dict(self) -> dict[str, object]:
+        """The surface result as a JSON-ready dict (W/m, °C, m)."""
         return {
             "heat_flow": self.heat_flow,
             "min_temperature": self.min_temperature,
@@ -72,6 +73,7 @@ class SurfacePointMap:
 
     @classmethod
     def build(cls, mesh: Mesh, s: SurfaceTerms) -> SurfacePointMap:
+        """The point map of the surface terms ``s`` on ``mesh``."""
         face = s.face
         centre, normal, half = mesh.b_centre[face], mesh.b_normal[face], 0.5 * mesh.b_area[face]
         both = face_ends(centre, normal, mesh.b_area[face])

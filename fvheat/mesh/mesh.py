@@ -77,6 +77,7 @@ class Mesh:
 
     @property
     def n_cells(self) -> int:
+        """Number of cells."""
         return int(self.volumes.size)
 
     @property
@@ -86,6 +87,7 @@ class Mesh:
 
     @property
     def n_boundary_faces(self) -> int:
+        """Number of boundary faces."""
         return int(self.b_cell.size)
 
     def boundary_faces(self, name: str) -> np.ndarray:

@@ -41,6 +41,7 @@ def build_mesh(case: Case, refine: float = 1.0) -> Mesh:
     material = np.array([names.index(r.material) for r in case.regions], dtype=np.int32)
     mat = np.where(owner >= 0, material[owner], -1).astype(np.int32)
     mesh = faces_from_grid(x, y, mat, names, tuple(b.name for b in case.boundaries))
+    assert mesh.grid is not None
     mesh = replace(mesh, region=owner[mesh.grid.cell_index >= 0])
     mesh = attach_boundaries(case, mesh)
     check_probes(case, mesh)
@@ -365,7 +366,9 @@ def face_reach(mesh: Mesh) -> np.ndarray:
     return 0.5 * np.hypot(dx[cols], dy[rows])
 
 
-def segment_faces(mesh: Mesh, seg, reach: np.ndarray) -> tuple[np.ndarray, np.ndarray, float]:
+def segment_faces(
+    mesh: Mesh, seg: tuple[tuple[float, float], tuple[float, float]], reach: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, float]:
     """The exterior faces on segment ``seg`` ((x0, y0), (x1, y1)) m, their exchange
     fractions, and the fraction of the segment's length they cover (1 when the segment
     lies on the body's outline over its whole length).

@@ -25,7 +25,7 @@ from __future__ import annotations
 import csv
 import json
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 from xml.sax.saxutils import quoteattr
 
 import numpy as np
@@ -34,6 +34,9 @@ from fvheat.mesh.mesh import RectGrid
 from fvheat.output.files import atomic_write, atomic_write_file, atomic_write_text
 from fvheat.output.view import FieldView, field_view
 from fvheat.simulate import Solution
+
+if TYPE_CHECKING:
+    import meshio
 
 FIELDS_DIR = "fields"
 META_FILE = "fields.json"
@@ -49,7 +52,7 @@ def _node_ids(grid: RectGrid, pts: np.ndarray) -> np.ndarray:
     return j * x.size + i
 
 
-def to_meshio(view: FieldView):
+def to_meshio(view: FieldView) -> meshio.Mesh:
     """The view as a :class:`meshio.Mesh`: quads for cells, lines for exterior faces."""
     import meshio
 
@@ -90,7 +93,7 @@ def outward_normals(ends: np.ndarray) -> np.ndarray:
     return np.column_stack([d[:, 1], -d[:, 0]]) / np.hypot(d[:, 0], d[:, 1])[:, None]
 
 
-def from_meshio(mesh, meta: dict[str, Any], time: float = 0.0) -> FieldView:
+def from_meshio(mesh: meshio.Mesh, meta: dict[str, Any], time: float = 0.0) -> FieldView:
     """Rebuild a :class:`FieldView` from a VTU written by :func:`to_meshio` and its index."""
     x = np.asarray(meta["grid"]["x"], float)
     y = np.asarray(meta["grid"]["y"], float)

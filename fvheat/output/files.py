@@ -9,7 +9,7 @@ import re
 import tempfile
 from collections.abc import Callable
 from pathlib import Path
-from typing import IO
+from typing import IO, Any
 
 #: the name of the temporary file :func:`atomic_write_file` writes before renaming it: "."
 #: + the target's stem + "." + 8 random characters (:func:`tempfile.mkstemp`) + its suffix
@@ -32,12 +32,12 @@ def _file_mode() -> int:
 
 
 def atomic_write(
-    path: str | Path, write: Callable[[IO[str]], None], *, binary: bool = False
+    path: str | Path, write: Callable[[IO[Any]], object], *, binary: bool = False
 ) -> Path:
     """Call ``write(handle)`` on a temporary file next to ``path``, then rename it to ``path``."""
 
     def to_file(tmp: Path) -> None:
-        kwargs = {} if binary else {"newline": "", "encoding": "utf-8"}
+        kwargs: dict[str, Any] = {} if binary else {"newline": "", "encoding": "utf-8"}
         with open(tmp, "wb" if binary else "w", **kwargs) as fh:
             write(fh)
 
@@ -47,6 +47,11 @@ def atomic_write(
 def atomic_write_text(path: str | Path, text: str) -> Path:
     """Write ``text`` (UTF-8) to ``path`` atomically."""
     return atomic_write(path, lambda fh: fh.write(text))
+
+
+def atomic_write_bytes(path: str | Path, data: bytes) -> Path:
+    """Write ``data`` to ``path`` atomically."""
+    return atomic_write(path, lambda fh: fh.write(data), binary=True)
 
 
 def atomic_write_file(path: str | Path, write: Callable[[Path], None]) -> Path:

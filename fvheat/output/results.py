@@ -65,10 +65,12 @@ class ResultsFolder:
 
     @property
     def title(self) -> str:
+        """The run's title (empty when it had none)."""
         return str(self.summary.get("title", ""))
 
     @property
     def transient(self) -> bool:
+        """Whether the folder holds a transient run."""
         return self.summary.get("mode") == "transient"
 
     def inputs(self) -> dict[str, Any] | None:

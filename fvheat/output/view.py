@@ -38,6 +38,7 @@ class GeometryView:
 
     @property
     def n_cells(self) -> int:
+        """Number of cells."""
         return int(self.material.size)
 
     @property

@@ -21,7 +21,7 @@ import logging
 from collections.abc import Iterator
 from contextlib import contextmanager
 from dataclasses import replace
-from typing import Literal, Protocol
+from typing import TYPE_CHECKING, Literal, Protocol
 
 import numpy as np
 import scipy.sparse as sp
@@ -29,6 +29,9 @@ import scipy.sparse.linalg as spla
 
 from fvheat.case.model import SolverMethod, SolverSettings
 from fvheat.errors import ConvergenceError
+
+if TYPE_CHECKING:
+    from pyamg.multilevel import MultilevelSolver
 
 log = logging.getLogger(__name__)
 
@@ -63,7 +66,9 @@ def choose_method(n: int, choice: SolverChoice = "auto", *, repeated: bool = Fal
 class LinearSolver(Protocol):
     """Solves A·x = b for a fixed matrix A."""
 
-    def solve(self, b: np.ndarray) -> np.ndarray: ...
+    def solve(self, b: np.ndarray) -> np.ndarray:
+        """x for the right-hand side ``b`` (units of the system)."""
+        ...
 
 
 _controller = None
@@ -87,12 +92,13 @@ class DirectSolver:
 
     kind: Kind = "direct"
 
-    def __init__(self, a: sp.spmatrix):
+    def __init__(self, a: sp.csr_matrix):
         self._lu = spla.splu(
             sp.csc_matrix(a), permc_spec="MMD_AT_PLUS_A", options={"SymmetricMode": True}
         )
 
     def solve(self, b: np.ndarray) -> np.ndarray:
+        """x for the right-hand side ``b`` from the factorisation."""
         return self._lu.solve(b)
 
 
@@ -107,7 +113,7 @@ class AmgSolver:
 
     kind: Kind = "amg"
 
-    def __init__(self, a: sp.spmatrix, *, tolerance: float = 1e-10, max_iterations: int = 200):
+    def __init__(self, a: sp.csr_matrix, *, tolerance: float = 1e-10, max_iterations: int = 200):
         import pyamg
 
         self.a = sp.csr_matrix(a)
@@ -132,6 +138,7 @@ class AmgSolver:
         return s
 
     def solve(self, b: np.ndarray, x0: np.ndarray | None = None) -> np.ndarray:
+        """x for the right-hand side ``b`` by AMG-preconditioned CG from ``x0``."""
         count = 0
 
         def counter(_: np.ndarray) -> None:
@@ -162,7 +169,7 @@ class AmgSolver:
         return x
 
 
-def v_cycle(ml) -> spla.LinearOperator:
+def v_cycle(ml: MultilevelSolver) -> spla.LinearOperator:
     """One V-cycle of the pyamg hierarchy ``ml`` from a zero guess, as a preconditioner.
 
     The same cycle as ``ml.aspreconditioner("V")`` without the two residual norms on the
@@ -185,7 +192,7 @@ def v_cycle(ml) -> spla.LinearOperator:
 
 
 def make_solver(
-    a: sp.spmatrix, method: SolverChoice = "auto", *, repeated: bool = False
+    a: sp.csr_matrix, method: SolverChoice = "auto", *, repeated: bool = False
 ) -> DirectSolver | AmgSolver:
     """A solver for matrix ``a`` chosen by :func:`choose_method`.
 

@@ -28,7 +28,7 @@ import scipy.sparse.linalg as spla
 from fvheat.assembly.enthalpy import EnthalpyModel
 from fvheat.assembly.system import System
 from fvheat.errors import ConvergenceError
-from fvheat.solve.linear import LinearSolver, Method, make_solver
+from fvheat.solve.linear import LinearSolver, SolverChoice, make_solver
 from fvheat.solve.transient import Step
 
 log = logging.getLogger(__name__)
@@ -48,7 +48,7 @@ class EnthalpyStepper:
         model: EnthalpyModel,
         theta: float,
         *,
-        method: Method = "auto",
+        method: SolverChoice = "auto",
         tol: float = 1e-10,
         max_iter: int = 200,
     ):
@@ -56,7 +56,7 @@ class EnthalpyStepper:
         self.system = system
         self.model = model
         self.theta = theta
-        self.method: Method = method
+        self.method: SolverChoice = method
         self.tol = tol
         self.max_iter = max_iter
         self._solver: LinearSolver | None = None
@@ -179,7 +179,7 @@ def evolve_enthalpy(
     *,
     theta: float = 1.0,
     t0: float = 0.0,
-    method: Method = "auto",
+    method: SolverChoice = "auto",
     tolerance: float | None = None,
 ) -> Iterator[Step]:
     """Yield (t, T, boundary heat J/m) after each of ``n_steps`` steps of ``step`` s; with
@@ -200,7 +200,7 @@ def solve_steady_phase(
     t: float,
     temp: np.ndarray,
     *,
-    method: Method = "auto",
+    method: SolverChoice = "auto",
     tol: float = 1e-10,
     max_iter: int = 200,
 ) -> np.ndarray:

@@ -11,7 +11,7 @@ import asyncio
 import logging
 import os
 import socket
-from collections.abc import Callable, Iterable, Iterator
+from collections.abc import Callable, Generator, Iterable
 from typing import Any
 
 from fvheat.errors import CaseError
@@ -60,6 +60,7 @@ class DaskExecutor:
             self.client = None
 
     def describe(self) -> str:
+        """One line naming the cluster and its worker threads."""
         return f"Dask cluster at {self.address} ({self._threads()} worker threads)"
 
     def check_paths(self, case_file: str, out: str) -> None:
@@ -76,7 +77,7 @@ class DaskExecutor:
 
     def run(
         self, tasks: Iterable[Task], dispatched: Callable[[Task], None]
-    ) -> Iterator[tuple[Task, Outcome]]:
+    ) -> Generator[tuple[Task, Outcome], None, None]:
         """Submit ``tasks`` (calling ``dispatched(task)`` just before each) and yield
         ``(task, outcome)`` as they finish; closing the iterator early cancels the rest."""
         from distributed import as_completed

@@ -8,7 +8,7 @@ import os
 import signal
 import sys
 import threading
-from collections.abc import Callable, Iterable, Iterator
+from collections.abc import Callable, Generator, Iterable
 from concurrent.futures import FIRST_COMPLETED, Future, ProcessPoolExecutor, wait
 from concurrent.futures.process import BrokenProcessPool
 from multiprocessing.connection import Connection
@@ -48,11 +48,12 @@ class LocalExecutor:
         pass
 
     def describe(self) -> str:
+        """One line naming the number of worker processes."""
         return f"{self.jobs} local worker process{'es' if self.jobs != 1 else ''}"
 
     def run(
         self, tasks: Iterable[Task], dispatched: Callable[[Task], None]
-    ) -> Iterator[tuple[Task, Outcome]]:
+    ) -> Generator[tuple[Task, Outcome], None, None]:
         """Run ``tasks``, calling ``dispatched(task)`` just before each is handed out, and
         yield ``(task, outcome)`` as they finish. Closing the iterator early (an interrupt)
         cancels what is queued and stops the workers."""

@@ -76,6 +76,7 @@ def draw(lines: Sequence[Line], x: str, y: str, series: str | None, title: str, 
 
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
+    from matplotlib.layout_engine import ConstrainedLayoutEngine
 
     fig, ax = plt.subplots(figsize=(7.0, 5.0), layout="constrained")
     try:
@@ -87,7 +88,9 @@ def draw(lines: Sequence[Line], x: str, y: str, series: str | None, title: str, 
         ax.grid(True, alpha=0.3)
         if series is not None:
             ax.legend(title=series, fontsize="small")
-        fig.get_layout_engine().set(rect=(0, 0.08, 1, 0.92))
+        engine = fig.get_layout_engine()
+        assert isinstance(engine, ConstrainedLayoutEngine)
+        engine.set(rect=(0, 0.08, 1, 0.92))
         fig.text(0.01, 0.01, "\n".join(textwrap.wrap(CAUTION, 130)), fontsize=6, color="0.35")
         return atomic_write(out, lambda fh: fig.savefig(fh, format="png", dpi=120), binary=True)
     finally:

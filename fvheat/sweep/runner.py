@@ -21,7 +21,7 @@ from __future__ import annotations
 import contextlib
 import logging
 import re
-from collections.abc import Callable, Iterable, Iterator, Sequence
+from collections.abc import Callable, Generator, Iterable, Iterator, Sequence
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Protocol
@@ -48,7 +48,9 @@ class Executor(Protocol):
 
     def run(
         self, tasks: Iterable[Task], dispatched: Callable[[Task], None]
-    ) -> Iterator[tuple[Task, Outcome]]: ...
+    ) -> Generator[tuple[Task, Outcome], None, None]:
+        """Run ``tasks`` and yield ``(task, outcome)`` as they finish."""
+        ...
 
 
 @dataclass(frozen=True)
@@ -67,6 +69,7 @@ class SweepPlan:
 
     @property
     def database(self) -> Path:
+        """Path of the sweep's database file."""
         return self.out / DB_NAME
 
 
@@ -88,6 +91,7 @@ class SweepReport:
     cleaned: int = 0
 
     def count(self, status: str) -> int:
+        """Number of variants with ``status``."""
         return sum(r.status == status for r in self.rows)
 
 
@@ -107,11 +111,12 @@ def plan_sweep(
     come from in messages (``"--vary"``, or ``"--variants FILE: column"``)."""
     case_path = Path(case_file)
     try:
-        case = load_case(case_path, tuple(fixed))
+        case: Case | None = load_case(case_path, tuple(fixed))
     except CaseError:
         case = _first_valid(case_path, tuple(fixed), variants)
         if case is None:
             raise
+    assert case is not None
     fixed_keys = {o.partition("=")[0].strip() for o in fixed}
     for key in keys:
         if key in fixed_keys:

@@ -257,6 +257,7 @@ class SweepStore:
                     "INSERT INTO variants (key, params) VALUES (?, ?)",
                     (v.key, json.dumps(dict(v.params))),
                 )
+                assert cur.lastrowid is not None
                 self.db.execute(
                     "UPDATE variants SET output = ? WHERE id = ?",
                     (folder_name(cur.lastrowid, v), cur.lastrowid),

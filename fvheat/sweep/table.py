@@ -33,6 +33,7 @@ class Table:
 
     @property
     def columns(self) -> list[str]:
+        """All columns in order: parameters, status, results, message, output."""
         return [*self.params, "status", *self.results, "message", "output"]
 
     def add(

@@ -4,8 +4,9 @@ from __future__ import annotations
 
 import hashlib
 import itertools
-from collections.abc import Sequence
+from collections.abc import Iterator, Sequence
 from dataclasses import dataclass
+from typing import Any
 
 from fvheat.errors import CaseError
 from fvheat.sweep.values import canonical_json, parse_value, split_values
@@ -73,7 +74,7 @@ def vary_variants(specs: Sequence[str], *, zipped: bool = False) -> tuple[list[s
         if len(lengths) > 1:
             detail = ", ".join(f"{k}: {len(v)}" for k, v in zip(keys, lists, strict=True))
             raise CaseError(f"--zip needs lists of equal length, got {detail}", key="--zip")
-        combos = zip(*lists, strict=True)
+        combos: Iterator[tuple[Any, ...]] = zip(*lists, strict=True)
     else:
         combos = itertools.product(*lists)
     variants = [Variant(tuple(zip(keys, combo, strict=True))) for combo in combos]

@@ -2,10 +2,17 @@
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import numpy as np
 
 from fvheat.output.plots import layers, style
 from fvheat.output.view import FieldView
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
+    from matplotlib.colorbar import Colorbar
+    from matplotlib.figure import Figure
 
 #: |q| below this fraction of the largest value is drawn at the bottom of the colour scale
 FLUX_FLOOR = 1e-3
@@ -22,7 +29,7 @@ def heat_flux_figure(
     subtitle: str = "",
     zoom: layers.Window | None = None,
     frange: tuple[float, float] | None = None,
-):
+) -> Figure:
     """Heat-flux density |q| (W/m², log scale) of ``view`` with streamlines along q.
 
     ``frange`` fixes the colour range (W/m², both > 0), ``zoom`` the window (x0, y0, x1, y1) m.
@@ -53,7 +60,7 @@ def heat_flux_figure(
     return fig
 
 
-def log_ticks(cbar, lo: float, hi: float) -> None:
+def log_ticks(cbar: Colorbar, lo: float, hi: float) -> None:
     """Plain-number ticks on a log colour bar: 1-2-5 steps over narrow ranges, decades over
     wide ones."""
     from matplotlib.ticker import FuncFormatter, LogLocator, NullFormatter
@@ -118,7 +125,9 @@ def dilate(q: np.ma.MaskedArray) -> np.ma.MaskedArray:
     return np.ma.masked_array(data, mask=np.repeat(~keep[..., None], 2, axis=-1))
 
 
-def draw_streamlines(ax, view: FieldView, window: layers.Window, *, seeded: bool = True) -> None:
+def draw_streamlines(
+    ax: Axes, view: FieldView, window: layers.Window, *, seeded: bool = True
+) -> None:
     """Lines along q: heat paths from the warm surfaces (``seeded``, see
     :func:`heat_path_seeds`) or an even cover of the window; they stop at the body's edges.
     q is sampled bilinearly on a uniform grid over the window."""

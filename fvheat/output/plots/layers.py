@@ -6,12 +6,19 @@ All coordinates in m, temperatures in °C; ``ax`` is a matplotlib Axes at equal 
 from __future__ import annotations
 
 from collections.abc import Sequence
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
 from fvheat.mesh.mesh import RectGrid
 from fvheat.output.plots import style
 from fvheat.output.view import GeometryView
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
+    from matplotlib.collections import QuadMesh
+    from matplotlib.colors import Colormap, Normalize
+    from matplotlib.contour import QuadContourSet
 
 Window = tuple[float, float, float, float]
 
@@ -25,7 +32,7 @@ def window_of(view: GeometryView, zoom: Window | None = None) -> Window:
     return x0 - m, y0 - m, x1 + m, y1 + m
 
 
-def set_window(ax, window: Window) -> None:
+def set_window(ax: Axes, window: Window) -> None:
     """Limits, equal aspect and axis labels in metres."""
     x0, y0, x1, y1 = window
     ax.set_xlim(x0, x1)
@@ -54,7 +61,9 @@ def _bracket(centres: np.ndarray, p: np.ndarray) -> tuple[np.ndarray, np.ndarray
     return lo, hi, np.clip((p - centres[lo]) / (centres[hi] - centres[lo]), 0.0, 1.0)
 
 
-def sample_cells(view: GeometryView, values: np.ndarray, x: np.ndarray, y: np.ndarray):
+def sample_cells(
+    view: GeometryView, values: np.ndarray, x: np.ndarray, y: np.ndarray
+) -> np.ma.MaskedArray:
     """Bilinear interpolation of cell ``values`` (n, ...) between cell centres at points
     (``x``, ``y``) m, weights renormalised over cells of the body; masked outside it."""
     g = view.grid
@@ -75,7 +84,7 @@ def sample_cells(view: GeometryView, values: np.ndarray, x: np.ndarray, y: np.nd
     return np.ma.masked_array(out, mask=mask)
 
 
-def draw_cells(ax, view: GeometryView, values: np.ndarray, **kwargs):
+def draw_cells(ax: Axes, view: GeometryView, values: np.ndarray, **kwargs: Any) -> QuadMesh:
     """Cell values as flat-shaded quads over the real geometry (voids left blank)."""
     g = view.grid
     return ax.pcolormesh(
@@ -152,7 +161,7 @@ def merge_segments(segs: np.ndarray) -> np.ndarray:
     return np.concatenate(out)
 
 
-def draw_outlines(ax, view: GeometryView, *, colour: str = style.OUTLINE_COLOUR) -> None:
+def draw_outlines(ax: Axes, view: GeometryView, *, colour: str = style.OUTLINE_COLOUR) -> None:
     """Thin lines on material interfaces and a slightly heavier outline of the body."""
     from matplotlib.collections import LineCollection
 
@@ -160,12 +169,12 @@ def draw_outlines(ax, view: GeometryView, *, colour: str = style.OUTLINE_COLOUR)
     x, y = view.grid.x, view.grid.y
     inner = merge_segments(_edges(mat, x, y, "interface"))
     outer = merge_segments(_edges(mat, x, y, "outline"))
-    ax.add_collection(LineCollection(inner, colors=colour, linewidths=0.35, alpha=0.8))
-    ax.add_collection(LineCollection(outer, colors=colour, linewidths=0.7))
+    ax.add_collection(LineCollection(list(inner), colors=colour, linewidths=0.35, alpha=0.8))
+    ax.add_collection(LineCollection(list(outer), colors=colour, linewidths=0.7))
 
 
 def draw_boundaries(
-    ax,
+    ax: Axes,
     view: GeometryView,
     *,
     width: float = 2.6,
@@ -186,7 +195,7 @@ def draw_boundaries(
         colour = style.BOUNDARY_COLOURS[k % len(style.BOUNDARY_COLOURS)]
         ax.add_collection(
             LineCollection(
-                merge_segments(view.face_ends[sel]),
+                list(merge_segments(view.face_ends[sel])),
                 colors=colour,
                 linewidths=width,
                 capstyle="projecting",
@@ -198,7 +207,7 @@ def draw_boundaries(
     if (view.face_boundary < 0).any():
         ax.add_collection(
             LineCollection(
-                merge_segments(view.face_ends[view.face_boundary < 0]),
+                list(merge_segments(view.face_ends[view.face_boundary < 0])),
                 colors=style.ADIABATIC_COLOUR,
                 linewidths=width * 0.5,
                 linestyles=(0, (2, 1.5)),
@@ -225,20 +234,20 @@ def isotherm_levels(lo: float, hi: float, n: int = 10) -> np.ndarray:
 
     if not hi > lo:
         return np.array([])
-    levels = MaxNLocator(nbins=n, steps=[1, 2, 2.5, 5, 10]).tick_values(lo, hi)
+    levels = np.asarray(MaxNLocator(nbins=n, steps=[1, 2, 2.5, 5, 10]).tick_values(lo, hi))
     return levels[(levels > lo) & (levels < hi)]
 
 
 def draw_isotherms(
-    ax,
+    ax: Axes,
     view: GeometryView,
     values: np.ndarray,
     levels: np.ndarray,
     *,
-    cmap=None,
-    norm=None,
+    cmap: str | Colormap | None = None,
+    norm: Normalize | None = None,
     labels: bool = True,
-):
+) -> QuadContourSet | None:
     """Isotherms through the cell centres, optionally labelled. With ``cmap`` and ``norm``
     each line is dark over light colours and light over dark ones."""
     if levels.size == 0:
@@ -305,7 +314,7 @@ def emptiest_corner(view: GeometryView, window: Window) -> tuple[str, float]:
     return where, best
 
 
-def add_scale_bar(ax, view: GeometryView, window: Window, *, min_free: float = 0.6) -> bool:
+def add_scale_bar(ax: Axes, view: GeometryView, window: Window, *, min_free: float = 0.6) -> bool:
     """A scale bar of a round length in metres in the emptiest corner of the window, if at
     least ``min_free`` of that corner is outside the body (the axes are in metres anyway).
     Returns whether it was drawn."""

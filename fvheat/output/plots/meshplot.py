@@ -2,13 +2,20 @@
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import numpy as np
 
 from fvheat.output.plots import layers, style
 from fvheat.output.view import GeometryView
 
+if TYPE_CHECKING:
+    from matplotlib.figure import Figure
 
-def mesh_figure(view: GeometryView, *, title: str = "", zoom: layers.Window | None = None):
+
+def mesh_figure(
+    view: GeometryView, *, title: str = "", zoom: layers.Window | None = None
+) -> Figure:
     """Cells of ``view`` outlined and coloured by material, boundaries coloured and named."""
     from matplotlib.collections import LineCollection
     from matplotlib.colors import BoundaryNorm, ListedColormap
@@ -27,7 +34,9 @@ def mesh_figure(view: GeometryView, *, title: str = "", zoom: layers.Window | No
         layers.draw_cells(ax, view, view.material, cmap=cmap, norm=norm)
         ax.add_collection(
             LineCollection(
-                layers.cell_edges(view), colors="#3c3c3c", linewidths=edge_width(fig, view, window)
+                list(layers.cell_edges(view)),
+                colors="#3c3c3c",
+                linewidths=edge_width(fig, view, window),
             )
         )
         layers.draw_outlines(ax, view)
@@ -59,7 +68,7 @@ def mesh_figure(view: GeometryView, *, title: str = "", zoom: layers.Window | No
     return fig
 
 
-def edge_width(fig, view: GeometryView, window: layers.Window) -> float:
+def edge_width(fig: Figure, view: GeometryView, window: layers.Window) -> float:
     """Cell-edge line width (pt): a tenth of the median visible cell size on the page."""
     x0, y0, x1, y1 = window
     pt_per_m = 72.0 * min(fig.get_figwidth() / (x1 - x0), fig.get_figheight() / (y1 - y0)) * 0.8

@@ -13,6 +13,7 @@ from __future__ import annotations
 import io
 import math
 from pathlib import Path
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -25,6 +26,9 @@ from fvheat.output.files import atomic_write
 from fvheat.output.plots import layers, style
 from fvheat.output.plots.meshplot import edge_width
 from fvheat.output.view import GeometryView, geometry_view
+
+if TYPE_CHECKING:
+    from matplotlib.figure import Figure
 
 #: the caution every preview carries
 PREVIEW_NOTE = "preview: no solve; check geometry, materials and boundary conditions before use"
@@ -83,7 +87,7 @@ def write_preview(case: Case, mesh: Mesh, path: str | Path, *, show_mesh: bool =
         raise CaseError(f"cannot write the preview: {err.strerror or err}", file=str(path)) from err
 
 
-def preview_figure(case: Case, mesh: Mesh, *, show_mesh: bool = False):
+def preview_figure(case: Case, mesh: Mesh, *, show_mesh: bool = False) -> Figure:
     """The model of ``case`` as meshed in ``mesh`` (a rectilinear grid), before any solve.
 
     With ``show_mesh`` the grid lines are drawn too: every one, or on fine grids every k-th
@@ -204,7 +208,7 @@ def _draw_mesh(fig, ax, geom: GeometryView, window: layers.Window) -> str:
     step = mesh_step(geom, style.axes_size(x1 - x0, y1 - y0, extra_width=0.4))
     width = min(0.45, edge_width(fig, geom, window) * step)
     lines = LineCollection(
-        layers.cell_edges(geom, step), colors="#5a5a5a", linewidths=width, zorder=2
+        list(layers.cell_edges(geom, step)), colors="#5a5a5a", linewidths=width, zorder=2
     )
     lines.set_gid(MESH_GID)
     ax.add_collection(lines)
@@ -397,12 +401,13 @@ def _outward(geom: GeometryView, a: np.ndarray, b: np.ndarray) -> np.ndarray:
 
 
 #: how the marks look (line and marker keywords of ``Axes.plot``), and their legend texts
-PROBE_STYLE = {"ls": "none", "marker": "o", "ms": 3.5, "mfc": "white", "mec": MARK_COLOUR}
-PROBE_LINE_STYLE = {"color": MARK_COLOUR, "lw": 0.9, "ls": (0, (1, 1.2))}
-CUT_STYLE = {"color": MARK_COLOUR, "lw": 1.0, "ls": "-."}
-CENTRE_STYLE = {"ls": "none", "marker": "P", "ms": 6, "mfc": "white", "mec": MARK_COLOUR}
-_NAME = {"fontsize": 6.5, "color": MARK_COLOUR, "zorder": 8, "textcoords": "offset points"}
-_NAME_BOX = {"boxstyle": "round,pad=0.15", "fc": "white", "ec": "none", "alpha": 0.8}
+_Style = dict[str, Any]
+PROBE_STYLE: _Style = {"ls": "none", "marker": "o", "ms": 3.5, "mfc": "white", "mec": MARK_COLOUR}
+PROBE_LINE_STYLE: _Style = {"color": MARK_COLOUR, "lw": 0.9, "ls": (0, (1, 1.2))}
+CUT_STYLE: _Style = {"color": MARK_COLOUR, "lw": 1.0, "ls": "-."}
+CENTRE_STYLE: _Style = {"ls": "none", "marker": "P", "ms": 6, "mfc": "white", "mec": MARK_COLOUR}
+_NAME: _Style = {"fontsize": 6.5, "color": MARK_COLOUR, "zorder": 8, "textcoords": "offset points"}
+_NAME_BOX: _Style = {"boxstyle": "round,pad=0.15", "fc": "white", "ec": "none", "alpha": 0.8}
 
 
 def _draw_markers(ax, case: Case) -> list:

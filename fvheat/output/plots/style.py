@@ -7,10 +7,16 @@ state), rendered with Agg, so plotting works headless and inside other programs.
 from __future__ import annotations
 
 import io
+from collections.abc import Iterator
 from contextlib import contextmanager
 from pathlib import Path
+from typing import TYPE_CHECKING, Any
 
-from fvheat.output.files import atomic_write
+from fvheat.output.files import atomic_write_bytes
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
+    from matplotlib.figure import Figure
 
 #: width of the text block of an A4 page with 20 mm margins, inches
 PAGE_WIDTH = 6.7
@@ -53,7 +59,7 @@ OUTLINE_COLOUR = "#262626"
 COLDEST_COLOUR = "#ff2bd6"
 LINE_COLOURS = ("#1d7874", "#c8553d", "#6a4c93", "#e07a1f", "#3a5a80", "#7f8c2a", "#b23a6f")
 
-RC = {
+RC: dict[Any, Any] = {
     "font.size": 8.0,
     "axes.titlesize": 9.0,
     "axes.labelsize": 8.0,
@@ -80,7 +86,7 @@ RC = {
 
 
 @contextmanager
-def style():
+def style() -> Iterator[None]:
     """Context in which fvheat figures are built (fonts, spines, colours)."""
     import matplotlib
 
@@ -88,7 +94,7 @@ def style():
         yield
 
 
-def new_figure(width: float, height: float):
+def new_figure(width: float, height: float) -> Figure:
     """A Figure (inches) with constrained layout and an Agg canvas."""
     from matplotlib.backends.backend_agg import FigureCanvasAgg
     from matplotlib.figure import Figure
@@ -111,13 +117,13 @@ def field_size(dx: float, dy: float, *, extra_width: float = 1.5) -> tuple[float
     return min(PAGE_WIDTH, max(w + extra_width, 3.6)), max(h + 1.6, 2.4)
 
 
-def legend_columns(fig, labels: list[str], fontsize: float = 7.5, most: int = 4) -> int:
+def legend_columns(fig: Figure, labels: list[str], fontsize: float = 7.5, most: int = 4) -> int:
     """How many legend entries fit side by side across the figure."""
     entry = max((len(t) for t in labels), default=1) * 0.6 * fontsize + 3.5 * fontsize
     return int(max(1, min(most, len(labels), (0.95 * fig.get_figwidth() * 72) // entry)))
 
 
-def boundary_legend(fig, handles: list) -> None:
+def boundary_legend(fig: Figure, handles: list) -> None:
     """The boundaries' legend below the axes (nothing when there are no handles)."""
     if not handles:
         return
@@ -131,7 +137,7 @@ def boundary_legend(fig, handles: list) -> None:
     )
 
 
-def wrap(text: str, fig, fontsize: float = 9.0, share: float = 0.95) -> str:
+def wrap(text: str, fig: Figure, fontsize: float = 9.0, share: float = 0.95) -> str:
     """``text`` wrapped to ``share`` of the figure's width (about 0.6 em per character)."""
     import textwrap
 
@@ -139,7 +145,7 @@ def wrap(text: str, fig, fontsize: float = 9.0, share: float = 0.95) -> str:
     return "\n".join(textwrap.wrap(text, chars)) if text else text
 
 
-def headings(fig, ax, title: str, subtitle: str = "", note: str = "") -> None:
+def headings(fig: Figure, ax: Axes, title: str, subtitle: str = "", note: str = "") -> None:
     """Bold figure title, a plain subtitle above the axes (left) and a small grey note
     (right), wrapped so that they do not run into each other."""
     if title:
@@ -159,7 +165,7 @@ def headings(fig, ax, title: str, subtitle: str = "", note: str = "") -> None:
         )
 
 
-def save(fig, path: str | Path, *, vector: bool = True) -> list[Path]:
+def save(fig: Figure, path: str | Path, *, vector: bool = True) -> list[Path]:
     """Write ``fig`` as ``path`` with suffix .png and, if ``vector``, .svg; atomically.
 
     The layout is computed once, for the PNG, and reused for the SVG.
@@ -177,9 +183,5 @@ def save(fig, path: str | Path, *, vector: bool = True) -> list[Path]:
         buf = io.BytesIO()
         with style():  # the same settings when drawing (e.g. the SVG's fixed id salt)
             fig.savefig(buf, format=suffix[1:], **opts)
-        out.append(
-            atomic_write(
-                path.with_suffix(suffix), lambda fh, b=buf: fh.write(b.getvalue()), binary=True
-            )
-        )
+        out.append(atomic_write_bytes(path.with_suffix(suffix), buf.getvalue()))
     return out

@@ -3,12 +3,16 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
 from fvheat.output.plots import layers, style
 from fvheat.output.view import FieldView
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
+    from matplotlib.figure import Figure
 
 COLDEST_GID = "coldest-point"
 
@@ -54,7 +58,7 @@ def temperature_figure(
     vrange: tuple[float, float] | None = None,
     zoom: layers.Window | None = None,
     caption: str = "",
-):
+) -> Figure:
     """The temperature map of ``view`` (°C) as a Figure.
 
     ``vrange`` fixes the colour range (°C), ``zoom`` the window (x0, y0, x1, y1) m;
@@ -84,7 +88,7 @@ def temperature_figure(
         cbar.outline.set_linewidth(0.5)
         if cs is not None:
             cbar.add_lines(cs)
-            cbar.set_ticks(levels[:: max(1, int(np.ceil(levels.size / 11)))])
+            cbar.set_ticks(list(levels[:: max(1, int(np.ceil(levels.size / 11)))]))
         if marked is not None:
             mark_point(ax, view, marked, window)
         layers.add_scale_bar(ax, view, window)
@@ -115,7 +119,7 @@ def _extend(view: FieldView, lo: float, hi: float) -> str:
     )
 
 
-def mark_point(ax, view: FieldView, marked: Marked, window: layers.Window) -> None:
+def mark_point(ax: Axes, view: FieldView, marked: Marked, window: layers.Window) -> None:
     """A diamond at the point and a boxed label with its value and position."""
     ax.plot(
         [marked.x],

@@ -3,11 +3,16 @@ snapshots of the temperature field at a few saved times."""
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import numpy as np
 
 from fvheat.output.plots import layers, style
 from fvheat.output.plots.temperature import time_label
 from fvheat.output.view import FieldView
+
+if TYPE_CHECKING:
+    from matplotlib.figure import Figure
 
 #: hour steps for time-axis ticks
 HOUR_STEPS = (1, 2, 3, 6, 12, 24)
@@ -18,7 +23,7 @@ def time_axis(times: np.ndarray) -> tuple[np.ndarray, str, float]:
     span = float(np.ptp(times)) if np.size(times) else 0.0
     if span <= 4 * 86400:
         hours = span / 3600
-        step = next((s for s in HOUR_STEPS if hours / s <= 12), 24)
+        step: float = next((s for s in HOUR_STEPS if hours / s <= 12), 24)
         return np.asarray(times) / 3600, "time (h)", float(step)
     days = span / 86400
     step = max(1.0, float(np.ceil(days / 12)))
@@ -50,14 +55,14 @@ def _series_figure(
     return fig
 
 
-def probe_figure(times: np.ndarray, probes: dict[str, np.ndarray], *, title: str = ""):
+def probe_figure(times: np.ndarray, probes: dict[str, np.ndarray], *, title: str = "") -> Figure:
     """Probe temperatures (°C) against time (s on input; hours or days on the axis)."""
     return _series_figure(
         times, probes, "temperature (°C)", title, "probe temperatures", style.LINE_COLOURS
     )
 
 
-def flow_figure(times: np.ndarray, flows: dict[str, np.ndarray], *, title: str = ""):
+def flow_figure(times: np.ndarray, flows: dict[str, np.ndarray], *, title: str = "") -> Figure:
     """Boundary heat flows (W/m, positive into the body) against time, each boundary in its
     colour of the maps (``flows`` in the case's boundary order)."""
     fig = _series_figure(
@@ -78,7 +83,7 @@ def front_figure(
     frozen_area: np.ndarray | None,
     *,
     title: str = "",
-):
+) -> Figure:
     """Phase-change front positions along the probe lines (m from each line's start) and
     the frozen area (m², second axis) against time."""
     fig = _series_figure(
@@ -112,7 +117,7 @@ def snapshot_figure(
     title: str = "",
     vrange: tuple[float, float] | None = None,
     zoom: layers.Window | None = None,
-):
+) -> Figure:
     """Temperature maps of several saved fields side by side on one colour scale."""
     from matplotlib.colors import Normalize
 
@@ -144,6 +149,7 @@ def snapshot_figure(
             ax.label_outer()
         for ax in axes[n:]:
             ax.set_visible(False)
+        assert quad is not None  # views is not empty
         cbar = fig.colorbar(quad, ax=list(axes[:n]), shrink=0.8, pad=0.02, aspect=30)
         cbar.set_label("temperature (°C)")
         cbar.outline.set_linewidth(0.5)
