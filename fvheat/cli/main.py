@@ -63,6 +63,15 @@ def run(
     no_plots: Annotated[
         bool, typer.Option("--no-plots", help="Skip the figures (the slowest output).")
     ] = False,
+    sensitivities: Annotated[
+        bool | None,
+        typer.Option(
+            "--sensitivities/--no-sensitivities",
+            help="Derivatives of ψ, L2D, U_f, f_Rsi, θ_si,min and heat flows with respect to "
+            "every conductivity and surface resistance (steady runs; adjoint).",
+            show_default=False,
+        ),
+    ] = None,
 ) -> None:
     """Solve a case; write summary.json, timeseries.csv (transient), fields, cells.csv,
     figures and report.html to OUT."""
@@ -76,6 +85,7 @@ def run(
         as_json=as_json,
         grid_check=grid_check,
         plots=not no_plots,
+        sensitivities=sensitivities,
     )
 
 

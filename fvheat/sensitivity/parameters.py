@@ -18,7 +18,8 @@ from fvheat.case.model import Case
 @dataclass(frozen=True)
 class Parameter:
     """One input: its ``--set`` key, its value in the case, and what it is: ``"conductivity"``
-    of material ``name`` or ``"resistance"`` / ``"convection"`` of boundary ``name``."""
+    of material ``name``, ``"resistance"`` / ``"convection"`` of boundary ``name``, or
+    ``"parameter"``, a ``[parameters]`` entry (by finite differences)."""
 
     key: str
     value: float
@@ -27,7 +28,7 @@ class Parameter:
 
     @property
     def on_boundary(self) -> bool:
-        return self.kind != "conductivity"
+        return self.kind in ("resistance", "convection")
 
     def from_h(self, h: float) -> float:
         """Factor turning a derivative with respect to the surface coefficient h (W/(m²·K))
@@ -35,7 +36,7 @@ class Parameter:
         return -h * h if self.kind == "resistance" else 1.0
 
 
-def _quote(name: str) -> str:
+def quote_key(name: str) -> str:
     """A key segment as ``--set`` reads it (quoted when it is not a bare TOML key)."""
     bare = name.replace("_", "").replace("-", "").isalnum() and name.isascii()
     return name if bare else '"' + name.replace('"', '\\"') + '"'
@@ -44,7 +45,7 @@ def _quote(name: str) -> str:
 def case_parameters(case: Case) -> list[Parameter]:
     """The parameters of ``case``: material conductivities, then boundary coefficients."""
     out = [
-        Parameter(f"materials.{_quote(n)}.conductivity", m.conductivity, "conductivity", n)
+        Parameter(f"materials.{quote_key(n)}.conductivity", m.conductivity, "conductivity", n)
         for n, m in case.materials.items()
         if not m.cavity
     ]
@@ -54,13 +55,13 @@ def case_parameters(case: Case) -> list[Parameter]:
         if b.resistance is not None:
             out.append(
                 Parameter(
-                    f"boundaries.{_quote(b.name)}.resistance", b.resistance, "resistance", b.name
+                    f"boundaries.{quote_key(b.name)}.resistance", b.resistance, "resistance", b.name
                 )
             )
         else:
             out.append(
                 Parameter(
-                    f"boundaries.{_quote(b.name)}.convection", b.convection, "convection", b.name
+                    f"boundaries.{quote_key(b.name)}.convection", b.convection, "convection", b.name
                 )
             )
     return out

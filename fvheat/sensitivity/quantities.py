@@ -53,20 +53,31 @@ def check_sensitivities_possible(case: Case) -> None:
         )
 
 
-def study_sensitivities(study: Study) -> Sensitivities:
-    """Adjoint sensitivities of a steady ``study``'s heat flows and junction results."""
+#: finite-difference columns to append: parameters, derivatives (quantities × parameters)
+#: and the quantity names of its rows
+Extra = tuple[list[Parameter], np.ndarray, list[str]]
+
+
+def study_sensitivities(study: Study, extra: Extra | None = None) -> Sensitivities:
+    """Adjoint sensitivities of a steady ``study``'s heat flows and junction results, with
+    the ``extra`` (finite-difference) columns appended."""
     solution = study.solution
     case = solution.case
     check_sensitivities_possible(case)
     params = case_parameters(case)
     names = [b.name for b in case.boundaries]
-    values, d = _solve(solution, params, _flow_weights(solution), {})
+    values, d = _solve(solution, params, _flow_weights(solution), set())
     out: dict[str, tuple[float, np.ndarray]] = {
         f"heat_flow_{n}": (float(values[k]), d[k]) for k, n in enumerate(names)
     }
     j = study.junction
     if j is not None and case.junction is not None:
         out.update(_junction(study, j, params, values, d))
+    if extra is not None:
+        more, d_more, rows = extra
+        for q, (v, dq) in out.items():
+            out[q] = (v, np.concatenate([dq, d_more[rows.index(q)]]))
+        params = params + more
     return Sensitivities.build(params, out)
 
 
@@ -90,7 +101,10 @@ def _junction(
     if j.u_f is not None and junction.frame_width is not None:
         out["U_f"] = (j.u_f, d_psi / junction.frame_width)
     surface = study.surface_solution or study.solution
-    replaced = _replaced_boundaries(case, surface.case)
+    # the condensation resistances replace these boundaries' own (even when the values
+    # happen to be equal and no separate solve is needed): their keys do not reach f_Rsi
+    r = junction.surface_resistances.values
+    replaced = set(r) if r is not None else set()
     weights = _coldest_point_weights(surface, junction.f_rsi_boundaries or junction.inside)
     theta, d_theta = _solve(surface, params, weights, replaced)
     out["theta_si_min"] = (float(theta[0]), d_theta[0])
@@ -109,7 +123,7 @@ def _solve(
     boundaries in ``skip`` do not depend on their parameter in this solve."""
     system = solution.system
     mesh = solution.mesh
-    index = {(p.kind != "conductivity", p.name): i for i, p in enumerate(params)}
+    index = {(p.on_boundary, p.name): i for i, p in enumerate(params) if p.kind != "parameter"}
     material_param = np.array([index.get((False, m), -1) for m in mesh.material_names], dtype=int)
     boundary_param = np.array(
         [
@@ -169,14 +183,6 @@ def _coldest_point_weights(
         wt[face, 0] += w
         wt[other, 0] -= w
     return np.zeros_like(wt), wt
-
-
-def _replaced_boundaries(case: Case, surface_case: Case) -> set[str]:
-    """Boundaries whose surface coefficient the surface-temperature case replaced (by the
-    condensation resistances): their own key does not reach that solve."""
-    if surface_case is case:
-        return set()
-    return {a.name for a, b in zip(case.boundaries, surface_case.boundaries, strict=True) if a != b}
 
 
 def _flanking_derivative(
