@@ -90,6 +90,62 @@ def run(
 
 
 @app.command()
+def target(
+    case_file: CaseArg,
+    vary: Annotated[
+        str,
+        typer.Option("--vary", help="The key to change (any key --set takes).", show_default=False),
+    ],
+    goal: Annotated[
+        str,
+        typer.Option(
+            "--goal",
+            help='The goal, e.g. "psi<=0.20", "f_Rsi>=0.75" (psi, L2D, U_f, f_Rsi, '
+            "theta_si_min, heat_flow_<boundary>).",
+            show_default=False,
+        ),
+    ],
+    between: Annotated[
+        tuple[float, float] | None,
+        typer.Option("--between", help="Bracket LO HI of the key's values.", show_default=False),
+    ] = None,
+    out: Annotated[
+        Path | None,
+        typer.Option(
+            "--out",
+            "-o",
+            help="Folder of the final run (default: CASE-STEM_target).",
+            show_default=False,
+        ),
+    ] = None,
+    tolerance: Annotated[
+        float | None,
+        typer.Option(
+            "--tolerance",
+            help="Accepted distance from the target, in its unit (default 1e-4 of the target).",
+            show_default=False,
+        ),
+    ] = None,
+    set_: SetOpt = None,
+    quiet: QuietOpt = False,
+) -> int:
+    """Find the value of one key at which a result meets a goal (bracketing root search
+    over full runs); write the final run and target.json to OUT."""
+    from fvheat.cli.target_command import target_case
+
+    return target_case(
+        case_file,
+        vary,
+        goal,
+        between=between,
+        out=out,
+        overrides=tuple(set_ or ()),
+        tolerance=tolerance,
+        quiet=quiet,
+    )
+
+
+@app.command()
 def check(
     case_file: CaseArg,
     set_: SetOpt = None,
