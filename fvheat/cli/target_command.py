@@ -11,8 +11,8 @@ from fvheat.output.files import atomic_write_text
 from fvheat.output.paths import check_output_folder
 from fvheat.run import run_to_folder
 from fvheat.target.goal import parse_goal
-from fvheat.target.search import Step, Unreachable, default_tolerance
 from fvheat.target.runner import search_target
+from fvheat.target.search import Step, Unreachable, default_tolerance
 
 TARGET_FILE = "target.json"
 

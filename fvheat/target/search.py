@@ -5,7 +5,8 @@ Illinois variant of regula falsi (Dowell & Jarratt, 1971, from memory): keep a b
 [a, b] with q − target of opposite signs at its ends, take the secant point, and halve the
 weight of the end kept when the new point falls on the same side as the last, so that
 convergence stays superlinear. It stops when a run's q is within ``tolerance`` of the
-target on the side that meets the goal, or after ``max_runs`` runs. Every step is one full run of the case.
+target on the side that meets the goal, or after ``max_runs`` runs. Every step is one full
+run of the case.
 """
 
 from __future__ import annotations
