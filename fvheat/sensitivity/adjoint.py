@@ -28,7 +28,7 @@ from scipy.constants import Stefan_Boltzmann as SIGMA
 from scipy.constants import zero_Celsius as KELVIN
 
 from fvheat.assembly.system import System
-from fvheat.solve.linear import LinearSolver, SolverChoice, make_solver
+from fvheat.solve.linear import DirectSolver, LinearSolver, SolverChoice, make_solver
 
 
 @dataclass(frozen=True)
@@ -91,12 +91,8 @@ def solve_adjoint(
         factor = make_solver(adjoint_operator(system, temp), method)
     if rhs.shape[1] == 0:
         return rhs.copy()
-    try:
-        out = factor.solve(rhs)
-        if out.shape == rhs.shape:
-            return np.asarray(out)
-    except (ValueError, TypeError):
-        pass
+    if isinstance(factor, DirectSolver):  # SuperLU back-substitutes all columns at once
+        return np.asarray(factor.solve(rhs)).reshape(rhs.shape)
     return np.column_stack([factor.solve(rhs[:, j]) for j in range(rhs.shape[1])])
 
 

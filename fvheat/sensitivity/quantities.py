@@ -66,9 +66,14 @@ def study_sensitivities(study: Study, extra: Extra | None = None) -> Sensitiviti
     check_sensitivities_possible(case)
     params = case_parameters(case)
     names = [b.name for b in case.boundaries]
-    values, d = _solve(solution, params, _flow_weights(solution), set())
+    # the boundary flows of a steady state sum to zero for every p (Σ_cells R = Σ_b Φ_b = 0):
+    # the last one's derivative is minus the sum of the others', one adjoint solve fewer
+    values, d = _solve(solution, params, _flow_weights(solution, len(names) - 1), set())
+    values = np.append(values, -values.sum()) if names else values
+    d = np.vstack([d, -d.sum(axis=0)]) if names else d
+    flows = [solution.surfaces[n].heat_flow for n in names]
     out: dict[str, tuple[float, np.ndarray]] = {
-        f"heat_flow_{n}": (float(values[k]), d[k]) for k, n in enumerate(names)
+        f"heat_flow_{n}": (float(flows[k]), d[k]) for k, n in enumerate(names)
     }
     j = study.junction
     if j is not None and case.junction is not None:
@@ -151,12 +156,12 @@ def _solve(
     return values, d
 
 
-def _flow_weights(solution: Solution) -> tuple[np.ndarray, np.ndarray]:
-    """Face weights giving every boundary's heat flow (faces × boundaries)."""
+def _flow_weights(solution: Solution, count: int) -> tuple[np.ndarray, np.ndarray]:
+    """Face weights giving the heat flows of the first ``count`` boundaries (faces × count)."""
     s = solution.system.surface
-    nb = len(s.boundaries)
-    wf = np.zeros((s.bid.size, nb))
-    wf[np.arange(s.bid.size), s.bid] = 1.0
+    wf = np.zeros((s.bid.size, max(count, 0)))
+    keep = s.bid < count
+    wf[np.flatnonzero(keep), s.bid[keep]] = 1.0
     return wf, np.zeros_like(wf)
 
 
