@@ -31,4 +31,6 @@ def print_sensitivities(con, s: Sensitivities) -> None:
     for q in s.quantities:
         if q != lead and not q.startswith("heat_flow_"):
             con.print("  " + describe(s, q))
+    if any(p.kind == "parameter" for p in s.parameters):
+        con.print("  parameters.* keys: central differences of two full remeshed runs each")
     con.print("  (all quantities and keys: summary.json → sensitivities)")

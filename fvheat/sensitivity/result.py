@@ -77,7 +77,12 @@ class Sensitivities:
         """``{quantity: {key: {"derivative", "elasticity", "value"}}}`` plus a ``note``."""
         out: dict[str, Any] = {
             q: {
-                k: {"derivative": e.derivative, "elasticity": e.elasticity, "value": e.value}
+                k: {
+                    "derivative": e.derivative,
+                    "elasticity": e.elasticity,
+                    "value": e.value,
+                    "method": METHOD_FD if k.startswith("parameters.") else METHOD_ADJOINT,
+                }
                 for k, e in entries.items()
             }
             for q, (_, entries) in self.quantities.items()
@@ -86,10 +91,13 @@ class Sensitivities:
         return out
 
 
+METHOD_ADJOINT = "adjoint"
+METHOD_FD = "central difference of two full runs"
 NOTE = (
     "discrete adjoint of the steady solve: derivative in the unit of the quantity per unit of "
     "the key, elasticity = derivative × key value / quantity value; theta_si_min and f_Rsi "
-    "are differentiated at the fixed location of the minimum"
+    "are differentiated at the fixed location of the minimum; keys under parameters. (geometry) "
+    "are central differences of two full remeshed runs (relative step 1e-3), not adjoint"
 )
 
 
