@@ -12,7 +12,7 @@ from fvheat.checks import check_model
 from fvheat.mesh.rectilinear import build_mesh
 from fvheat.output.lock import folder_lock
 from fvheat.output.paths import check_output_folder
-from fvheat.sensitivity.quantities import check_sensitivities_possible
+from fvheat.sensitivity.quantities import case_for_sensitivities, check_sensitivities_possible
 from fvheat.simulate import Progress
 from fvheat.study import Study, run_study
 
@@ -42,6 +42,7 @@ def run_to_folder(
     want = case.sensitivities if sensitivities is None else sensitivities
     if want:
         check_sensitivities_possible(case)
+        case = case_for_sensitivities(case)
     out = Path(out)
     check_output_folder(out, "--out")
     mesh = build_mesh(case)

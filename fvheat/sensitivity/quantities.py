@@ -18,7 +18,7 @@ from dataclasses import replace
 
 import numpy as np
 
-from fvheat.case.model import Case
+from fvheat.case.model import Case, SolverSettings
 from fvheat.errors import CaseError
 from fvheat.evaluate.ground import ground_floor
 from fvheat.evaluate.junction import FlankingResult, JunctionResult
@@ -56,6 +56,23 @@ def check_sensitivities_possible(case: Case) -> None:
 #: finite-difference columns to append: parameters, derivatives (quantities × parameters)
 #: and the quantity names of its rows
 Extra = tuple[list[Parameter], np.ndarray, list[str]]
+
+
+#: with sensitivities, "auto" solves steady problems directly up to this many cells (instead
+#: of SolverSettings.amg_above): a kept LU factorisation makes every adjoint solve a cheap
+#: back-substitution, while each AMG-CG adjoint costs a full CG solve. Measured crossover on
+#: 2 cores (scripts/bench.py --sensitivities and by hand): about 150 000 cells.
+DIRECT_LIMIT = 150_000
+
+
+def case_for_sensitivities(case: Case) -> Case:
+    """``case`` with the direct solver preferred up to :data:`DIRECT_LIMIT` cells when its
+    ``[solver]`` is left at "auto" with the default AMG threshold (same results to the
+    solver tolerance)."""
+    s = case.solver
+    if s.method != "auto" or s.amg_above != SolverSettings().amg_above:
+        return case
+    return replace(case, solver=replace(s, amg_above=max(s.amg_above, DIRECT_LIMIT)))
 
 
 def study_sensitivities(study: Study, extra: Extra | None = None) -> Sensitivities:

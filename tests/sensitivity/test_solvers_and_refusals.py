@@ -29,3 +29,16 @@ def test_transient_run_refused_in_one_line(tmp_path: Path, capsys) -> None:
     err = capsys.readouterr().err.strip()
     assert len(err.splitlines()) == 1 and "sensitivities" in err and message in err
     assert not (tmp_path / "o").exists()
+
+
+def test_direct_solver_preferred_only_when_left_to_auto() -> None:
+    """With sensitivities, "auto" keeps LU factorisations up to 150 000 cells (adjoint
+    solves are then back-substitutions); an explicit choice is left alone."""
+    from fvheat.case.load import load_case
+    from fvheat.sensitivity.quantities import DIRECT_LIMIT, case_for_sensitivities
+
+    path = CASES / "balcony_slab.toml"
+    assert case_for_sensitivities(load_case(path)).solver.amg_above == DIRECT_LIMIT
+    for chosen in (["solver.method=amg"], ["solver.amg_above=1000"]):
+        case = load_case(path, chosen)
+        assert case_for_sensitivities(case) is case
