@@ -28,6 +28,7 @@ def print_sensitivities(con, s: Sensitivities) -> None:
         el = "–" if e.elasticity is None else f"{e.elasticity:+.4f}"
         t.add_row(e.key, f"{e.value:.4g}", f"{e.derivative:.4g}", el)
     con.print(t)
+    con.print("  " + describe(s, lead))
     for q in s.quantities:
         if q != lead and not q.startswith("heat_flow_"):
             con.print("  " + describe(s, q))
