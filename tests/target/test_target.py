@@ -149,3 +149,56 @@ def test_missing_key_exits_2(tmp_path: Path, capsys) -> None:
     )
     assert code == 2
     assert "materials.glass.conductivity" in capsys.readouterr().err
+
+
+@pytest.mark.slow
+def test_temperature_key_and_heat_flow_goal(tmp_path: Path) -> None:
+    """A key that may be negative (the outside air temperature, no sensitivity: the bracket
+    grows in steps from the case's −5 °C) and a goal on a boundary heat flow."""
+    key = "boundaries.outside.air_temperature"
+    out = tmp_path / "a"
+    assert (
+        main(
+            [
+                "target",
+                str(BALCONY),
+                "--vary",
+                key,
+                "--goal",
+                "theta_si_min>=15",
+                "--out",
+                str(out),
+                "-q",
+            ]
+        )
+        == 0
+    )
+    t = json.loads((out / "target.json").read_text())
+    assert 15.0 <= t["achieved"] <= 15.0 + t["tolerance"]
+    assert _fresh(key, t["value"])["theta_si_min"] == pytest.approx(t["achieved"], rel=1e-10)
+    # θ_si,min is linear in the outside temperature (a linear problem; superposition): the
+    # straight line through two other runs gives the achieved value at the found one
+    a, b = _fresh(key, -5.0)["theta_si_min"], _fresh(key, 5.0)["theta_si_min"]
+    line = a + (t["value"] + 5.0) * (b - a) / 10.0
+    assert line == pytest.approx(t["achieved"], abs=1e-9)
+
+    out = tmp_path / "h"
+    key = "materials.slab.conductivity"
+    assert (
+        main(
+            [
+                "target",
+                str(BALCONY),
+                "--vary",
+                key,
+                "--goal",
+                "heat_flow_outside>=-40",
+                "--out",
+                str(out),
+                "-q",
+            ]
+        )
+        == 0
+    )
+    t = json.loads((out / "target.json").read_text())
+    assert -40.0 <= t["achieved"] <= -40.0 + t["tolerance"]
