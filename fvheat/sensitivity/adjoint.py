@@ -117,6 +117,7 @@ def derivatives(
     s = system.surface
     mesh = system.mesh
     n = system.n
+    _check_conductance_forms(system)
     fp = face_partials(system, temp)
     q = weights_flux.shape[1]
     values = weights_flux.T @ fp.flux + weights_ts.T @ fp.ts
@@ -147,6 +148,19 @@ def derivatives(
     _scatter(out, pm[o], core * (mesh.d_owner / k[o] ** 2)[:, None])
     _scatter(out, pm[nb], core * (mesh.d_neighbour / k[nb] ** 2)[:, None])
     return values, out
+
+
+def _check_conductance_forms(system: System) -> None:
+    """The derivatives above assume G = A/(d_o/k_o + d_n/k_n) and g_c = k/d, the forms
+    :mod:`fvheat.assembly` uses; fail loudly rather than differentiate another form."""
+    mesh, k, s = system.mesh, system.k, system.surface
+    g = mesh.face_area / (mesh.d_owner / k[mesh.owner] + mesh.d_neighbour / k[mesh.neighbour])
+    gc = k[s.cell] / mesh.b_dist[s.face]
+    if not (np.allclose(system.g, g, rtol=1e-12, atol=0) and np.allclose(s.gc, gc, rtol=1e-12)):
+        raise NotImplementedError(
+            "the adjoint assumes harmonic-mean face conductances and g_c = k/d; the assembly "
+            "uses another form (update fvheat/sensitivity/adjoint.py)"
+        )
 
 
 def _scatter(out: np.ndarray, index: np.ndarray, contrib: np.ndarray) -> None:
