@@ -39,7 +39,7 @@ from fvheat.case.overrides import apply_overrides
 from fvheat.case.parameters import parse_parameters, substitute
 from fvheat.case.probes import parse_probe_lines, parse_probes
 from fvheat.case.regions import parse_regions
-from fvheat.case.sensitivities import parse_sensitivities
+from fvheat.case.sensitivities import check_sensitivities, parse_sensitivities
 from fvheat.case.signals import Series
 from fvheat.case.solver import parse_solver
 from fvheat.case.timing import parse_time
@@ -181,6 +181,7 @@ register_section("solver", parse_solver)
 register_section("sensitivities", parse_sensitivities)
 register_section("ground", parse_ground)  # last: adds its soil to the regions, boundaries
 register_check(check_junction_side_kinds)
+register_check(check_sensitivities)
 
 
 # --- whole-case checks ---------------------------------------------------------------------

@@ -11,6 +11,7 @@ from __future__ import annotations
 from typing import Any
 
 from fvheat.case.fields import Context, Invalid, describe, join, table
+from fvheat.case.model import Case
 
 
 def parse_sensitivities(value: Any, ctx: Context) -> bool:
@@ -24,3 +25,23 @@ def parse_sensitivities(value: Any, ctx: Context) -> bool:
             join("sensitivities", "enabled"), f"expected true or false, got {describe(enabled)}"
         )
     return enabled
+
+
+def sensitivity_problem(case: Case) -> str | None:
+    """Why adjoint sensitivities do not apply to ``case`` (one line), or None."""
+    if case.transient:
+        return "sensitivities are computed for steady runs only; remove [time] or ask without"
+    for name, m in case.materials.items():
+        frozen = None if m.frozen is None else m.frozen.conductivity
+        if m.phase_change is not None and frozen is not None and frozen != m.conductivity:
+            return (
+                "sensitivities are not available with phase-dependent conductivity "
+                f"(material {name!r})"
+            )
+    return None
+
+
+def check_sensitivities(case: Case) -> None:
+    """Whole-case check: ``[sensitivities] enabled = true`` only where they apply."""
+    if case.sensitivities and (problem := sensitivity_problem(case)) is not None:
+        raise Invalid(join("sensitivities", "enabled"), problem)

@@ -19,6 +19,7 @@ from dataclasses import replace
 import numpy as np
 
 from fvheat.case.model import Case, SolverSettings
+from fvheat.case.sensitivities import sensitivity_problem
 from fvheat.errors import CaseError
 from fvheat.evaluate.ground import ground_floor
 from fvheat.evaluate.junction import FlankingResult, JunctionResult
@@ -32,30 +33,9 @@ from fvheat.study import Study
 
 def check_sensitivities_possible(case: Case) -> None:
     """:class:`CaseError` when adjoint sensitivities do not apply to ``case``."""
-    if case.transient:
-        raise CaseError(
-            "sensitivities are computed for steady runs only; remove [time] or run without "
-            "--sensitivities",
-            file=str(case.source),
-            key="sensitivities",
-        )
-    varying = [
-        n
-        for n, m in case.materials.items()
-        if m.frozen is not None and m.frozen.conductivity is not None
-    ]
-    if varying:
-        raise CaseError(
-            f"sensitivities are not available with phase-dependent conductivity (material "
-            f"{varying[0]!r})",
-            file=str(case.source),
-            key="sensitivities",
-        )
-
-
-#: finite-difference columns to append: parameters, derivatives (quantities × parameters)
-#: and the quantity names of its rows
-Extra = tuple[list[Parameter], np.ndarray, list[str]]
+    problem = sensitivity_problem(case)
+    if problem is not None:
+        raise CaseError(problem, file=str(case.source), key="--sensitivities")
 
 
 #: with sensitivities, "auto" solves steady problems directly up to this many cells (instead
@@ -73,6 +53,11 @@ def case_for_sensitivities(case: Case) -> Case:
     if s.method != "auto" or s.amg_above != SolverSettings().amg_above:
         return case
     return replace(case, solver=replace(s, amg_above=max(s.amg_above, DIRECT_LIMIT)))
+
+
+#: finite-difference columns to append: parameters, derivatives (quantities × parameters)
+#: and the quantity names of its rows
+Extra = tuple[list[Parameter], np.ndarray, list[str]]
 
 
 def study_sensitivities(study: Study, extra: Extra | None = None) -> Sensitivities:

@@ -42,3 +42,43 @@ def test_direct_solver_preferred_only_when_left_to_auto() -> None:
     for chosen in (["solver.method=amg"], ["solver.amg_above=1000"]):
         case = load_case(path, chosen)
         assert case_for_sensitivities(case) is case
+
+
+SOIL_WALL = """
+[sensitivities]
+enabled = true
+[mesh]
+max_cell = 0.05
+[materials.soil]
+conductivity = 1.5
+density = 1800
+specific_heat = 1400
+latent_heat = 100000
+phase_change = [-0.5, 0.0]
+frozen = { conductivity = 2.2 }
+[[regions]]
+material = "soil"
+box = [0, 0, 0.4, 0.2]
+[[boundaries]]
+name = "in"
+edges = [[[0, 0], [0, 0.2]]]
+air_temperature = 5
+resistance = 0.13
+[[boundaries]]
+name = "out"
+edges = [[[0.4, 0], [0.4, 0.2]]]
+air_temperature = -10
+resistance = 0.04
+"""
+
+
+def test_case_asking_where_they_do_not_apply_is_bad_input(tmp_path: Path, capsys) -> None:
+    """[sensitivities] enabled with phase-dependent conductivity: refused at load time
+    (also by `fvheat check`), naming the key."""
+    path = tmp_path / "soil.toml"
+    path.write_text(SOIL_WALL)
+    assert main(["check", str(path)]) == 2
+    err = capsys.readouterr().err.strip()
+    assert "sensitivities.enabled" in err and "phase-dependent conductivity" in err
+    path.write_text(SOIL_WALL.replace("frozen = { conductivity = 2.2 }", ""))
+    assert main(["check", str(path)]) == 0
