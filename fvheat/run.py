@@ -12,6 +12,7 @@ from fvheat.checks import check_model
 from fvheat.mesh.rectilinear import build_mesh
 from fvheat.output.lock import folder_lock
 from fvheat.output.paths import check_output_folder
+from fvheat.sensitivity.quantities import case_for_sensitivities, check_sensitivities_possible
 from fvheat.simulate import Progress
 from fvheat.study import Study, run_study
 
@@ -24,18 +25,24 @@ def run_to_folder(
     grid_check: bool | None = None,
     plots: bool = True,
     progress: Progress | None = None,
+    sensitivities: bool | None = None,
 ) -> tuple[Study, dict[str, Any]]:
     """Validate, mesh and check the model and the output folder (before anything is
     written), take the folder's lock, solve, clear the outputs of an earlier run, then
     write ``summary.json``, ``timeseries.csv`` (transient) and the other outputs into
     ``out``. Returns the study and the summary dictionary (with ``solve_seconds``, the wall
-    time of the solves). A folder this run created is removed again if the run fails
-    before writing anything into it."""
+    time of the solves). ``sensitivities`` overrides the case's ``[sensitivities] enabled``
+    (adjoint sensitivities, plus finite differences for ``[parameters]``). A folder this
+    run created is removed again if the run fails before writing anything into it."""
     from fvheat.output.folder import clear_outputs
     from fvheat.output.summary import build_summary, write_summary
     from fvheat.output.timeseries import write_timeseries
 
     case = load_case(case_file, overrides)
+    want = case.sensitivities if sensitivities is None else sensitivities
+    if want:
+        check_sensitivities_possible(case)
+        case = case_for_sensitivities(case)
     out = Path(out)
     check_output_folder(out, "--out")
     mesh = build_mesh(case)
@@ -47,8 +54,14 @@ def run_to_folder(
             study = run_study(
                 case, mesh=mesh, progress=progress, check_grid=grid_check, warnings=warnings
             )
+            t1 = time.perf_counter()
+            if want:
+                study.sensitivities = _sensitivities(case_file, overrides, study)
+            t2 = time.perf_counter()
             summary = build_summary(study, overrides)
             summary["solve_seconds"] = time.perf_counter() - t0
+            if want:
+                summary["sensitivity_seconds"] = t2 - t1
             clear_outputs(out)
             write_summary(out / "summary.json", summary)
             if case.transient:
@@ -61,3 +74,18 @@ def run_to_folder(
             out.rmdir()
         raise
     return study, summary
+
+
+def _sensitivities(case_file: Path, overrides: tuple[str, ...], study: Study):
+    """Adjoint sensitivities of ``study``, with finite differences for ``[parameters]``."""
+    from fvheat.sensitivity.finite import parameter_derivatives
+    from fvheat.sensitivity.named import quantity_names
+    from fvheat.sensitivity.quantities import study_sensitivities
+
+    params = study.solution.case.parameters
+    extra = None
+    if params:
+        names = quantity_names(study)
+        more, d = parameter_derivatives(case_file, overrides, params, names)
+        extra = (more, d, names)
+    return study_sensitivities(study, extra)

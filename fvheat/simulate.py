@@ -22,9 +22,9 @@ from fvheat.evaluate.probes import probe_operator
 from fvheat.evaluate.surfaces import SurfaceResult, surface_results
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.rectilinear import build_mesh
-from fvheat.solve.linear import Method, SolverChoice
+from fvheat.solve.linear import LinearSolver, Method, SolverChoice
 from fvheat.solve.phase_change import evolve_enthalpy, solve_steady_phase
-from fvheat.solve.steady import solve_steady
+from fvheat.solve.steady import solve_steady, solve_steady_kept
 from fvheat.solve.transient import evolve
 
 log = logging.getLogger(__name__)
@@ -64,6 +64,8 @@ class Solution:
     periodic: PeriodicResponse | None = None
     condensation: CondensationHours | None = None
     extremes: RunExtremes | None = None
+    #: steady linear runs: the solver (factorisation) of the system matrix, for adjoint solves
+    factor: LinearSolver | None = None
 
 
 def simulate(
@@ -88,12 +90,18 @@ def simulate(
     names = [b.name for b in case.boundaries]
 
     if case.time is None:
-        temp = _steady(system, model, solver)
+        factor = None
+        if model.variable_conductivity:
+            temp = _steady(system, model, solver)
+        else:
+            temp, factor = solve_steady_kept(system, 0.0, method=solver)
         system = _at_phase(system, model, temp)
         flows = system.boundary_flows(temp, 0.0)
         noise = ISOTHERMAL_K * system.surface_conductance
         balance = EnergyBalance(dict(zip(names, map(float, flows), strict=True)), 0.0, noise)
-        return _solution(case, mesh, system, temp, 0.0, probe_op, balance, None)
+        out = _solution(case, mesh, system, temp, 0.0, probe_op, balance, None)
+        out.factor = factor
+        return out
 
     c = case.condensation
     hours_case = None if c is None else with_surface_resistances(case, c.surface_resistances)

@@ -13,6 +13,7 @@ from fvheat.evaluate.coupling import CouplingResult, coupling_coefficients
 from fvheat.evaluate.junction import JunctionResult, evaluate_junction
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.rectilinear import build_mesh
+from fvheat.sensitivity.result import Sensitivities
 from fvheat.simulate import Progress, Solution, simulate
 
 #: ISO 10211 (from memory): the sum of absolute heat flows must change by less than 1 % when
@@ -101,6 +102,7 @@ class Study:
     grid: GridCheck | None = None
     warnings: list[str] = field(default_factory=list)
     coupling: CouplingResult | None = None
+    sensitivities: Sensitivities | None = None
 
     @property
     def all_warnings(self) -> list[str]:

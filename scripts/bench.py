@@ -667,6 +667,57 @@ def report(
         )
 
 
+def sensitivity_overhead(work: Path, repeat: int, quick: bool) -> int:
+    """Adjoint sensitivities against the same run without them (issue target: at most 1.3×):
+    the junction demos (direct solver; the ground floor on AMG-CG) and, unless ``quick``, a
+    250 000-cell section of :func:`case_toml` (AMG-CG). Median wall times of ``repeat`` runs
+    of the library calls (mesh, solves, junction evaluation; no files written)."""
+    from fvheat.case.load import load_case
+    from fvheat.sensitivity.quantities import case_for_sensitivities, study_sensitivities
+    from fvheat.study import run_study
+
+    root = Path(__file__).resolve().parents[1] / "cases"
+    cases = [
+        root / f
+        for f in (
+            "balcony_slab.toml",
+            "wall_window_junction.toml",
+            "window_frame_section.toml",
+            "ground_floor_edge.toml",  # 65 767 cells: AMG-CG
+        )
+    ]
+    if not quick:
+        big = work / "steady_500.toml"
+        big.write_text(case_toml(500, None), encoding="utf-8")
+        cases.append(big)
+    print(
+        "sensitivities: run without them / the run with them (direct solver preferred up to "
+        "150 000 cells) / ratio (target ≤ 1.3)"
+    )
+    worst = 0.0
+    for path in cases:
+        case = load_case(path)
+        tuned = case_for_sensitivities(case)
+        base, full = [], []
+        for _ in range(max(repeat, 3)):
+            t0 = time.perf_counter()
+            run_study(case, check_grid=False, keep_fields=False)
+            t1 = time.perf_counter()
+            study = run_study(tuned, check_grid=False, keep_fields=False)
+            sens = study_sensitivities(study)
+            full.append(time.perf_counter() - t1)
+            base.append(t1 - t0)
+        b, f = statistics.median(base), statistics.median(full)
+        worst = max(worst, f / b)
+        print(
+            f"  {path.name:28s} {study.solution.mesh.n_cells:>8,} cells "
+            f"{len(sens.quantities):2d} quantities × {len(sens.parameters):2d} keys: "
+            f"{b:7.3f} s / {f:7.3f} s = {f / b:5.2f}×",
+            flush=True,
+        )
+    return 0 if worst <= 1.3 else 1
+
+
 def main(argv: list[str] | None = None) -> int:
     ap = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
     ap.add_argument("--quick", action="store_true", help="tiny sizes: a smoke test of a few s")
@@ -680,7 +731,12 @@ def main(argv: list[str] | None = None) -> int:
     ap.add_argument("--lu-limit", type=int, default=1_100_000, help="largest bare-lu problem")
     ap.add_argument("--fipy-limit", type=int, default=1_100_000, help="largest FiPy steady problem")
     ap.add_argument("--work", help="folder for cases and outputs [default: a new temporary one]")
-    return run(ap.parse_args(argv))
+    ap.add_argument("--sensitivities", action="store_true", help="only the adjoint overhead")
+    args = ap.parse_args(argv)
+    if args.sensitivities:
+        work = Path(args.work or tempfile.mkdtemp(prefix="fvheat-bench-"))
+        return sensitivity_overhead(work, args.repeat, args.quick)
+    return run(args)
 
 
 if __name__ == "__main__":

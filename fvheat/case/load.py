@@ -36,8 +36,10 @@ from fvheat.case.model import (
     MeshSettings,
 )
 from fvheat.case.overrides import apply_overrides
+from fvheat.case.parameters import parse_parameters, substitute
 from fvheat.case.probes import parse_probe_lines, parse_probes
 from fvheat.case.regions import parse_regions
+from fvheat.case.sensitivities import check_sensitivities, parse_sensitivities
 from fvheat.case.signals import Series
 from fvheat.case.solver import parse_solver
 from fvheat.case.timing import parse_time
@@ -107,6 +109,7 @@ def parse_case(data: dict, source: Path, overrides: Sequence[str] = ()) -> Case:
         if not isinstance(data, dict):
             raise Invalid("", f"expected a table of case settings, got {describe(data)}")
         check_keys(data, "", list(SECTIONS))
+        data = substitute(data)  # [parameters]: after --set, before the unit conversion
         units = case_units(data)
         data = in_metres(data, units)  # [geometry] units: every typed length now in m
         for section, parser in SECTIONS.items():
@@ -162,6 +165,7 @@ def _mesh(value: Any, ctx: Context) -> MeshSettings:
     return MeshSettings(max_cell=max_cell, min_cell=min_cell, growth=growth, corner_cell=corner)
 
 
+register_section("parameters", parse_parameters)
 register_section("title", _title)
 register_section("mesh", _mesh)
 register_section("materials", parse_materials)
@@ -174,8 +178,10 @@ register_section("probe_lines", parse_probe_lines)
 register_section("condensation", parse_condensation)
 register_section("junction", parse_junction)
 register_section("solver", parse_solver)
+register_section("sensitivities", parse_sensitivities)
 register_section("ground", parse_ground)  # last: adds its soil to the regions, boundaries
 register_check(check_junction_side_kinds)
+register_check(check_sensitivities)
 
 
 # --- whole-case checks ---------------------------------------------------------------------

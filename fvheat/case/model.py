@@ -419,6 +419,8 @@ class Case:
     solver: SolverSettings = field(default_factory=SolverSettings)
     ground: Ground | None = None
     geometry: Geometry | None = None
+    parameters: dict[str, float] = field(default_factory=dict)
+    sensitivities: bool = False
 
     @property
     def transient(self) -> bool:

@@ -118,3 +118,22 @@ def _index(items: list, key: str, here: str, source: str, where: str) -> int:
         file=source,
         key=where,
     )
+
+
+def read_value(data: dict, path: str, source: str) -> Any:
+    """The value at dotted ``path`` of the case ``data`` (the addressing of ``--set``);
+    :class:`CaseError` naming ``path`` when there is none."""
+    node: Any = data
+    keys = _segments(path)
+    for depth, key in enumerate(keys):
+        here = ".".join(keys[:depth]) or "the top level"
+        if isinstance(node, dict) and key in node:
+            node = node[key]
+        elif isinstance(node, list):
+            index = _index(node, key, here, source, path)
+            if index >= len(node):
+                raise CaseError(f"index {index} is out of range in {here}", file=source, key=path)
+            node = node[index]
+        else:
+            raise CaseError(f"{here} has no key {key!r}", file=source, key=path)
+    return node

@@ -63,6 +63,15 @@ def run(
     no_plots: Annotated[
         bool, typer.Option("--no-plots", help="Skip the figures (the slowest output).")
     ] = False,
+    sensitivities: Annotated[
+        bool | None,
+        typer.Option(
+            "--sensitivities/--no-sensitivities",
+            help="Derivatives of ψ, L2D, U_f, f_Rsi, θ_si,min and heat flows with respect to "
+            "every conductivity and surface resistance (steady runs; adjoint).",
+            show_default=False,
+        ),
+    ] = None,
 ) -> None:
     """Solve a case; write summary.json, timeseries.csv (transient), fields, cells.csv,
     figures and report.html to OUT."""
@@ -76,6 +85,63 @@ def run(
         as_json=as_json,
         grid_check=grid_check,
         plots=not no_plots,
+        sensitivities=sensitivities,
+    )
+
+
+@app.command()
+def target(
+    case_file: CaseArg,
+    vary: Annotated[
+        str,
+        typer.Option("--vary", help="The key to change (any key --set takes).", show_default=False),
+    ],
+    goal: Annotated[
+        str,
+        typer.Option(
+            "--goal",
+            help='The goal, e.g. "psi<=0.20", "f_Rsi>=0.75" (psi, L2D, U_f, f_Rsi, '
+            "theta_si_min, heat_flow_<boundary>).",
+            show_default=False,
+        ),
+    ],
+    between: Annotated[
+        tuple[float, float] | None,
+        typer.Option("--between", help="Bracket LO HI of the key's values.", show_default=False),
+    ] = None,
+    out: Annotated[
+        Path | None,
+        typer.Option(
+            "--out",
+            "-o",
+            help="Folder of the final run (default: CASE-STEM_target).",
+            show_default=False,
+        ),
+    ] = None,
+    tolerance: Annotated[
+        float | None,
+        typer.Option(
+            "--tolerance",
+            help="Accepted distance from the target, in its unit (default 1e-4 of the target).",
+            show_default=False,
+        ),
+    ] = None,
+    set_: SetOpt = None,
+    quiet: QuietOpt = False,
+) -> int:
+    """Find the value of one key at which a result meets a goal (bracketing root search
+    over full runs); write the final run and target.json to OUT."""
+    from fvheat.cli.target_command import target_case
+
+    return target_case(
+        case_file,
+        vary,
+        goal,
+        between=between,
+        out=out,
+        overrides=tuple(set_ or ()),
+        tolerance=tolerance,
+        quiet=quiet,
     )
 
 

@@ -27,6 +27,7 @@ def run_case(
     as_json: bool,
     grid_check: bool | None = None,
     plots: bool = True,
+    sensitivities: bool | None = None,
 ) -> Study:
     """:func:`fvheat.run.run_to_folder`, with a progress bar and the results printed."""
     out = out if out is not None else default_out(case_file)
@@ -34,7 +35,13 @@ def run_case(
 
     def job(progress: Progress | None) -> tuple[Study, dict]:
         return run_to_folder(
-            case_file, out, overrides, grid_check=grid_check, plots=plots, progress=progress
+            case_file,
+            out,
+            overrides,
+            grid_check=grid_check,
+            plots=plots,
+            progress=progress,
+            sensitivities=sensitivities,
         )
 
     study, summary = _with_progress(job) if show else job(None)
@@ -132,6 +139,10 @@ def _print_results(study: Study, out: Path, elapsed: float) -> None:
             rel = f", {100 * (b - a) / abs(b):+.3f} %" if b != 0.0 else ""
             label = "ψ" if name == "psi" else name
             con.print(f"  {label} on both grids: {a:.5g} → {b:.5g} (change {b - a:+.3g}{rel})")
+    if study.sensitivities is not None:
+        from fvheat.cli.sensitivity_table import print_sensitivities
+
+        print_sensitivities(con, study.sensitivities)
     bal = solution.balance
     con.print(
         f"cells {solution.mesh.n_cells}; energy balance: {bal.describe()}; "

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
@@ -16,11 +16,13 @@ Segment = tuple[tuple[float, float], tuple[float, float]]
 @dataclass(frozen=True)
 class LayerCut:
     """The 1-D layer sequence along a cut: (material, thickness m, conductivity W/(m·K)) from
-    the first end to the second, with the surface resistances at the two ends (m²·K/W)."""
+    the first end to the second, with the surface resistances at the two ends (m²·K/W) and
+    the boundaries they come from (``ends``: names, start then end)."""
 
     layers: tuple[tuple[str, float, float], ...]
     r_start: float
     r_end: float
+    ends: tuple[str, str] | None = field(default=None, compare=False)
 
     @property
     def thickness(self) -> float:
@@ -124,25 +126,27 @@ def _read(
             layers.append((n, float(dd), float(kk)))
     normal = np.zeros(2)
     normal[along] = -1.0
-    r_start = _surface_resistance(case, mesh, int(idx[0]), normal)
-    r_end = _surface_resistance(case, mesh, int(idx[-1]), -normal)
+    r_start, b_start = _surface_resistance(case, mesh, int(idx[0]), normal)
+    r_end, b_end = _surface_resistance(case, mesh, int(idx[-1]), -normal)
     if (x1 < x0) or (y1 < y0):  # report from the cut's first point
         layers.reverse()
         r_start, r_end = r_end, r_start
-    return LayerCut(tuple(layers), r_start, r_end)
+        b_start, b_end = b_end, b_start
+    return LayerCut(tuple(layers), r_start, r_end, (b_start, b_end))
 
 
-def _surface_resistance(case: Case, mesh: Mesh, cell: int, normal: np.ndarray) -> float:
-    """Surface resistance (m²·K/W) of the boundary face of ``cell`` facing ``normal``."""
+def _surface_resistance(case: Case, mesh: Mesh, cell: int, normal: np.ndarray) -> tuple[float, str]:
+    """Surface resistance (m²·K/W) of the boundary face of ``cell`` facing ``normal``, and
+    the boundary's name."""
     faces = np.flatnonzero((mesh.b_cell == cell) & (np.abs(mesh.b_normal @ normal - 1.0) < 1e-9))
     if faces.size == 0 or mesh.b_boundary[faces[0]] < 0:
         raise CutError("each end of the cut must be on a boundary with a surface resistance")
     b = case.boundaries[int(mesh.b_boundary[faces[0]])]
     if b.kind == "temperature":
-        return 0.0
+        return 0.0, b.name
     if b.kind != "surface" or b.radiative or b.convection <= 0.0:
         raise CutError(
             f"boundary {b.name!r} at the end of the cut has no surface resistance "
             "(give it `resistance` or `convection` without radiation)"
         )
-    return 1.0 / b.convection
+    return 1.0 / b.convection, b.name

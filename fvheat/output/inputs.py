@@ -102,6 +102,7 @@ def case_inputs(case: Case, mesh: Mesh) -> dict[str, Any]:
         "boundaries": boundaries,
         "adiabatic_faces": int((mesh.b_boundary < 0).sum()),
         "probes": [{"name": p.name, "at": list(p.at)} for p in case.probes],
+        "parameters": dict(case.parameters),
         "mesh_settings": {
             "max_cell": case.mesh.max_cell,
             "min_cell": case.mesh.min_cell,

@@ -69,6 +69,8 @@ def build_summary(study: Study, overrides: tuple[str, ...] = ()) -> dict[str, An
         summary["junction"] = junction
     if study.grid is not None:
         summary["grid_check"] = study.grid.as_dict()
+    if study.sensitivities is not None:
+        summary["sensitivities"] = study.sensitivities.as_dict()
     return summary
 
 

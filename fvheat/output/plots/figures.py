@@ -127,6 +127,10 @@ def draw_figures(
 
     if folder.transient:
         records += _transient(folder, title, vrange, zoom, notes)
+    from fvheat.output.plots.sensitivities import sensitivity_figure
+
+    if (drawn := sensitivity_figure(s, title)) is not None:
+        records.append(_save(drawn[0], folder, "sensitivities", drawn[1]))
     index = [asdict(r) for r in records]
     atomic_write_text(
         folder.path / FIGURES_DIR / INDEX_FILE,

@@ -125,6 +125,9 @@ def build_document(folder: ResultsFolder) -> Document:
     doc.sections += _input_sections(s, inputs)
     add(Section("results", "Results"))
     doc.sections += _result_sections(s)
+    from fvheat.output.report.sensitivities import sensitivity_sections  # self-contained
+
+    doc.sections += sensitivity_sections(s)
     figures = read_index(folder)
     plots = Section("plots", "Plots")
     if figures:
@@ -436,6 +439,8 @@ KNOWN_KEYS = {
     "junction",
     "grid_check",
     "phase_change_max",
+    "sensitivities",  # its own section: fvheat/output/report/sensitivities.py
+    "sensitivity_seconds",
 }
 
 
