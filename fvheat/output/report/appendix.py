@@ -18,6 +18,13 @@ def case_section(s: dict[str, Any]) -> Section:
         ["overrides", ", ".join(s.get("overrides") or []) or "none"],
         ["computed with", f"fvheat {s.get('fvheat_version', '?')}"],
     ]
+    geometry = s.get("geometry") or {}
+    if geometry.get("drawing"):
+        rows.append(
+            ["drawing", f"{geometry['drawing']} (SHA-256 {geometry.get('drawing_sha256')})"]
+        )
+    if geometry.get("units") and geometry["units"] != "m":
+        rows.append(["length unit of the case file", str(geometry["units"])])
     if s.get("solve_seconds") is not None:
         rows.append(["solve time", num(s["solve_seconds"], ".2f", "s")])
     return Section("case", "Case and provenance", 3, [Table(["item", "value"], rows)])

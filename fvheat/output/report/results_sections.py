@@ -13,6 +13,7 @@ from fvheat.output.report.junction_section import junction_section
 KNOWN_KEYS = {
     "title",
     "project",
+    "geometry",
     "case_file",
     "case_sha256",
     "overrides",
