@@ -42,6 +42,7 @@ def text_table(checks: list[Check]) -> str:
     right = {2, 3}
 
     def line(cells: list[str]) -> str:
+        """One row, columns padded to their widths (numbers on the right)."""
         return "  ".join(
             c.rjust(w) if i in right else c.ljust(w)
             for i, (c, w) in enumerate(zip(cells, widths, strict=True))

@@ -106,3 +106,17 @@ def test_figures_fit_the_page(tmp_path, monkeypatch):
     for x, y, w, h in boxes:
         assert x >= margin_x - 1e-9 and x + w <= 1 - margin_x + 1e-9
         assert y >= margin_y - 1e-9 and y + h <= 1 - margin_y + 1e-9
+
+
+def test_report_with_a_failing_validation_says_so_and_exits_1(
+    steady_results, tmp_path, monkeypatch
+):
+    import fvheat.assembly.system as system_module
+
+    out = tmp_path / "results"
+    shutil.copytree(steady_results, out)
+    original = system_module.conductivity
+    monkeypatch.setattr(system_module, "conductivity", lambda c, m: 1.03 * original(c, m))
+    assert run_cli(["report", out, "--validation", "-q"]) == 1
+    html = (out / "report.html").read_text(encoding="utf-8")
+    assert "At least one reference case FAILED" in html and "<td>NO</td>" in html

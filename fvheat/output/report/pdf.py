@@ -11,7 +11,6 @@ import matplotlib
 from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.image import imread
 
-from fvheat.cautions import CAUTION
 from fvheat.output.files import atomic_write_file
 from fvheat.output.report.blocks import Block, Code, Document, Figure, Para, Section, Table
 from fvheat.output.report.pdf_layout import MONO, Pages, Style, text_width, wrap
@@ -40,6 +39,7 @@ def render_pdf(doc: Document, root: str | Path, path: str | Path) -> Path:
     root = Path(root)
 
     def write(tmp: Path) -> None:
+        """Lay out every section into the temporary file ``tmp``."""
         with matplotlib.rc_context({"pdf.fonttype": 42}):
             with PdfPages(tmp, metadata={"Title": doc.title, "Creator": "fvheat"}) as pdf:
                 pages = Pages(pdf, doc.title)
@@ -78,8 +78,7 @@ def _front(pages: Pages, doc: Document) -> None:
     sub = Style(color="#5c6370")
     _lines(pages, wrap(doc.subtitle, pages.content_width, sub), sub)
     pages.rule(pages.left, pages.right, pages.y - 0.04, width=2.0, color=ACCENT)
-    pages.y -= 0.15
-    _para(pages, Para(CAUTION, "caution"))
+    pages.y -= 0.15  # the cautions follow in the summary, the first section
 
 
 def _heading(pages: Pages, sec: Section) -> None:

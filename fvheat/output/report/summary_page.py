@@ -77,12 +77,12 @@ def key_numbers(s: dict[str, Any]) -> list[list[str]]:
     g = s.get("grid_check")
     if g is not None:
         verdict = "pass" if g["pass"] else "FAIL"
-        rows.append(
-            [
-                "grid check (Σ|Φ| change)",
-                f"{100 * g['change']:.3f} % ({verdict}, limit {100 * g['limit']:g} %)",
-            ]
-        )
+        text = f"Σ|Φ| changed {100 * g['change']:.3f} % ({verdict}, limit {100 * g['limit']:g} %)"
+        psi = (g.get("junction") or {}).get("psi")
+        if psi is not None and psi.get("relative_change") is not None:
+            change = 100 * psi["relative_change"]
+            text += f"; ψ {psi['value']:.4f} → {psi['refined']:.4f} ({change:+.2f} %)"
+        rows.append(["grid check, cells halved", text])
     b = s.get("energy_balance") or {}
     if b and not b.get("isothermal"):
         closes = b.get("closes", b.get("relative", 1.0) < 1e-8)
