@@ -11,10 +11,10 @@ import pytest
 
 import fvheat.assembly.system as system_module
 from fvheat.cli.main import main
-from fvheat.validation import rectangle, run_validation, semi_infinite
+from fvheat.validation import composite, rectangle, run_validation, semi_infinite
 from fvheat.validation.check import Check
 
-from . import test_rectangle_fourier, test_transient
+from . import test_rectangle_fourier, test_skfem_composite, test_transient
 
 
 def test_validate_passes_and_prints_the_table(capsys):
@@ -36,7 +36,7 @@ def test_validate_fails_when_a_conductivity_is_perturbed(monkeypatch, capsys):
     out = capsys.readouterr().out
     assert "FAILED" in out and " NO" in out
     failed = {c.case for c in run_validation() if not c.passed}
-    assert {"1-D wall", "semi-infinite solid"} <= failed
+    assert {"1-D wall", "semi-infinite solid", "balcony slab 2-D"} <= failed
     # one conductivity everywhere and fixed temperatures: the field does not depend on it
     assert "ISO 10211 case 1" not in failed
 
@@ -66,3 +66,23 @@ def test_package_references_are_the_tested_formulas():
         assert semi_infinite.exact(depth, 3600.0) == pytest.approx(
             float(test_transient.semi_infinite(depth, 3600.0)), abs=1e-12
         )
+
+
+def test_stored_scikit_fem_references_are_recomputed():
+    """The composite junction shipped in fvheat/validation is the one of
+    test_skfem_composite.py, and its stored references are what scikit-fem gives (P2, 10 mm
+    mesh) to the 5 or more digits stored."""
+    t = test_skfem_composite
+    assert composite.CONDUCTIVITY == t.CONDUCTIVITY
+    assert list(composite.REGIONS) == t.REGIONS
+    assert list(composite.INSIDE) == t.INSIDE and list(composite.OUTSIDE) == t.OUTSIDE
+    assert (composite.T_IN, composite.R_IN, composite.T_OUT, composite.R_OUT) == (
+        t.T_IN,
+        t.R_IN,
+        t.T_OUT,
+        t.R_OUT,
+    )
+    assert composite.POINT == t.POINTS["slab_in_wall"]
+    q_in, _, temps = t.skfem_solution(0.01)
+    assert composite.HEAT_FLOW_REF == pytest.approx(q_in, rel=1e-6)
+    assert composite.THETA_REF == pytest.approx(temps["slab_in_wall"], abs=1e-5)
