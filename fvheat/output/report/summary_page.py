@@ -10,7 +10,7 @@ from fvheat.output.report.blocks import Block, Figure, Para, Section, Table, hou
 
 #: labels of the [project] keys, in the order they are shown
 PROJECT_LABELS = {
-    "name": "project",
+    "name": "name",
     "reference": "reference",
     "client": "client",
     "author": "author",
