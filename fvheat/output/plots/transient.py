@@ -128,10 +128,11 @@ def front_figure(
     ax.invert_yaxis()  # depth reads downwards
     if frozen_area is not None:
         t, _, _ = time_axis(np.asarray(times, float))
-        ax2 = ax.twinx()
-        ax2.plot(t, frozen_area, color="#777777", lw=1.0, ls="--", label="frozen area")
-        ax2.set_ylabel("frozen area (m²)", color="#555555")
-        ax2.set_ylim(bottom=0.0)
+        with style.style():  # the second axis in the same type sizes as the first
+            ax2 = ax.twinx()
+            ax2.plot(t, frozen_area, color="#777777", lw=1.0, ls="--", label="frozen area")
+            ax2.set_ylabel("frozen area (m²)", color="#555555")
+            ax2.set_ylim(bottom=0.0)
     return fig
 
 

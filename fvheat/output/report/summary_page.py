@@ -100,7 +100,7 @@ def _run_text(s: dict[str, Any]) -> str:
     if s.get("mode") != "transient":
         return "steady state"
     t = float(s.get("time_s") or 0.0)
-    return f"transient, {hours(t)} ({t:g} s); values at the end time unless said otherwise"
+    return f"transient, {hours(t)} simulated; values at the end time unless said otherwise"
 
 
 def _junction_rows(j: dict[str, Any]) -> list[list[str]]:
