@@ -11,6 +11,8 @@ from collections.abc import Collection, Sequence
 from contextlib import contextmanager
 from pathlib import Path
 
+import numpy as np
+
 from fvheat.output.files import atomic_write
 
 #: width of the text block of an A4 page with 20 mm margins, inches
@@ -73,15 +75,21 @@ def distinct_colours(
     for c in first:
         add(c)
     for name in EXTRA_PALETTES:
-        for rgb in getattr(colormaps[name], "colors", ()):
-            add(to_hex(rgb))
+        for rgb in list(getattr(colormaps[name], "colors", ())):
+            add(_hex(rgb))
     k = 0
     while len(out) < n:  # more than about 60 materials: spaced hues, then lighter rounds
         steps = max(n - len(out), 1) + 1
         for i in range(steps):
-            add(to_hex(hsv_to_rgb((i / steps, 0.30 + 0.05 * (k % 4), 0.93 - 0.04 * (k % 3)))))
+            add(_hex(hsv_to_rgb((i / steps, 0.30 + 0.05 * (k % 4), 0.93 - 0.04 * (k % 3)))))
         k += 1
     return out[:n]
+
+
+def _hex(rgb: Sequence[float] | np.ndarray) -> str:
+    """'#rrggbb' of red, green and blue in 0..1 (a fourth, alpha, value is ignored)."""
+    r, g, b = (round(255 * min(max(float(v), 0.0), 1.0)) for v in list(rgb)[:3])
+    return f"#{r:02x}{g:02x}{b:02x}"
 
 
 OUTLINE_COLOUR = "#262626"
