@@ -109,6 +109,7 @@ def parse_ground(value: Any, ctx: Context) -> Ground | None:
             conductivity=SOIL_CONDUCTIVITY,
             density=SOIL_DENSITY,
             specific_heat=SOIL_SPECIFIC_HEAT,
+            source="ISO 13370 soil of unknown kind (from memory)",
         )
     ground = Ground(
         width=number(tbl, "width", path, gt=0),

@@ -38,6 +38,7 @@ from fvheat.case.model import (
 from fvheat.case.overrides import apply_overrides
 from fvheat.case.parameters import parse_parameters, substitute
 from fvheat.case.probes import parse_probe_lines, parse_probes
+from fvheat.case.project import parse_project
 from fvheat.case.regions import parse_regions
 from fvheat.case.sensitivities import check_sensitivities, parse_sensitivities
 from fvheat.case.signals import Series
@@ -167,6 +168,7 @@ def _mesh(value: Any, ctx: Context) -> MeshSettings:
 
 register_section("parameters", parse_parameters)
 register_section("title", _title)
+register_section("project", parse_project)
 register_section("mesh", _mesh)
 register_section("materials", parse_materials)
 register_section("geometry", parse_geometry)  # before the regions and boundaries using it

@@ -107,7 +107,24 @@ def _material(key: str, spec: Any, seen: dict[str, str]) -> Material:
         latent_heat=latent,
         phase_change=phase_change,
         frozen=frozen,
+        source=_source(tbl, base),
     )
+
+
+#: the source of values typed into the case file
+GIVEN = "given in the case file"
+_LIBRARY_KEYS = ("conductivity", "density", "specific_heat", "emissivity")
+
+
+def _source(tbl: dict[str, Any], base: LibraryMaterial | None) -> str:
+    """Where a material's values come from: the case file, a library entry, or both."""
+    if base is None:
+        return GIVEN
+    text = f"library entry {base.name}: {base.source}"
+    own = [k for k in _LIBRARY_KEYS if k in tbl]
+    if own:
+        text += f"; {', '.join(own)} {GIVEN}"
+    return text
 
 
 def _library_entry(value: Any, path: str) -> LibraryMaterial:
@@ -121,8 +138,10 @@ def _library_entry(value: Any, path: str) -> LibraryMaterial:
 
 
 def library_material(entry: LibraryMaterial) -> Material:
-    """A case material from a library entry (λ W/(m·K), ρ kg/m³, c J/(kg·K), ε)."""
+    """The case material of a library entry used by name, its source recorded
+    (λ W/(m·K), ρ kg/m³, c J/(kg·K), ε)."""
     return Material(
+        source=f"library entry {entry.name}: {entry.source}",
         name=entry.name,
         conductivity=entry.conductivity,
         density=entry.density,

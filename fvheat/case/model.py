@@ -53,6 +53,7 @@ class Material:
     liquidus) °C; the base properties are those of the unfrozen phase and ``frozen`` those
     below the solidus. ``emissivity`` is informational (surfaces take theirs from boundaries).
     ``cavity``: an air cavity of equivalent conductivity made from a region's ``cavity``.
+    ``source``: where the values come from (a library entry's source, the case file, ...).
     """
 
     name: str
@@ -64,6 +65,7 @@ class Material:
     phase_change: tuple[float, float] | None = None
     frozen: Phase | None = None
     cavity: bool = False
+    source: str | None = None
 
     @property
     def volumetric_heat_capacity(self) -> float | None:
@@ -124,6 +126,24 @@ class Geometry:
             "drawing": None if self.drawing is None else str(self.drawing),
             "drawing_sha256": self.drawing_sha256,
         }
+
+
+@dataclass(frozen=True)
+class Project:
+    """The ``[project]`` table: free text naming the project, its reference, the client,
+    the author and checker of the work, its date and notes (None: not given)."""
+
+    name: str | None = None
+    reference: str | None = None
+    client: str | None = None
+    author: str | None = None
+    checker: str | None = None
+    date: str | None = None
+    notes: str | None = None
+
+    def as_dict(self) -> dict[str, str]:
+        """The given keys, for summary.json and the report."""
+        return {k: v for k, v in vars(self).items() if v}
 
 
 BoundaryKind = Literal["surface", "temperature", "flux"]
@@ -421,6 +441,7 @@ class Case:
     geometry: Geometry | None = None
     parameters: dict[str, float] = field(default_factory=dict)
     sensitivities: bool = False
+    project: Project | None = None
 
     @property
     def transient(self) -> bool:

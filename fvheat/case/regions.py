@@ -142,6 +142,10 @@ def _cavity_material(value: Any, path: str, vertices: np.ndarray) -> Material:
         specific_heat=_AIR_SPECIFIC_HEAT,
         emissivity=eps,
         cavity=True,
+        source=(
+            "equivalent conductivity of the air cavity by the ISO 10077-2 method "
+            "(fvheat.properties.cavity; constants from memory); air density and heat capacity"
+        ),
     )
 
 

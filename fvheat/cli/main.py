@@ -214,11 +214,33 @@ def plot(
 
 
 @app.command()
-def report(folder: ResultsArg, quiet: QuietOpt = False) -> None:
-    """Rebuild report.html and report.md of a results folder."""
+def report(
+    folder: ResultsArg,
+    pdf: Annotated[
+        bool, typer.Option("--pdf", help="Also write report.pdf (A4, same content).")
+    ] = False,
+    validation: Annotated[
+        bool,
+        typer.Option(
+            "--validation",
+            help="Run `fvheat validate` and add its table to the report's appendix.",
+        ),
+    ] = False,
+    quiet: QuietOpt = False,
+) -> int:
+    """Rebuild report.html and report.md of a results folder (and report.pdf with --pdf)."""
     from fvheat.cli.report_command import report_folder
 
-    report_folder(folder, quiet=quiet)
+    return report_folder(folder, pdf=pdf, validation=validation, quiet=quiet)
+
+
+@app.command()
+def validate(quiet: QuietOpt = False) -> int:
+    """Run the reference cases (ISO 10211 case-1 form, analytic solutions) on this
+    installation and print reference against computed values; exit 1 if one fails."""
+    from fvheat.cli.validate_command import validate as run_checks
+
+    return run_checks(quiet=quiet)
 
 
 @app.command()

@@ -2,42 +2,43 @@
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING, cast
+import shutil
+import textwrap
 
-if TYPE_CHECKING:
-    from rich.console import JustifyMethod
+#: narrowest layout width, characters
+MIN_WIDTH = 40
+
+
+def library_text(width: int) -> str:
+    """Every library material as a block: its name and design values on one line (names
+    and numbers are never cut: a name is what the user types), then its source wrapped to
+    ``width`` characters, indented."""
+    from fvheat.properties.library import library
+
+    width = max(width, MIN_WIDTH)
+    materials = library()
+    longest = max(len(name) for name in materials)
+    out = [
+        "Built-in materials: use by name in a region, or [materials.X] library = NAME.",
+        "λ W/(m·K), ρ kg/m³, c J/(kg·K), ε surface emissivity; sources below each row.",
+        "",
+    ]
+    for m in materials.values():
+        values = f"λ {m.conductivity:<6g} ρ {m.density:<6g} c {m.specific_heat:<6g}"
+        if m.emissivity is not None:
+            values += f" ε {m.emissivity:g}"
+        line = f"{m.name:<{longest}}  {values}"
+        if len(line) <= width:
+            out.append(line.rstrip())
+        else:
+            out += [m.name, "    " + values.rstrip()]
+        out += textwrap.wrap(
+            m.source, width, initial_indent="    ", subsequent_indent="    ", break_on_hyphens=False
+        )
+    return "\n".join(out)
 
 
 def print_library() -> None:
-    """Print every library material with its design values and source."""
-    from rich.console import Console
-    from rich.markup import escape
-    from rich.table import Table
-
-    from fvheat.properties.library import library
-
-    t = Table(
-        title=escape(
-            "built-in materials: use by name in a region, or [materials.X] library = NAME"
-        ),
-        title_justify="left",
-    )
-    for col, just in (
-        ("name", "left"),
-        ("λ W/(m·K)", "right"),
-        ("ρ kg/m³", "right"),
-        ("c J/(kg·K)", "right"),
-        ("ε", "right"),
-        ("source", "left"),
-    ):
-        t.add_column(col, justify=cast("JustifyMethod", just))
-    for m in library().values():
-        t.add_row(
-            m.name,
-            f"{m.conductivity:g}",
-            f"{m.density:g}",
-            f"{m.specific_heat:g}",
-            "" if m.emissivity is None else f"{m.emissivity:g}",
-            m.source,
-        )
-    Console().print(t)
+    """Print every library material with its design values and source, fitted to the
+    terminal's width."""
+    print(library_text(shutil.get_terminal_size((100, 24)).columns))

@@ -21,7 +21,7 @@ CELLS_FILE = "cells.csv"
 
 def owned_outputs() -> tuple[str, ...]:
     """Names of every file and folder ``fvheat run`` writes into a results folder."""
-    from fvheat.output.report import HTML_FILE, MARKDOWN_FILE
+    from fvheat.output.report import HTML_FILE, MARKDOWN_FILE, PDF_FILE
     from fvheat.output.results import SUMMARY_FILE, TIMESERIES_FILE
 
     return (
@@ -33,6 +33,7 @@ def owned_outputs() -> tuple[str, ...]:
         FIGURES_DIR,
         HTML_FILE,
         MARKDOWN_FILE,
+        PDF_FILE,
     )
 
 

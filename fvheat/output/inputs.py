@@ -76,6 +76,7 @@ def case_inputs(case: Case, mesh: Mesh) -> dict[str, Any]:
                 "phase_change": list(m.phase_change) if m.phase_change else None,
                 "cells": int(cells[k]) if k is not None else 0,
                 "area": float(area[k]) if k is not None else 0.0,
+                "source": m.source,
             }
         )
     boundaries = []

@@ -32,6 +32,7 @@ def build_summary(study: Study, overrides: tuple[str, ...] = ()) -> dict[str, An
     case = solution.case
     summary: dict[str, Any] = {
         "title": case.title,
+        "project": case.project.as_dict() if case.project is not None else {},
         "case_file": str(case.source),
         "case_sha256": case_digest(case.source, overrides) if Path(case.source).is_file() else None,
         "overrides": list(overrides),

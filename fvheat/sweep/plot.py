@@ -70,9 +70,33 @@ def plot_lines(
     ]
 
 
-def draw(lines: Sequence[Line], x: str, y: str, series: str | None, title: str, out: Path) -> Path:
-    """Draw ``lines`` into a PNG at ``out`` (written atomically), the cautions underneath."""
+def sweep_title(y: str, x: str, series: str | None, where: Sequence[str] = ()) -> str:
+    """What the plot shows: 'psi against materials.wool.conductivity, one line per ...'."""
+    text = f"{y} against {x}"
+    if series is not None:
+        text += f", one line per {series}"
+    if where:
+        text += f" ({', '.join(where)})"
+    return text
+
+
+def draw(
+    lines: Sequence[Line],
+    x: str,
+    y: str,
+    series: str | None,
+    title: str,
+    out: Path,
+    *,
+    subtitle: str = "",
+    length_unit: str = "m",
+) -> Path:
+    """Draw ``lines`` into a PNG at ``out`` (written atomically), the cautions underneath.
+    ``title`` says what the sweep shows, ``subtitle`` which case was swept; the axes carry
+    the units of the varied key (lengths in ``length_unit``) and of the result."""
     import matplotlib
+
+    from fvheat.sweep.labels import key_unit, result_unit, with_unit
 
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
@@ -82,12 +106,19 @@ def draw(lines: Sequence[Line], x: str, y: str, series: str | None, title: str, 
     try:
         for line in lines:
             ax.plot(line.x, line.y, marker="o", label=line.label or None)
-        ax.set_xlabel(x)
-        ax.set_ylabel(y)
-        ax.set_title(title, fontsize="medium")
+        ax.set_xlabel(with_unit(x, key_unit(x, length_unit)), parse_math=False)
+        ax.set_ylabel(with_unit(y, result_unit(y)), parse_math=False)
+        heading = "\n".join(textwrap.wrap(title, 90))
+        if subtitle:
+            heading += "\n" + "\n".join(textwrap.wrap(subtitle, 110))
+        ax.set_title(heading, fontsize="medium", loc="left", parse_math=False)
         ax.grid(True, alpha=0.3)
         if series is not None:
-            ax.legend(title=series, fontsize="small")
+            legend = ax.legend(
+                title=with_unit(series, key_unit(series, length_unit)), fontsize="small"
+            )
+            for text in [legend.get_title(), *legend.get_texts()]:
+                text.set_parse_math(False)
         engine = fig.get_layout_engine()
         assert isinstance(engine, ConstrainedLayoutEngine)
         engine.set(rect=(0, 0.08, 1, 0.92))

@@ -70,6 +70,7 @@ def draw_figures(
     view = folder.field()
     when = _when(folder, view.time)
     notes = _view_notes(vrange, zoom)
+    window_note = _view_notes(None, zoom)  # the colour range is of temperature maps only
     records = []
 
     marked = coldest_point(s)
@@ -109,7 +110,7 @@ def draw_figures(
             f"Heat-flux density |q| (W/m², log scale), {when}, reconstructed from the solver's "
             "face heat flows. Lines are heat paths starting where heat enters the body, at "
             "equal steps of the entering heat flow; in a steady field each band between two "
-            "lines carries the same heat flow." + notes,
+            "lines carries the same heat flow." + window_note,
         )
     )
 
@@ -120,7 +121,7 @@ def draw_figures(
             folder,
             "mesh",
             f"Computational mesh: {view.n_cells} cells coloured by material, boundaries "
-            "coloured and named; unmarked exterior edges are adiabatic." + notes,
+            "coloured and named; unmarked exterior edges are adiabatic." + window_note,
             vector=False,
         )
     )
@@ -140,7 +141,8 @@ def draw_figures(
     return records
 
 
-def _view_notes(vrange, zoom) -> str:
+def _view_notes(vrange: tuple[float, float] | None, zoom: layers.Window | None) -> str:
+    """Caption sentences for a fixed colour range (°C) and a window (m), when given."""
     out = ""
     if vrange is not None:
         out += f" Colour range fixed at {vrange[0]:g} to {vrange[1]:g} °C."

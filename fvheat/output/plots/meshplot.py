@@ -27,7 +27,11 @@ def mesh_figure(
         fig = style.new_figure(*style.field_size(x1 - x0, y1 - y0, extra_width=0.4))
         ax = fig.add_subplot()
         n_mat = len(view.material_names)
-        colours = [style.MATERIAL_COLOURS[k % len(style.MATERIAL_COLOURS)] for k in range(n_mat)]
+        used = np.unique(view.material)
+        # one colour per material drawn, none repeated (a cavity never looks like a metal)
+        colours = ["#ffffff"] * n_mat
+        for k, c in zip(used, style.distinct_colours(used.size), strict=True):
+            colours[k] = c
         cmap = ListedColormap(colours)
         norm = BoundaryNorm(np.arange(n_mat + 1) - 0.5, n_mat)
         x, y = view.grid.x, view.grid.y
@@ -43,7 +47,6 @@ def mesh_figure(
         handles = layers.draw_boundaries(ax, view)
         layers.set_window(ax, window)
         layers.add_scale_bar(ax, view, window)
-        used = np.unique(view.material)
         mats = [
             Patch(facecolor=colours[k], edgecolor="#3c3c3c", lw=0.5, label=view.material_names[k])
             for k in used

@@ -151,18 +151,14 @@ def material_colours(case: Case, counts: np.ndarray) -> list[str | None]:
     """Fill colour per material of ``case`` (in the order of ``case.materials``): solids
     take the style's material colours, cavities pale cool ones, each in order of use; None
     for a material that paints no cell (``counts``: cells per material)."""
-    out: list[str | None] = []
-    solid = cavity = 0
-    for material, n in zip(case.materials.values(), counts, strict=True):
-        if n == 0:
-            out.append(None)
-        elif material.cavity:
-            out.append(CAVITY_COLOURS[cavity % len(CAVITY_COLOURS)])
-            cavity += 1
-        else:
-            out.append(style.MATERIAL_COLOURS[solid % len(style.MATERIAL_COLOURS)])
-            solid += 1
-    return out
+    drawn = [(m, n > 0) for m, n in zip(case.materials.values(), counts, strict=True)]
+    n_solid = sum(1 for m, used in drawn if used and not m.cavity)
+    n_cavity = sum(1 for m, used in drawn if used and m.cavity)
+    # no colour repeats within the figure: cavities never share a solid's colour
+    solids = iter(style.distinct_colours(n_solid))
+    solid_set = style.distinct_colours(n_solid)
+    cavities = iter(style.distinct_colours(n_cavity, first=CAVITY_COLOURS, avoid=solid_set))
+    return [None if not used else next(cavities) if m.cavity else next(solids) for m, used in drawn]
 
 
 def _draw_materials(ax, case: Case, geom: GeometryView) -> list:

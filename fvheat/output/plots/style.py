@@ -7,10 +7,12 @@ state), rendered with Agg, so plotting works headless and inside other programs.
 from __future__ import annotations
 
 import io
-from collections.abc import Iterator
+from collections.abc import Collection, Iterator, Sequence
 from contextlib import contextmanager
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
+
+import numpy as np
 
 from fvheat.output.files import atomic_write_bytes
 
@@ -54,6 +56,47 @@ MATERIAL_COLOURS = (
     "#e8c4d8",
     "#bfcad6",
 )
+#: qualitative colour maps that extend MATERIAL_COLOURS when a figure has more materials
+EXTRA_PALETTES = ("Set3", "Pastel1", "Pastel2", "tab20")
+
+
+def distinct_colours(
+    n: int, first: Sequence[str] = MATERIAL_COLOURS, avoid: Collection[str] = ()
+) -> list[str]:
+    """``n`` different fill colours (hex): ``first``, then matplotlib's qualitative maps,
+    then evenly spaced pale hues; none of them in ``avoid``."""
+    from matplotlib import colormaps
+    from matplotlib.colors import hsv_to_rgb, to_hex
+
+    taken = {to_hex(c) for c in avoid}
+    out: list[str] = []
+
+    def add(colour: str) -> None:
+        c = to_hex(colour)
+        if c not in taken:
+            taken.add(c)
+            out.append(c)
+
+    for c in first:
+        add(c)
+    for name in EXTRA_PALETTES:
+        for rgb in list(getattr(colormaps[name], "colors", ())):
+            add(_hex(rgb))
+    k = 0
+    while len(out) < n:  # more than about 60 materials: spaced hues, then lighter rounds
+        steps = max(n - len(out), 1) + 1
+        for i in range(steps):
+            add(_hex(hsv_to_rgb((i / steps, 0.30 + 0.05 * (k % 4), 0.93 - 0.04 * (k % 3)))))
+        k += 1
+    return out[:n]
+
+
+def _hex(rgb: Sequence[float] | np.ndarray) -> str:
+    """'#rrggbb' of red, green and blue in 0..1 (a fourth, alpha, value is ignored)."""
+    r, g, b = (round(255 * min(max(float(v), 0.0), 1.0)) for v in list(rgb)[:3])
+    return f"#{r:02x}{g:02x}{b:02x}"
+
+
 OUTLINE_COLOUR = "#262626"
 #: marker of the coldest surface point; not used anywhere else in a figure
 COLDEST_COLOUR = "#ff2bd6"

@@ -30,8 +30,40 @@ def time_axis(times: np.ndarray) -> tuple[np.ndarray, str, float]:
     return np.asarray(times) / 86400, "time (d)", step
 
 
+#: a front that moves by more than this share of its range between two saved times, and
+#: by more than JUMP_FACTOR times its typical move, has jumped (the first crossing changes
+#: from the frost depth to a thaw front): no line is drawn across the jump
+JUMP_SHARE = 0.25
+JUMP_FACTOR = 3.0
+
+
+def with_gaps(t: np.ndarray, values: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Times and values with a NaN put between two saved times where the value jumps by
+    more than :data:`JUMP_SHARE` of its range and :data:`JUMP_FACTOR` times its median
+    move, so that no line joins the two sides."""
+    v = np.asarray(values, float)
+    finite = v[np.isfinite(v)]
+    if finite.size < 3 or np.ptp(finite) == 0.0:
+        return np.asarray(t, float), v
+    step = np.abs(np.diff(v))
+    typical = float(np.median(step[np.isfinite(step)])) if np.isfinite(step).any() else 0.0
+    limit = max(JUMP_SHARE * float(np.ptp(finite)), JUMP_FACTOR * typical)
+    jumps = np.flatnonzero(step > limit) + 1
+    return (
+        np.insert(np.asarray(t, float), jumps, np.nan),
+        np.insert(v, jumps, np.nan),
+    )
+
+
 def _series_figure(
-    times, series: dict[str, np.ndarray], ylabel: str, title: str, subtitle: str, colours
+    times,
+    series: dict[str, np.ndarray],
+    ylabel: str,
+    title: str,
+    subtitle: str,
+    colours,
+    *,
+    gaps: bool = False,
 ):
     from matplotlib.ticker import MultipleLocator
 
@@ -41,7 +73,8 @@ def _series_figure(
         t, xlabel, step = time_axis(np.asarray(times, float))
         for k, (name, values) in enumerate(series.items()):
             colour = colours[k % len(colours)]
-            ax.plot(t, values, color=colour, lw=1.3, label=name)
+            tk, vk = with_gaps(t, values) if gaps else (t, values)
+            ax.plot(tk, vk, color=colour, lw=1.3, label=name)
         ax.set_xlabel(xlabel)
         ax.set_ylabel(ylabel)
         if t.size:
@@ -93,16 +126,18 @@ def front_figure(
         title,
         "phase-change fronts (first and far crossings of half-frozen) and frozen area",
         style.LINE_COLOURS,
+        gaps=True,  # where a front jumps (at a thaw) the line is broken, not drawn vertical
     )
     ax = fig.axes[0]
     ax.set_ylim(bottom=0.0)
     ax.invert_yaxis()  # depth reads downwards
     if frozen_area is not None:
         t, _, _ = time_axis(np.asarray(times, float))
-        ax2 = ax.twinx()
-        ax2.plot(t, frozen_area, color="#777777", lw=1.0, ls="--", label="frozen area")
-        ax2.set_ylabel("frozen area (m²)", color="#555555")
-        ax2.set_ylim(bottom=0.0)
+        with style.style():  # the second axis in the same type sizes as the first
+            ax2 = ax.twinx()
+            ax2.plot(t, frozen_area, color="#777777", lw=1.0, ls="--", label="frozen area")
+            ax2.set_ylabel("frozen area (m²)", color="#555555")
+            ax2.set_ylim(bottom=0.0)
     return fig
 
 

@@ -25,7 +25,7 @@ nav { font-size: .9rem; color: var(--muted); }
 nav a { color: var(--accent); margin-right: .8rem; text-decoration: none; }
 table { border-collapse: collapse; margin: .6rem 0; font-size: .92rem; }
 th, td { padding: .25rem .7rem; border-bottom: 1px solid var(--rule); text-align: left;
-         vertical-align: top; }
+         vertical-align: top; overflow-wrap: anywhere; }
 th { border-bottom: 2px solid var(--ink); font-weight: 600; }
 td.n { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
 p.note { color: var(--muted); font-style: italic; }
@@ -39,7 +39,8 @@ figcaption { font-size: .9rem; color: var(--muted); margin-top: .3rem; }
 details pre { background: #f5f6f7; padding: .7rem; overflow-x: auto; font-size: .82rem; }
 footer { margin-top: 3rem; font-size: .85rem; color: var(--muted);
          border-top: 1px solid var(--rule); padding-top: .6rem; }
-@media print { body { max-width: none; margin: 0; } figure { break-inside: avoid; } }
+@media print { body { max-width: none; margin: 0; } figure, tr { break-inside: avoid; }
+               thead { display: table-header-group; } }
 """
 
 

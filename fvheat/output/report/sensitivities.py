@@ -7,7 +7,7 @@ from __future__ import annotations
 from typing import Any
 
 from fvheat.output.plots.sensitivities import LABELS, ranked_rows
-from fvheat.output.report.document import Para, Section, Table
+from fvheat.output.report.blocks import Para, Section, Table
 
 #: quantities with a table in the report, in order
 SHOWN = ("psi", "L2D", "U_f", "f_Rsi", "theta_si_min")
