@@ -36,6 +36,14 @@ SetOpt = Annotated[
     ),
 ]
 QuietOpt = Annotated[bool, typer.Option("--quiet", "-q", help="Print nothing but errors.")]
+FieldsOpt = Annotated[
+    str,
+    typer.Option(
+        "--fields",
+        help="Field files (VTU) to write: all saved times, the last one, or none.",
+        metavar="all|last|none",
+    ),
+]
 
 
 @app.command()
@@ -63,6 +71,7 @@ def run(
     no_plots: Annotated[
         bool, typer.Option("--no-plots", help="Skip the figures (the slowest output).")
     ] = False,
+    fields: FieldsOpt = "all",
 ) -> None:
     """Solve a case; write summary.json, timeseries.csv (transient), fields, cells.csv,
     figures and report.html to OUT."""
@@ -76,6 +85,7 @@ def run(
         as_json=as_json,
         grid_check=grid_check,
         plots=not no_plots,
+        fields=fields,
     )
 
 
@@ -201,6 +211,7 @@ def sweep(
     plots: Annotated[
         bool, typer.Option("--plots", help="Also draw every variant's figures (slow).")
     ] = False,
+    fields: FieldsOpt = "all",
     scheduler: Annotated[
         str | None,
         typer.Option(
@@ -223,6 +234,7 @@ def sweep(
         table=table,
         retry_failed=retry_failed,
         plots=plots,
+        fields=fields,
         scheduler=scheduler,
         quiet=quiet,
     )

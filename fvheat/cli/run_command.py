@@ -27,6 +27,7 @@ def run_case(
     as_json: bool,
     grid_check: bool | None = None,
     plots: bool = True,
+    fields: str = "all",
 ) -> Study:
     """:func:`fvheat.run.run_to_folder`, with a progress bar and the results printed."""
     out = out if out is not None else default_out(case_file)
@@ -34,7 +35,13 @@ def run_case(
 
     def job(progress: Progress | None) -> tuple[Study, dict]:
         return run_to_folder(
-            case_file, out, overrides, grid_check=grid_check, plots=plots, progress=progress
+            case_file,
+            out,
+            overrides,
+            grid_check=grid_check,
+            plots=plots,
+            fields=fields,
+            progress=progress,
         )
 
     study, summary = _with_progress(job) if show else job(None)

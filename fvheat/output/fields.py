@@ -25,15 +25,18 @@ from __future__ import annotations
 import csv
 import json
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 from xml.sax.saxutils import quoteattr
 
 import numpy as np
 
 from fvheat.mesh.mesh import RectGrid
 from fvheat.output.files import atomic_write, atomic_write_file, atomic_write_text
-from fvheat.output.view import FieldView, field_view
+from fvheat.output.view import FieldView
 from fvheat.simulate import Solution
+
+if TYPE_CHECKING:
+    from fvheat.output.memory import SolvedFields
 
 FIELDS_DIR = "fields"
 META_FILE = "fields.json"
@@ -152,39 +155,58 @@ def write_pvd(path: str | Path, entries: list[tuple[float, str]]) -> Path:
 SURFACE_FILE = "surface_solve.vtu"
 
 
+#: what ``fvheat run --fields`` writes: every saved state, the last one only, or nothing
+FIELD_CHOICES = ("all", "last", "none")
+
+
 def write_fields(
-    solution: Solution, out: str | Path, surface: Solution | None = None
+    solution: Solution,
+    out: str | Path,
+    surface: Solution | None = None,
+    *,
+    which: str = "all",
+    fields: SolvedFields | None = None,
 ) -> list[Path]:
     """Write the field files of a run into ``out/fields`` (see the module docstring);
-    ``surface`` is a junction's separate surface-temperature solution."""
+    ``surface`` is a junction's separate surface-temperature solution. ``which``: "all"
+    saved states, the "last" one only (and the surface solve), or "none" (nothing is
+    written). ``fields`` shares views already built (see :mod:`fvheat.output.memory`)."""
+    if which not in FIELD_CHOICES:
+        raise ValueError(f"which must be one of {FIELD_CHOICES}, got {which!r}")
+    if which == "none":
+        return []
+    from fvheat.output.memory import SolvedFields
+
+    fields = fields if fields is not None else SolvedFields(solution, surface)
     folder = Path(out) / FIELDS_DIR
     g = solution.mesh.grid
     assert g is not None
-    h = solution.history
-    written: list[Path] = []
-    if h is None or not h.fields:
-        states = [(solution.time, solution.temperature, "field.vtu")]
+    times = fields.field_times()
+    if solution.history is None or not solution.history.fields:
+        names = ["field.vtu"]
     else:
-        states = [
-            (t, f, f"field_{k:04d}.vtu")
-            for k, (t, f) in enumerate(zip(h.times, h.fields, strict=True))
-        ]
+        names = [f"field_{k:04d}.vtu" for k in range(len(times))]
+    picked = list(range(len(times))) if which == "all" else [len(times) - 1]
     n = solution.mesh.n_cells
-    compress = n <= COMPRESS_CELLS and n * len(states) <= COMPRESS_BUDGET
-    for t, temp, name in states:
-        written.append(write_vtu(folder / name, field_view(solution, temp, t), compress=compress))
-    entries = [(float(t), name) for t, _, name in states]
-    if len(states) > 1 or solution.case.transient:
+    compress = n <= COMPRESS_CELLS and n * len(picked) <= COMPRESS_BUDGET
+    written: list[Path] = []
+    for k in picked:
+        written.append(write_vtu(folder / names[k], fields.field(k), compress=compress))
+        if k != len(times) - 1:
+            fields.forget(k)  # a long run's views are not all kept
+    entries = [(times[k], names[k]) for k in picked]
+    if len(times) > 1 or solution.case.transient:
         written.append(write_pvd(folder / "field.pvd", entries))
-    if surface is not None:
-        written.append(write_vtu(folder / SURFACE_FILE, field_view(surface), compress=compress))
+    surface_view = fields.surface_field()
+    if surface_view is not None:
+        written.append(write_vtu(folder / SURFACE_FILE, surface_view, compress=compress))
     meta = {
         "format": FORMAT,
         "grid": {"x": g.x.tolist(), "y": g.y.tolist()},
         "materials": list(solution.mesh.material_names),
         "boundaries": list(solution.mesh.boundary_names),
         "files": [{"time_s": t, "file": f} for t, f in entries],
-        "surface_solve": SURFACE_FILE if surface is not None else None,
+        "surface_solve": SURFACE_FILE if surface_view is not None else None,
     }
     written.append(atomic_write_text(folder / META_FILE, json.dumps(meta, indent=1) + "\n"))
     return written

@@ -37,7 +37,9 @@ def heat_flux_figure(
         mag = np.hypot(view.flux[:, 0], view.flux[:, 1])
         lo, hi = frange if frange is not None else _range(mag)
         norm = LogNorm(lo, hi, clip=True)
-        quad = layers.draw_cells(ax, view, np.clip(mag, lo, hi), cmap=style.FLUX_CMAP, norm=norm)
+        quad = layers.draw_cells(
+            ax, view, np.clip(mag, lo, hi), window=window, cmap=style.FLUX_CMAP, norm=norm
+        )
         draw_streamlines(ax, view, window)
         layers.draw_outlines(ax, view, colour="#d9d9d9")
         handles = layers.draw_boundaries(ax, view)
@@ -125,12 +127,7 @@ def draw_streamlines(ax, view: FieldView, window: layers.Window, *, seeded: bool
     from matplotlib import patheffects
 
     x0, y0, x1, y1 = window
-    n = STREAM_SAMPLES
-    if x1 - x0 >= y1 - y0:
-        nx, ny = n, max(8, round(n * (y1 - y0) / (x1 - x0)))
-    else:
-        nx, ny = max(8, round(n * (x1 - x0) / (y1 - y0))), n
-    xs, ys = np.linspace(x0, x1, nx), np.linspace(y0, y1, ny)
+    xs, ys = layers.sample_window(view, window, STREAM_SAMPLES)
     gx, gy = np.meshgrid(xs, ys)
     q = dilate(layers.sample_cells(view, view.flux, gx, gy))
     if q.mask.all() or not np.ma.max(np.hypot(q[..., 0], q[..., 1])) > 0:

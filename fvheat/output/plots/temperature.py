@@ -69,10 +69,18 @@ def temperature_figure(
         from matplotlib.colors import Normalize
 
         norm = Normalize(lo, hi)
-        quad = layers.draw_cells(ax, view, view.temperature, cmap=style.TEMPERATURE_CMAP, norm=norm)
+        quad = layers.draw_cells(
+            ax, view, view.temperature, window=window, cmap=style.TEMPERATURE_CMAP, norm=norm
+        )
         levels = layers.isotherm_levels(lo, hi)
         cs = layers.draw_isotherms(
-            ax, view, view.temperature, levels, cmap=style.TEMPERATURE_CMAP, norm=norm
+            ax,
+            view,
+            view.temperature,
+            levels,
+            cmap=style.TEMPERATURE_CMAP,
+            norm=norm,
+            window=window,
         )
         layers.draw_outlines(ax, view)
         handles = layers.draw_boundaries(ax, view)

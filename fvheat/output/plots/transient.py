@@ -134,9 +134,18 @@ def snapshot_figure(
         levels = layers.isotherm_levels(*vrange, n=8)
         quad = None
         for ax, v in zip(axes, views, strict=False):
-            quad = layers.draw_cells(ax, v, v.temperature, cmap=style.TEMPERATURE_CMAP, norm=norm)
+            quad = layers.draw_cells(
+                ax, v, v.temperature, window=window, cmap=style.TEMPERATURE_CMAP, norm=norm
+            )
             layers.draw_isotherms(
-                ax, v, v.temperature, levels, cmap=style.TEMPERATURE_CMAP, norm=norm, labels=False
+                ax,
+                v,
+                v.temperature,
+                levels,
+                cmap=style.TEMPERATURE_CMAP,
+                norm=norm,
+                labels=False,
+                window=window,
             )
             layers.draw_outlines(ax, v)
             layers.set_window(ax, window)

@@ -1,0 +1,98 @@
+"""Cell values resampled to the pixels of a figure, so that drawing a field costs what the
+figure can show, not what the mesh holds.
+
+Up to :data:`RASTER_CELLS` cells a map is drawn cell by cell (``pcolormesh``, exact cell
+edges); above, each pixel of the axes takes the value of the cell under its centre and the
+map is one image. The lookup is by grid lines on a rectilinear grid (:func:`grid_cells`) and
+by the nearest cell centre on any other mesh (:func:`nearest_cells`), so a general
+face-array mesh can be drawn the same way.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from fvheat.mesh.mesh import RectGrid
+
+#: above this many cells a field map is drawn as an image at the figure's resolution
+RASTER_CELLS = 50_000
+#: isotherms and heat paths of a large grid are traced on a uniform sample grid of at most
+#: this many points across the longer side of the window
+CONTOUR_SAMPLES = 500
+
+Window = tuple[float, float, float, float]
+
+
+def pixel_centres(window: Window, width_px: int, height_px: int) -> tuple[np.ndarray, np.ndarray]:
+    """Centres (m) of ``width_px`` × ``height_px`` pixels covering ``window``: x (cols,),
+    y (rows,), rows from the bottom up."""
+    x0, y0, x1, y1 = window
+    xs = x0 + (np.arange(width_px) + 0.5) * (x1 - x0) / width_px
+    ys = y0 + (np.arange(height_px) + 0.5) * (y1 - y0) / height_px
+    return xs, ys
+
+
+def grid_cells(grid: RectGrid, xs: np.ndarray, ys: np.ndarray) -> np.ndarray:
+    """Index of the cell holding each point of the lattice ``xs`` × ``ys`` (m), shape
+    (rows, cols), −1 outside the body. Costs one search per row and column."""
+    i = np.searchsorted(grid.x, xs, side="right") - 1
+    j = np.searchsorted(grid.y, ys, side="right") - 1
+    ok_i = (i >= 0) & (i < grid.x.size - 1)
+    ok_j = (j >= 0) & (j < grid.y.size - 1)
+    out = np.full((ys.size, xs.size), -1, dtype=np.int64)
+    sub = grid.cell_index[np.ix_(j[ok_j], i[ok_i])]
+    out[np.ix_(ok_j, ok_i)] = sub
+    return out
+
+
+def nearest_cells(
+    centres: np.ndarray, radius: np.ndarray, xs: np.ndarray, ys: np.ndarray
+) -> np.ndarray:
+    """For any mesh: index of the cell whose centre (``centres`` (n, 2), m) is nearest to
+    each point of the lattice ``xs`` × ``ys`` (m), shape (rows, cols); −1 where that
+    centre is farther than the cell's ``radius`` (n,), m (e.g. the largest distance from
+    its centre to a vertex), i.e. outside the body. Near the edges of cells of very
+    different size a pixel may take a neighbour's value; at the figure's resolution that is
+    less than a pixel."""
+    from scipy.spatial import cKDTree
+
+    gx, gy = np.meshgrid(xs, ys)
+    pts = np.column_stack([gx.ravel(), gy.ravel()])
+    dist, idx = cKDTree(centres).query(pts, k=1)
+    idx = np.where(dist <= radius[idx], idx, -1)
+    return idx.reshape(ys.size, xs.size)
+
+
+def axes_pixels(ax, dpi: float) -> tuple[int, int]:
+    """An upper bound of the size (px) of ``ax`` at ``dpi``: the figure divided by the
+    subplot grid (the layout is computed only when drawing)."""
+    w, h = ax.figure.get_size_inches() * dpi
+    spec = ax.get_subplotspec()
+    rows, cols = (1, 1) if spec is None else spec.get_geometry()[:2]
+    return max(2, int(np.ceil(w / cols))), max(2, int(np.ceil(h / rows)))
+
+
+def image_size(window: Window, most: tuple[int, int]) -> tuple[int, int]:
+    """Pixels (width, height) of an image of ``window`` at equal aspect that fits ``most``
+    (width, height) px."""
+    x0, y0, x1, y1 = window
+    s = min(most[0] / (x1 - x0), most[1] / (y1 - y0))
+    return max(2, round((x1 - x0) * s)), max(2, round((y1 - y0) * s))
+
+
+def draw_image(ax, cells: np.ndarray, values: np.ndarray, window: Window, **kwargs):
+    """Cell ``values`` at the pixels of the cell-index image ``cells`` (rows bottom up, −1
+    blank) as one image over ``window``; returns the AxesImage."""
+    img = np.ma.masked_array(
+        values[np.maximum(cells, 0)], mask=np.broadcast_to(cells < 0, cells.shape)
+    )
+    x0, y0, x1, y1 = window
+    return ax.imshow(
+        img,
+        origin="lower",
+        extent=(x0, x1, y0, y1),
+        interpolation="nearest",
+        aspect="auto",
+        rasterized=True,
+        **kwargs,
+    )
