@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from fvheat.output.plots import layers, style
+from fvheat.output.plots import layers, raster, style
 from fvheat.output.view import FieldView
 
 #: |q| below this fraction of the largest value is drawn at the bottom of the colour scale
@@ -44,7 +44,9 @@ def heat_flux_figure(
         layers.draw_outlines(ax, view, colour="#d9d9d9")
         handles = layers.draw_boundaries(ax, view)
         layers.set_window(ax, window)
-        cbar = fig.colorbar(quad, ax=ax, shrink=0.85, pad=0.02, aspect=30, extend="min")
+        cbar = fig.colorbar(
+            raster.colour_scale(quad), ax=ax, shrink=0.85, pad=0.02, aspect=30, extend="min"
+        )
         cbar.set_label("heat-flux density |q| (W/m²)")
         log_ticks(cbar, lo, hi)
         cbar.outline.set_linewidth(0.5)

@@ -71,7 +71,7 @@ def sample_cells(view: GeometryView, values: np.ndarray, x: np.ndarray, y: np.nd
     vals = values[np.maximum(cells, 0)]  # (4, *shape, ...)
     extra = (slice(None),) * w.ndim + (None,) * (vals.ndim - w.ndim)
     out = (w[extra] * vals).sum(axis=0)
-    mask = np.broadcast_to(~ok[(...,) + (None,) * (vals.ndim - w.ndim)], out.shape)
+    mask = np.broadcast_to(~ok[(...,) + (None,) * (vals.ndim - w.ndim)], out.shape).copy()
     return np.ma.masked_array(out, mask=mask)
 
 

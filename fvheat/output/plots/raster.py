@@ -80,15 +80,20 @@ def image_size(window: Window, most: tuple[int, int]) -> tuple[int, int]:
     return max(2, round((x1 - x0) * s)), max(2, round((y1 - y0) * s))
 
 
-def draw_image(ax, cells: np.ndarray, values: np.ndarray, window: Window, **kwargs):
+def draw_image(ax, cells: np.ndarray, values: np.ndarray, window: Window, *, cmap, norm, **kwargs):
     """Cell ``values`` at the pixels of the cell-index image ``cells`` (rows bottom up, −1
-    blank) as one image over ``window``; returns the AxesImage."""
-    img = np.ma.masked_array(
-        values[np.maximum(cells, 0)], mask=np.broadcast_to(cells < 0, cells.shape)
-    )
+    blank) as one image over ``window``; returns the AxesImage, which carries ``cmap`` and
+    ``norm`` for a colour bar. The cells are coloured once (RGBA bytes), then indexed by
+    pixel, so matplotlib only places the image."""
+    from matplotlib import colormaps
+
+    cm = colormaps[cmap] if isinstance(cmap, str) else cmap
+    colours = cm(norm(values), bytes=True)  # (n, 4) uint8
+    rgba = colours[np.maximum(cells, 0)]
+    rgba[cells < 0] = 0  # transparent outside the body
     x0, y0, x1, y1 = window
-    return ax.imshow(
-        img,
+    image = ax.imshow(
+        rgba,
         origin="lower",
         extent=(x0, x1, y0, y1),
         interpolation="nearest",
@@ -96,3 +101,17 @@ def draw_image(ax, cells: np.ndarray, values: np.ndarray, window: Window, **kwar
         rasterized=True,
         **kwargs,
     )
+    from matplotlib.cm import ScalarMappable
+
+    setattr(image, SCALE_ATTR, ScalarMappable(norm=norm, cmap=cm))  # see colour_scale
+    return image
+
+
+#: attribute of a drawn image holding the colour scale its pixels were coloured with
+SCALE_ATTR = "fvheat_colour_scale"
+
+
+def colour_scale(artist):
+    """What a colour bar of ``artist`` (a QuadMesh or an image of :func:`draw_image`) is
+    drawn from: the artist itself, or the scale its pixels were coloured with."""
+    return getattr(artist, SCALE_ATTR, artist)

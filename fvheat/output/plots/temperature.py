@@ -7,7 +7,7 @@ from typing import Any
 
 import numpy as np
 
-from fvheat.output.plots import layers, style
+from fvheat.output.plots import layers, raster, style
 from fvheat.output.view import FieldView
 
 COLDEST_GID = "coldest-point"
@@ -86,7 +86,12 @@ def temperature_figure(
         handles = layers.draw_boundaries(ax, view)
         layers.set_window(ax, window)
         cbar = fig.colorbar(
-            quad, ax=ax, shrink=0.85, pad=0.02, aspect=30, extend=_extend(view, lo, hi)
+            raster.colour_scale(quad),
+            ax=ax,
+            shrink=0.85,
+            pad=0.02,
+            aspect=30,
+            extend=_extend(view, lo, hi),
         )
         cbar.set_label("temperature (°C)")
         cbar.outline.set_linewidth(0.5)

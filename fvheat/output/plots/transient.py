@@ -5,7 +5,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from fvheat.output.plots import layers, style
+from fvheat.output.plots import layers, raster, style
 from fvheat.output.plots.temperature import time_label
 from fvheat.output.view import FieldView
 
@@ -153,7 +153,9 @@ def snapshot_figure(
             ax.label_outer()
         for ax in axes[n:]:
             ax.set_visible(False)
-        cbar = fig.colorbar(quad, ax=list(axes[:n]), shrink=0.8, pad=0.02, aspect=30)
+        cbar = fig.colorbar(
+            raster.colour_scale(quad), ax=list(axes[:n]), shrink=0.8, pad=0.02, aspect=30
+        )
         cbar.set_label("temperature (°C)")
         cbar.outline.set_linewidth(0.5)
         sub = "temperature field at saved times"
