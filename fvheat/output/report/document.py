@@ -743,17 +743,17 @@ def _balance_section(s: dict[str, Any]) -> Section:
 
 
 def _software_section(s: dict[str, Any]) -> Section:
-    import matplotlib
-    import meshio
     import numpy
     import scipy
+
+    from fvheat.versions import package_version  # without importing what a run did not need
 
     rows = [
         ["computed with", f"fvheat {s.get('fvheat_version', '?')}"],
         ["report written with", f"fvheat {__version__}"],
         ["Python", platform.python_version()],
         ["NumPy / SciPy", f"{numpy.__version__} / {scipy.__version__}"],
-        ["matplotlib / meshio", f"{matplotlib.__version__} / {meshio.__version__}"],
+        ["matplotlib / meshio", f"{package_version('matplotlib')} / {package_version('meshio')}"],
     ]
     return Section(
         "software",
