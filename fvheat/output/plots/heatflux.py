@@ -125,26 +125,39 @@ def dilate(q: np.ma.MaskedArray) -> np.ma.MaskedArray:
 def draw_streamlines(ax, view: FieldView, window: layers.Window, *, seeded: bool = True) -> None:
     """Lines along q: heat paths from the warm surfaces (``seeded``, see
     :func:`heat_path_seeds`) or an even cover of the window; they stop at the body's edges.
-    q is sampled bilinearly on a uniform grid over the window."""
+    q is sampled bilinearly on a uniform grid over the part of the window the body spans
+    (:data:`STREAM_SAMPLES` across), whatever the number of cells."""
     from matplotlib import patheffects
 
     x0, y0, x1, y1 = window
-    xs, ys = layers.sample_window(view, window, STREAM_SAMPLES)
+    bx0, by0, bx1, by1 = view.extent
+    span = (max(x0, bx0), max(y0, by0), min(x1, bx1), min(y1, by1))
+    if not (span[0] < span[2] and span[1] < span[3]):
+        return
+    xs, ys = layers.sample_window(view, span, STREAM_SAMPLES)
     gx, gy = np.meshgrid(xs, ys)
     q = dilate(layers.sample_cells(view, view.flux, gx, gy))
     if q.mask.all() or not np.ma.max(np.hypot(q[..., 0], q[..., 1])) > 0:
         return
+    # matplotlib follows a masked field point by point through numpy.ma, much slower than a
+    # plain array: masks only where some sample lies outside the body
+    qx, qy = (q[..., 0], q[..., 1]) if q.mask.any() else (q.data[..., 0], q.data[..., 1])
     opts: dict = {"density": 1.3, "broken_streamlines": True}
     if seeded:
         seeds = heat_path_seeds(view)
-        keep = (seeds[:, 0] > x0) & (seeds[:, 0] < x1) & (seeds[:, 1] > y0) & (seeds[:, 1] < y1)
+        keep = (
+            (seeds[:, 0] > xs[0])
+            & (seeds[:, 0] < xs[-1])
+            & (seeds[:, 1] > ys[0])
+            & (seeds[:, 1] < ys[-1])
+        )
         if keep.sum() >= 3:
             opts = {"start_points": seeds[keep], "broken_streamlines": False, "density": 4}
     sp = ax.streamplot(
         xs,
         ys,
-        q[..., 0],
-        q[..., 1],
+        qx,
+        qy,
         color="#f2fbfa",
         linewidth=0.6,
         arrowsize=0.7,

@@ -64,12 +64,10 @@ def nearest_cells(
 
 
 def axes_pixels(ax, dpi: float) -> tuple[int, int]:
-    """An upper bound of the size (px) of ``ax`` at ``dpi``: the figure divided by the
-    subplot grid (the layout is computed only when drawing)."""
-    w, h = ax.figure.get_size_inches() * dpi
-    spec = ax.get_subplotspec()
-    rows, cols = (1, 1) if spec is None else spec.get_geometry()[:2]
-    return max(2, int(np.ceil(w / cols))), max(2, int(np.ceil(h / rows)))
+    """The size (px) of ``ax`` at ``dpi`` as placed before the layout is computed (the
+    layout, run when drawing, shrinks it a little), plus a tenth."""
+    w, h = ax.get_position().size * ax.figure.get_size_inches() * dpi * 1.1
+    return max(2, int(np.ceil(w))), max(2, int(np.ceil(h)))
 
 
 def image_size(window: Window, most: tuple[int, int]) -> tuple[int, int]:
