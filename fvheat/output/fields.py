@@ -32,7 +32,7 @@ import numpy as np
 
 from fvheat.mesh.mesh import RectGrid
 from fvheat.output.files import atomic_write, atomic_write_file, atomic_write_text
-from fvheat.output.view import FieldView
+from fvheat.output.view import FieldView, GeometryView
 from fvheat.simulate import Solution
 
 if TYPE_CHECKING:
@@ -52,10 +52,12 @@ def _node_ids(grid: RectGrid, pts: np.ndarray) -> np.ndarray:
     return j * x.size + i
 
 
-def to_meshio(view: FieldView):
-    """The view as a :class:`meshio.Mesh`: quads for cells, lines for exterior faces."""
-    import meshio
+Topology = tuple[np.ndarray, np.ndarray, np.ndarray]
 
+
+def vtu_topology(view: GeometryView) -> Topology:
+    """Points (k, 3) m, quads (n, 4) and lines (m, 2) of the VTU of a view: the same for
+    every saved time of a run, so computed once."""
     g = view.grid
     nx = g.x.size
     rows, cols = np.nonzero(g.cell_index >= 0)  # row-major: the solver's cell order
@@ -68,7 +70,15 @@ def to_meshio(view: FieldView):
     quads = inverse[: quads.size].reshape(-1, 4)
     lines = inverse[quads.size :].reshape(-1, 2)
     points = np.column_stack([g.x[used % nx], g.y[used // nx], np.zeros(used.size)])
+    return points, quads, lines
 
+
+def to_meshio(view: FieldView, topology: Topology | None = None):
+    """The view as a :class:`meshio.Mesh`: quads for cells, lines for exterior faces
+    (``topology`` from :func:`vtu_topology`, computed when not given)."""
+    import meshio
+
+    points, quads, lines = topology if topology is not None else vtu_topology(view)
     n_faces = view.face_boundary.size
     normal = outward_normals(view.face_ends)
     face_vec = -view.face_flux[:, None] * normal
@@ -129,11 +139,13 @@ COMPRESS_CELLS = 250_000
 COMPRESS_BUDGET = 2_500_000
 
 
-def write_vtu(path: str | Path, view: FieldView, *, compress: bool = True) -> Path:
+def write_vtu(
+    path: str | Path, view: FieldView, *, compress: bool = True, topology: Topology | None = None
+) -> Path:
     """Write one field as binary VTU (zlib-compressed when ``compress``), atomically."""
     import meshio
 
-    m = to_meshio(view)
+    m = to_meshio(view, topology)
     compression = "zlib" if compress else None
     return atomic_write_file(
         path, lambda tmp: meshio.vtu.write(tmp, m, binary=True, compression=compression)
@@ -190,8 +202,10 @@ def write_fields(
     n = solution.mesh.n_cells
     compress = n <= COMPRESS_CELLS and n * len(picked) <= COMPRESS_BUDGET
     written: list[Path] = []
+    topology = vtu_topology(fields.field(-1))
     for k in picked:
-        written.append(write_vtu(folder / names[k], fields.field(k), compress=compress))
+        view = fields.field(k)
+        written.append(write_vtu(folder / names[k], view, compress=compress, topology=topology))
         if k != len(times) - 1:
             fields.forget(k)  # a long run's views are not all kept
     entries = [(times[k], names[k]) for k in picked]
@@ -199,7 +213,9 @@ def write_fields(
         written.append(write_pvd(folder / "field.pvd", entries))
     surface_view = fields.surface_field()
     if surface_view is not None:
-        written.append(write_vtu(folder / SURFACE_FILE, surface_view, compress=compress))
+        written.append(
+            write_vtu(folder / SURFACE_FILE, surface_view, compress=compress, topology=topology)
+        )
     meta = {
         "format": FORMAT,
         "grid": {"x": g.x.tolist(), "y": g.y.tolist()},
