@@ -10,7 +10,7 @@ from fvheat.output.view import FieldView
 #: |q| below this fraction of the largest value is drawn at the bottom of the colour scale
 FLUX_FLOOR = 1e-3
 #: streamline sampling grid: points across the longer side of the window
-STREAM_SAMPLES = 180
+STREAM_SAMPLES = 120
 #: number of heat paths drawn from the surfaces where heat enters
 HEAT_PATHS = 24
 
