@@ -4,6 +4,8 @@ grid a cell is exactly the set of points nearest to its centre)."""
 
 from __future__ import annotations
 
+import re
+
 import numpy as np
 
 from fvheat.mesh.mesh import RectGrid
@@ -56,3 +58,50 @@ def test_nearest_centre_lookup_agrees_inside_the_body_on_a_uniform_grid():
 def test_image_keeps_the_window_aspect():
     assert image_size((0.0, 0.0, 2.0, 1.0), (1000, 1000)) == (1000, 500)
     assert image_size((0.0, 0.0, 1.0, 3.0), (1000, 900)) == (300, 900)
+
+
+FINE_WALL = """
+title = "fine wall"
+[mesh]
+max_cell = 0.004
+min_cell = 0.004
+[materials.brick]
+conductivity = 0.8
+[[regions]]
+material = "brick"
+box = [0.0, 0.0, 1.0, 1.0]
+[[boundaries]]
+name = "inside"
+edges = [[[0.0, 0.0], [0.0, 1.0]]]
+air_temperature = 20.0
+resistance = 0.13
+"""
+
+
+def test_mesh_figure_of_a_fine_grid_draws_every_kth_line_and_says_so(tmp_path):
+    """250 × 250 cells cannot all be outlined on a page: every k-th grid line is drawn
+    (on average at least 2.5 pt apart) and the subtitle says which."""
+    from casefiles import load
+    from matplotlib.collections import LineCollection
+
+    from fvheat.mesh.rectilinear import build_mesh
+    from fvheat.output.plots.meshplot import mesh_figure
+    from fvheat.output.view import geometry_view
+
+    view = geometry_view(build_mesh(load(tmp_path, FINE_WALL)))
+    assert view.n_cells == 250 * 250
+    fig = mesh_figure(view)
+    subtitle = fig.axes[0].get_title(loc="left").replace("\n", " ")
+    found = re.search(
+        r"every (\d+)(st|nd|rd|th) grid line drawn \(too fine to show all\)", subtitle
+    )
+    assert found is not None, subtitle
+    k = int(found.group(1))
+    assert k >= 2
+    # the grid lines: 251 in each direction, every k-th drawn
+    (lines,) = [
+        c for c in fig.axes[0].collections if isinstance(c, LineCollection) and c.get_gid() is None
+    ][:1]
+    segs = lines.get_segments()
+    xs = {round(float(s[0][0]), 9) for s in segs if abs(s[0][0] - s[1][0]) < 1e-12}
+    assert len(xs) == len(range(0, 251, k))
