@@ -13,6 +13,8 @@ FLUX_FLOOR = 1e-3
 STREAM_SAMPLES = 120
 #: number of heat paths drawn from the surfaces where heat enters
 HEAT_PATHS = 24
+#: longest heat path drawn, in widths of the sampled window
+HEAT_PATH_LENGTH = 2.5
 
 
 def heat_flux_figure(
@@ -152,7 +154,15 @@ def draw_streamlines(ax, view: FieldView, window: layers.Window, *, seeded: bool
             & (seeds[:, 1] < ys[-1])
         )
         if keep.sum() >= 3:
-            opts = {"start_points": seeds[keep], "broken_streamlines": False, "density": 4}
+            # density sets the integration step (1/(30·density) of the window); a path
+            # ends after HEAT_PATH_LENGTH windows (one that circles in a slow region
+            # would otherwise be followed for long)
+            opts = {
+                "start_points": seeds[keep],
+                "broken_streamlines": False,
+                "density": 2,
+                "maxlength": HEAT_PATH_LENGTH,
+            }
     sp = ax.streamplot(
         xs,
         ys,

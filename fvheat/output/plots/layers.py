@@ -260,8 +260,9 @@ def draw_isotherms(
     labels: bool = True,
     window: Window | None = None,
 ):
-    """Isotherms through the cell centres (above ``raster.RASTER_CELLS`` cells: through a
-    bilinear sample of ``raster.CONTOUR_SAMPLES`` points across ``window``), optionally
+    """Isotherms through the cell centres (on a grid of more than
+    ``raster.CONTOUR_SAMPLES`` columns or rows: through a bilinear sample of that many
+    points across ``window``), optionally
     labelled. With ``cmap`` and ``norm`` each line is dark over light colours and light
     over dark ones."""
     if levels.size == 0:
@@ -278,9 +279,9 @@ def draw_isotherms(
         )
         luminance = rgb @ np.array([0.2126, 0.7152, 0.0722])
         colours = ["#161616" if v > 0.45 else "#f4f4f4" for v in luminance]
-    if view.n_cells <= raster.RASTER_CELLS:
+    if max(g.xc.size, g.yc.size) <= raster.CONTOUR_SAMPLES:
         xs, ys, grid_vals = g.xc, g.yc, view.grid_values(values)
-    else:  # a large grid: traced on a uniform sample finer than the lines can show
+    else:  # a fine grid: traced on a uniform sample finer than the lines can show
         xs, ys = sample_window(view, window or window_of(view), raster.CONTOUR_SAMPLES)
         gx, gy = np.meshgrid(xs, ys)
         grid_vals = sample_cells(view, values, gx, gy)
