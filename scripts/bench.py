@@ -631,8 +631,8 @@ def measure_more(args: argparse.Namespace, work: Path, sizes: list[int]) -> dict
                 flush=True,
             )
     if not args.no_sweep:
-        few, many = (2, 6) if args.quick else (2, 12)
-        cost = bt.sweep_cost(work, few, many)
+        few, many = (2, 6) if args.quick else (2, 32)
+        cost = bt.sweep_cost(work, few, many, 1 if args.quick else args.repeat)
         more["sweep"] = cost
         print(
             f"  balcony demo, load + mesh + solve in this process: {cost.study:.3f} s", flush=True

@@ -202,21 +202,27 @@ class SweepCost:
     scaling: float | None  # per-variant throughput with 2 workers / with 1
 
 
-def sweep_cost(work: Path, few: int, many: int) -> SweepCost:
+def sweep_cost(work: Path, few: int, many: int, repeat: int = 1) -> SweepCost:
     """Per-variant wall time of sweeps of the balcony demo: the difference between a sweep
     of ``many`` and one of ``few`` variants (start-up cancels), divided by the difference
-    in variants; with --fields none and all on one worker, and none on two."""
+    in variants (median of ``repeat`` pairs); with --fields none and all on one worker, and
+    none on two."""
     study = study_seconds(BALCONY)
+
+    def per_variant(jobs: int, fields: str) -> float:
+        got = []
+        for _ in range(repeat):
+            a = sweep_wall(BALCONY, work, few, jobs, fields)
+            b = sweep_wall(BALCONY, work, many, jobs, fields)
+            got.append((b - a) / (many - few))
+        return statistics.median(got)
+
     per: dict[str, float] = {}
     for fields in ("none", "all"):
-        a = sweep_wall(BALCONY, work, few, 1, fields)
-        b = sweep_wall(BALCONY, work, many, 1, fields)
-        per[f"--fields {fields}, 1 worker"] = (b - a) / (many - few)
+        per[f"--fields {fields}, 1 worker"] = per_variant(1, fields)
     scaling = None
     if (os.cpu_count() or 1) >= 2:
-        a = sweep_wall(BALCONY, work, few, 2, "none")
-        b = sweep_wall(BALCONY, work, many, 2, "none")
-        per["--fields none, 2 workers"] = (b - a) / (many - few)
+        per["--fields none, 2 workers"] = per_variant(2, "none")
         scaling = per["--fields none, 1 worker"] / per["--fields none, 2 workers"]
     overhead = {k: v - study for k, v in per.items() if "1 worker" in k}
     return SweepCost(study, per, overhead, scaling)
