@@ -262,9 +262,8 @@ def draw_isotherms(
 ):
     """Isotherms through the cell centres (on a grid of more than
     ``raster.CONTOUR_SAMPLES`` columns or rows: through a bilinear sample of that many
-    points across ``window``), optionally
-    labelled. With ``cmap`` and ``norm`` each line is dark over light colours and light
-    over dark ones."""
+    points across ``window``), optionally labelled. With ``cmap`` and ``norm`` each line is
+    dark over light colours and light over dark ones."""
     if levels.size == 0:
         return None
     g = view.grid
