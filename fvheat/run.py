@@ -9,7 +9,9 @@ from typing import Any
 
 from fvheat.case.load import load_case
 from fvheat.checks import check_model
+from fvheat.errors import CaseError
 from fvheat.mesh.rectilinear import build_mesh
+from fvheat.output.fields import FIELD_CHOICES
 from fvheat.output.lock import folder_lock
 from fvheat.output.paths import check_output_folder
 from fvheat.sensitivity.quantities import case_for_sensitivities, check_sensitivities_possible
@@ -24,20 +26,24 @@ def run_to_folder(
     *,
     grid_check: bool | None = None,
     plots: bool = True,
+    fields: str = "all",
     progress: Progress | None = None,
     sensitivities: bool | None = None,
 ) -> tuple[Study, dict[str, Any]]:
     """Validate, mesh and check the model and the output folder (before anything is
     written), take the folder's lock, solve, clear the outputs of an earlier run, then
     write ``summary.json``, ``timeseries.csv`` (transient) and the other outputs into
-    ``out``. Returns the study and the summary dictionary (with ``solve_seconds``, the wall
-    time of the solves). ``sensitivities`` overrides the case's ``[sensitivities] enabled``
-    (adjoint sensitivities, plus finite differences for ``[parameters]``). A folder this
-    run created is removed again if the run fails before writing anything into it."""
+    ``out`` (``fields``: "all" saved fields, the "last" one or "none", as
+    :func:`fvheat.output.folder.write_outputs`). Returns the study and the summary
+    dictionary (with ``solve_seconds``, the wall time of the solves). ``sensitivities``
+    overrides the case's ``[sensitivities] enabled`` (adjoint sensitivities, plus finite
+    differences for ``[parameters]``). A folder this run created is removed again if the
+    run fails before writing anything into it."""
     from fvheat.output.folder import clear_outputs
     from fvheat.output.summary import build_summary, write_summary
     from fvheat.output.timeseries import write_timeseries
 
+    check_fields_choice(fields)
     case = load_case(case_file, overrides)
     want = case.sensitivities if sensitivities is None else sensitivities
     if want:
@@ -68,7 +74,7 @@ def run_to_folder(
                 write_timeseries(out / "timeseries.csv", study.solution)
             from fvheat.output.folder import write_outputs  # imported once the summary is out
 
-            write_outputs(study, out, plots=plots)
+            write_outputs(study, out, plots=plots, fields=fields)
     except BaseException:
         if created and out.is_dir() and not any(out.iterdir()):
             out.rmdir()
@@ -89,3 +95,11 @@ def _sensitivities(case_file: Path, overrides: tuple[str, ...], study: Study):
         more, d = parameter_derivatives(case_file, overrides, params, names)
         extra = (more, d, names)
     return study_sensitivities(study, extra)
+
+
+def check_fields_choice(fields: str) -> None:
+    """:class:`CaseError` naming ``--fields`` unless ``fields`` is one of FIELD_CHOICES."""
+    if fields not in FIELD_CHOICES:
+        raise CaseError(
+            f"expected one of {', '.join(FIELD_CHOICES)}, got {fields!r}", key="--fields"
+        )

@@ -18,11 +18,11 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.constants import Stefan_Boltzmann as SIGMA
-from scipy.constants import zero_Celsius as KELVIN
 
 from fvheat.case.model import Boundary
 from fvheat.case.signals import Constant, Signal
+from fvheat.constants import STEFAN_BOLTZMANN as SIGMA
+from fvheat.constants import ZERO_CELSIUS as KELVIN
 from fvheat.errors import ConvergenceError
 from fvheat.mesh.mesh import Mesh
 

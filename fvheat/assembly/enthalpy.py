@@ -15,6 +15,7 @@ Other materials have h(T) = C·T. Cell enthalpies below are per metre depth (J/m
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 
 import numpy as np
@@ -141,7 +142,8 @@ class EnthalpyModel:
         f = self.liquid_fraction(temp)
         return self.k_f + f * (self.k_u - self.k_f)
 
-    @property
+    @functools.cached_property
     def variable_conductivity(self) -> bool:
-        """Whether some phase-change cell conducts differently frozen and unfrozen."""
+        """Whether a phase change alters some cell's conductivity (computed once: asked
+        at every time step)."""
         return bool(np.any(self.pcm & (self.k_f != self.k_u)))

@@ -36,6 +36,14 @@ SetOpt = Annotated[
     ),
 ]
 QuietOpt = Annotated[bool, typer.Option("--quiet", "-q", help="Print nothing but errors.")]
+FieldsOpt = Annotated[
+    str,
+    typer.Option(
+        "--fields",
+        help="Field files (VTU) to write: all saved times, the last one, or none.",
+        metavar="all|last|none",
+    ),
+]
 
 
 @app.command()
@@ -72,6 +80,7 @@ def run(
             show_default=False,
         ),
     ] = None,
+    fields: FieldsOpt = "all",
 ) -> None:
     """Solve a case; write summary.json, timeseries.csv (transient), fields, cells.csv,
     figures and report.html to OUT."""
@@ -86,6 +95,7 @@ def run(
         grid_check=grid_check,
         plots=not no_plots,
         sensitivities=sensitivities,
+        fields=fields,
     )
 
 
@@ -289,6 +299,7 @@ def sweep(
     plots: Annotated[
         bool, typer.Option("--plots", help="Also draw every variant's figures (slow).")
     ] = False,
+    fields: FieldsOpt = "all",
     scheduler: Annotated[
         str | None,
         typer.Option(
@@ -311,6 +322,7 @@ def sweep(
         table=table,
         retry_failed=retry_failed,
         plots=plots,
+        fields=fields,
         scheduler=scheduler,
         quiet=quiet,
     )

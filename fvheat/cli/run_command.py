@@ -28,6 +28,7 @@ def run_case(
     grid_check: bool | None = None,
     plots: bool = True,
     sensitivities: bool | None = None,
+    fields: str = "all",
 ) -> Study:
     """:func:`fvheat.run.run_to_folder`, with a progress bar and the results printed."""
     out = out if out is not None else default_out(case_file)
@@ -40,6 +41,7 @@ def run_case(
             overrides,
             grid_check=grid_check,
             plots=plots,
+            fields=fields,
             progress=progress,
             sensitivities=sensitivities,
         )

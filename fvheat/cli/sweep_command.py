@@ -48,6 +48,7 @@ def sweep_case(
     retry_failed: bool,
     plots: bool,
     scheduler: str | None,
+    fields: str = "all",
     quiet: bool,
 ) -> int:
     """Check the sweep (bad arguments raise :class:`CaseError` before anything is written),
@@ -67,6 +68,7 @@ def sweep_case(
             table=table,
             retry_failed=retry_failed,
             plots=plots,
+            fields=fields,
             scheduler=scheduler,
             quiet=quiet,
         )
@@ -85,6 +87,7 @@ def _sweep(
     retry_failed: bool,
     plots: bool,
     scheduler: str | None,
+    fields: str = "all",
     quiet: bool,
 ) -> int:
     from fvheat.sweep.variants import vary_variants
@@ -100,6 +103,9 @@ def _sweep(
     else:
         keys, variants = vary_variants(vary, zipped=zipped)
         origin = "--vary"
+    from fvheat.run import check_fields_choice
+
+    check_fields_choice(fields)
     if jobs is not None and jobs < 1:
         raise CaseError(f"must be at least 1, got {jobs}", key="--jobs")
     if table is not None and table.suffix.lower() != ".csv":
@@ -117,6 +123,7 @@ def _sweep(
                 executor,
                 retry_failed=retry_failed,
                 plots=plots,
+                fields=fields,
                 on_start=progress.start,
                 on_result=progress.advance,
             )

@@ -32,11 +32,13 @@ import numpy as np
 
 from fvheat.mesh.mesh import RectGrid
 from fvheat.output.files import atomic_write, atomic_write_file, atomic_write_text
-from fvheat.output.view import FieldView, field_view
+from fvheat.output.view import FieldView, GeometryView
 from fvheat.simulate import Solution
 
 if TYPE_CHECKING:
     import meshio
+
+    from fvheat.output.memory import SolvedFields
 
 FIELDS_DIR = "fields"
 META_FILE = "fields.json"
@@ -52,10 +54,12 @@ def _node_ids(grid: RectGrid, pts: np.ndarray) -> np.ndarray:
     return j * x.size + i
 
 
-def to_meshio(view: FieldView) -> meshio.Mesh:
-    """The view as a :class:`meshio.Mesh`: quads for cells, lines for exterior faces."""
-    import meshio
+Topology = tuple[np.ndarray, np.ndarray, np.ndarray]
 
+
+def vtu_topology(view: GeometryView) -> Topology:
+    """Points (k, 3) m, quads (n, 4) and lines (m, 2) of the VTU of a view: the same for
+    every saved time of a run, so computed once."""
     g = view.grid
     nx = g.x.size
     rows, cols = np.nonzero(g.cell_index >= 0)  # row-major: the solver's cell order
@@ -68,7 +72,15 @@ def to_meshio(view: FieldView) -> meshio.Mesh:
     quads = inverse[: quads.size].reshape(-1, 4)
     lines = inverse[quads.size :].reshape(-1, 2)
     points = np.column_stack([g.x[used % nx], g.y[used // nx], np.zeros(used.size)])
+    return points, quads, lines
 
+
+def to_meshio(view: FieldView, topology: Topology | None = None) -> meshio.Mesh:
+    """The view as a :class:`meshio.Mesh`: quads for cells, lines for exterior faces
+    (``topology`` from :func:`vtu_topology`, computed when not given)."""
+    import meshio
+
+    points, quads, lines = topology if topology is not None else vtu_topology(view)
     n_faces = view.face_boundary.size
     normal = outward_normals(view.face_ends)
     face_vec = -view.face_flux[:, None] * normal
@@ -129,11 +141,13 @@ COMPRESS_CELLS = 250_000
 COMPRESS_BUDGET = 2_500_000
 
 
-def write_vtu(path: str | Path, view: FieldView, *, compress: bool = True) -> Path:
+def write_vtu(
+    path: str | Path, view: FieldView, *, compress: bool = True, topology: Topology | None = None
+) -> Path:
     """Write one field as binary VTU (zlib-compressed when ``compress``), atomically."""
     import meshio
 
-    m = to_meshio(view)
+    m = to_meshio(view, topology)
     compression = "zlib" if compress else None
     return atomic_write_file(
         path, lambda tmp: meshio.vtu.write(tmp, m, binary=True, compression=compression)
@@ -155,39 +169,62 @@ def write_pvd(path: str | Path, entries: list[tuple[float, str]]) -> Path:
 SURFACE_FILE = "surface_solve.vtu"
 
 
+#: what ``fvheat run --fields`` writes: every saved state, the last one only, or nothing
+FIELD_CHOICES = ("all", "last", "none")
+
+
 def write_fields(
-    solution: Solution, out: str | Path, surface: Solution | None = None
+    solution: Solution,
+    out: str | Path,
+    surface: Solution | None = None,
+    *,
+    which: str = "all",
+    fields: SolvedFields | None = None,
 ) -> list[Path]:
     """Write the field files of a run into ``out/fields`` (see the module docstring);
-    ``surface`` is a junction's separate surface-temperature solution."""
+    ``surface`` is a junction's separate surface-temperature solution. ``which``: "all"
+    saved states, the "last" one only (and the surface solve), or "none" (nothing is
+    written). ``fields`` shares views already built (see :mod:`fvheat.output.memory`)."""
+    if which not in FIELD_CHOICES:
+        raise ValueError(f"which must be one of {FIELD_CHOICES}, got {which!r}")
+    if which == "none":
+        return []
+    from fvheat.output.memory import SolvedFields
+
+    fields = fields if fields is not None else SolvedFields(solution, surface)
     folder = Path(out) / FIELDS_DIR
     g = solution.mesh.grid
     assert g is not None
-    h = solution.history
-    written: list[Path] = []
-    if h is None or not h.fields:
-        states = [(solution.time, solution.temperature, "field.vtu")]
+    times = fields.field_times()
+    if solution.history is None or not solution.history.fields:
+        names = ["field.vtu"]
     else:
-        states = [
-            (t, f, f"field_{k:04d}.vtu")
-            for k, (t, f) in enumerate(zip(h.times, h.fields, strict=True))
-        ]
+        names = [f"field_{k:04d}.vtu" for k in range(len(times))]
+    picked = list(range(len(times))) if which == "all" else [len(times) - 1]
     n = solution.mesh.n_cells
-    compress = n <= COMPRESS_CELLS and n * len(states) <= COMPRESS_BUDGET
-    for t, temp, name in states:
-        written.append(write_vtu(folder / name, field_view(solution, temp, t), compress=compress))
-    entries = [(float(t), name) for t, _, name in states]
-    if len(states) > 1 or solution.case.transient:
+    compress = n <= COMPRESS_CELLS and n * len(picked) <= COMPRESS_BUDGET
+    written: list[Path] = []
+    topology = vtu_topology(fields.field(-1))
+    for k in picked:
+        view = fields.field(k)
+        written.append(write_vtu(folder / names[k], view, compress=compress, topology=topology))
+        if k != len(times) - 1:
+            fields.forget(k)  # a long run's views are not all kept
+    entries = [(times[k], names[k]) for k in picked]
+    if len(times) > 1 or solution.case.transient:
         written.append(write_pvd(folder / "field.pvd", entries))
-    if surface is not None:
-        written.append(write_vtu(folder / SURFACE_FILE, field_view(surface), compress=compress))
+    surface_view = fields.surface_field()
+    if surface_view is not None:
+        written.append(
+            write_vtu(folder / SURFACE_FILE, surface_view, compress=compress, topology=topology)
+        )
     meta = {
         "format": FORMAT,
         "grid": {"x": g.x.tolist(), "y": g.y.tolist()},
         "materials": list(solution.mesh.material_names),
         "boundaries": list(solution.mesh.boundary_names),
         "files": [{"time_s": t, "file": f} for t, f in entries],
-        "surface_solve": SURFACE_FILE if surface is not None else None,
+        "surface_solve": SURFACE_FILE if surface_view is not None else None,
     }
     written.append(atomic_write_text(folder / META_FILE, json.dumps(meta, indent=1) + "\n"))
     return written

@@ -5,13 +5,14 @@ from __future__ import annotations
 
 import logging
 import shutil
+import threading
+from collections.abc import Callable
 from pathlib import Path
 
 from fvheat.output.fields import FIELDS_DIR, write_cells_csv, write_fields
 from fvheat.output.inputs import INPUTS_FILE, write_inputs
 from fvheat.output.report import write_report
 from fvheat.output.results import FIGURES_DIR, ResultsFolder
-from fvheat.output.view import field_view
 from fvheat.study import Study
 
 log = logging.getLogger(__name__)
@@ -53,36 +54,85 @@ def clear_outputs(out: Path) -> None:
 CELLS_CSV_LIMIT = 250_000
 
 
-def write_outputs(study: Study, out: str | Path, *, plots: bool = True) -> list[Path]:
-    """Write inputs.json, fields/, cells.csv (up to ``CELLS_CSV_LIMIT`` cells), figures/
-    (unless ``plots`` is False) and report.html / report.md into ``out``, which must
-    already hold summary.json."""
+def write_outputs(
+    study: Study, out: str | Path, *, plots: bool = True, fields: str = "all"
+) -> list[Path]:
+    """Write inputs.json, fields/ (``fields``: "all" saved states, the "last" one, or
+    "none"), cells.csv (up to ``CELLS_CSV_LIMIT`` cells; not with "none"), figures/ (unless
+    ``plots`` is False) and report.html / report.md into ``out``, which must already hold
+    summary.json. The field files and cells.csv are written in a background thread while
+    the figures are drawn from the fields in memory (each file atomically)."""
+    from fvheat.output.memory import SolvedFields
+
     out = Path(out)
     sol = study.solution
     written = [write_inputs(out, sol.case, sol.mesh)]
     if sol.mesh.grid is None:  # field files and figures need the rectilinear grid
         log.warning("no rectilinear grid: field files and figures are not written")
         return [*written, *write_report(ResultsFolder.open(out))]
-    written += write_fields(sol, out, study.surface_solution)
+    memory = SolvedFields(sol, study.surface_solution)
+    writer = _Background(lambda: _write_field_files(study, out, memory, fields))
+    writer.start()
+    try:
+        folder = ResultsFolder.open(out)
+        if plots:
+            from fvheat.output.plots.figures import draw_figures
+
+            for r in draw_figures(folder, fields=memory):
+                written += [out / r.png] + ([out / r.svg] if r.svg else [])
+        else:
+            # figures left by an earlier run in this folder must not appear in the new report
+            from fvheat.output.plots.figures import INDEX_FILE
+
+            stale = out / FIGURES_DIR / INDEX_FILE
+            if stale.is_file():
+                log.info("removing %s: figures of an earlier run", stale)
+                stale.unlink()
+    except BaseException:
+        writer.wait()  # the field files finish (or fail) before the error goes up
+        raise
+    written += writer.join()
+    written += write_report(folder)
+    return written
+
+
+def _write_field_files(study: Study, out: Path, memory, which: str) -> list[Path]:
+    sol = study.solution
+    written = write_fields(sol, out, study.surface_solution, which=which, fields=memory)
+    if which == "none":
+        return written
     if sol.mesh.n_cells <= CELLS_CSV_LIMIT:
-        written.append(write_cells_csv(out / CELLS_FILE, field_view(sol)))
+        written.append(write_cells_csv(out / CELLS_FILE, memory.field(-1)))
     else:
         log.info(
             "%d cells: cells.csv not written (see fields/ for the same data)", sol.mesh.n_cells
         )
-    folder = ResultsFolder.open(out)
-    if plots:
-        from fvheat.output.plots.figures import draw_figures
-
-        for r in draw_figures(folder):
-            written += [out / r.png] + ([out / r.svg] if r.svg else [])
-    else:
-        # figures left by an earlier run in this folder must not appear in the new report
-        from fvheat.output.plots.figures import INDEX_FILE
-
-        stale = out / FIGURES_DIR / INDEX_FILE
-        if stale.is_file():
-            log.info("removing %s: figures of an earlier run", stale)
-            stale.unlink()
-    written += write_report(folder)
     return written
+
+
+class _Background:
+    """A function run in a thread; :meth:`join` returns its result or raises its error."""
+
+    def __init__(self, fn: Callable[[], list[Path]]) -> None:
+        self._fn = fn
+        self._result: list[Path] = []
+        self._error: BaseException | None = None
+        self._thread = threading.Thread(target=self._run, name="fvheat-fields", daemon=True)
+
+    def _run(self) -> None:
+        try:
+            self._result = self._fn()
+        except BaseException as err:  # handed to the caller in join()
+            self._error = err
+
+    def start(self) -> None:
+        self._thread.start()
+
+    def wait(self) -> None:
+        self._thread.join()
+
+    def join(self) -> list[Path]:
+        self._thread.join()
+        if self._error is not None:
+            raise self._error
+        return self._result

@@ -25,7 +25,7 @@ Radiation, h_r in W/(m²·K) (ISO 10077-2, from memory):
     F   = ½ (1 + √(1 + (d/b)²) − d/b)
 
     T_m mean cavity temperature in kelvin (default 283.15 K = 10 °C, from memory), σ the
-    Stefan–Boltzmann constant (scipy.constants), ε1, ε2 the emissivities of the two faces
+    Stefan–Boltzmann constant (CODATA 2018), ε1, ε2 the emissivities of the two faces
     normal to the heat flow. F is the view factor between those faces with the two side
     faces treated as re-radiating: ½ (1 + F12) with F12 = √(1 + (d/b)²) − d/b the crossed-
     strings view factor of two facing strips (Incropera & DeWitt §13.1 and §13.3.5). For
@@ -56,7 +56,8 @@ from typing import Literal, NamedTuple
 
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
-from scipy.constants import sigma as STEFAN_BOLTZMANN
+
+from fvheat.constants import STEFAN_BOLTZMANN
 
 __all__ = [
     "C1",

@@ -128,7 +128,18 @@ def _context() -> multiprocessing.context.BaseContext:
     that runs threads) yet fast (fvheat already imported in the server)."""
     if sys.platform != "win32" and "forkserver" in multiprocessing.get_all_start_methods():
         ctx = multiprocessing.get_context("forkserver")
-        ctx.set_forkserver_preload(["fvheat.sweep.worker", "fvheat.cli.run_command"])
+        # everything a variant uses, so no worker imports anything per variant
+        ctx.set_forkserver_preload(
+            [
+                "fvheat.sweep.worker",
+                "fvheat.sweep.folders",
+                "fvheat.sweep.identity",
+                "fvheat.cli.run_command",
+                "fvheat.output.folder",
+                "fvheat.output.fields",
+                "meshio",
+            ]
+        )
         return ctx
     return multiprocessing.get_context("spawn")
 

@@ -174,11 +174,13 @@ def run_sweep(
     *,
     retry_failed: bool = False,
     plots: bool = False,
+    fields: str = "all",
     on_start: Callable[[int, int], None] | None = None,
     on_result: Callable[[Row], None] | None = None,
 ) -> SweepReport:
     """Run the plan's missing variants on ``executor``, recording each in the database;
-    ``plots`` also draws each variant's figures (as ``fvheat run`` without ``--no-plots``).
+    ``plots`` also draws each variant's figures (as ``fvheat run`` without ``--no-plots``);
+    ``fields`` is passed on as ``fvheat run --fields``.
 
     ``on_start(to_run, total)`` is called once before the first task, ``on_result(row)``
     after each variant is recorded. Interrupting (KeyboardInterrupt) keeps everything
@@ -203,7 +205,9 @@ def run_sweep(
         check = getattr(executor, "check_paths", None)
         if todo and check is not None:
             check(case, str(plan.out))
-        tasks = [Task(r.id, case, _all(plan, r), str(plan.out / r.output), plots) for r in todo]
+        tasks = [
+            Task(r.id, case, _all(plan, r), str(plan.out / r.output), plots, fields) for r in todo
+        ]
         if on_start is not None:
             on_start(len(tasks), len(rows))
         log.info("sweep %s: %d variants, %d to run", plan.out, len(rows), len(tasks))

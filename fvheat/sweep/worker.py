@@ -19,13 +19,15 @@ log = logging.getLogger(__name__)
 class Task:
     """One variant to run: its database row id, absolute case file path, all overrides
     (the sweep's fixed ones, then the variant's), absolute output folder, and whether to
-    draw the figures (the slowest output; off unless asked for)."""
+    draw the figures (the slowest output; off unless asked for) and which field files to
+    write (``fvheat run --fields``)."""
 
     id: int
     case_file: str
     overrides: tuple[str, ...]
     out: str
     plots: bool = False
+    fields: str = "all"
 
 
 @dataclass(frozen=True)
@@ -54,7 +56,9 @@ def run_task(task: Task) -> Outcome:
     out = Path(task.out)
     try:
         clear_marker(out)
-        study, summary = run_to_folder(Path(task.case_file), out, task.overrides, plots=task.plots)
+        study, summary = run_to_folder(
+            Path(task.case_file), out, task.overrides, plots=task.plots, fields=task.fields
+        )
         results = main_results(summary)
         inputs = input_hashes(study.solution.case)
         outcome = Outcome("done", None, results, time.perf_counter() - t0, inputs)

@@ -36,3 +36,11 @@ def test_bench_quick_runs_and_agrees(tmp_path):
     assert "process start to summary.json written" in out
     assert re.search(r"steady 400: / bare assembly\+AMG-CG = [\d.]+ \(target ≤ 2\)", out)
     assert (tmp_path / "out_transient_10" / "timeseries.csv").is_file()
+    # every target of the output / start-up / sweep measurements is printed with a verdict
+    for target in (
+        r"figures of a steady run at [\d,]+ cells: .* (PASS|FAIL)",
+        r"field files read back by meshio with every codec at [\d,]+ cells: PASS",
+        r"start-up, fvheat --help: .* (PASS|FAIL)",
+        r"sweep overhead per variant, balcony demo, --fields none, 1 worker: .* (PASS|FAIL)",
+    ):
+        assert re.search(target, out), target

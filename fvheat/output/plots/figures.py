@@ -15,6 +15,7 @@ from pathlib import Path
 from typing import Any
 
 from fvheat.output.files import atomic_write_text
+from fvheat.output.memory import FieldSource
 from fvheat.output.plots import layers, style
 from fvheat.output.plots.heatflux import heat_flux_figure
 from fvheat.output.plots.meshplot import mesh_figure
@@ -61,20 +62,24 @@ def draw_figures(
     *,
     vrange: tuple[float, float] | None = None,
     zoom: layers.Window | None = None,
+    fields: FieldSource | None = None,
 ) -> list[FigureRecord]:
     """Draw all figures of ``folder`` (colour range ``vrange`` °C and window ``zoom``
-    (x0, y0, x1, y1) m apply to the temperature maps; ``zoom`` also to flux and mesh)."""
+    (x0, y0, x1, y1) m apply to the temperature maps; ``zoom`` also to flux and mesh).
+    The fields come from ``fields`` (e.g. a run's :class:`fvheat.output.memory.SolvedFields`)
+    or, by default, from the folder's field files: both give the same figures."""
     folder = folder if isinstance(folder, ResultsFolder) else ResultsFolder.open(folder)
+    source: FieldSource = fields if fields is not None else folder
     s = folder.summary
     title = folder.title
-    view = folder.field()
+    view = source.field()
     when = _when(folder, view.time)
     notes = _view_notes(vrange, zoom)
     window_note = _view_notes(None, zoom)  # the colour range is of temperature maps only
     records = []
 
     marked = coldest_point(s)
-    surface = folder.surface_field()
+    surface = source.surface_field()
     # θ_si,min is marked on the map of the solve it comes from
     on_main = marked if surface is None else None
     fig = temperature_figure(
@@ -127,7 +132,7 @@ def draw_figures(
     )
 
     if folder.transient:
-        records += _transient(folder, title, vrange, zoom, notes)
+        records += _transient(folder, source, title, vrange, zoom, notes)
     from fvheat.output.plots.sensitivities import sensitivity_figure
 
     if (drawn := sensitivity_figure(s, title)) is not None:
@@ -189,7 +194,9 @@ def _marked_text(marked) -> str:
     )
 
 
-def _transient(folder: ResultsFolder, title: str, vrange, zoom, notes: str) -> list[FigureRecord]:
+def _transient(
+    folder: ResultsFolder, source: FieldSource, title: str, vrange, zoom, notes: str
+) -> list[FigureRecord]:
     out = []
     ts = folder.timeseries()
     if ts is not None:
@@ -218,10 +225,10 @@ def _transient(folder: ResultsFolder, title: str, vrange, zoom, notes: str) -> l
                     "area (dashed, right axis).",
                 )
             )
-    times = folder.field_times()
+    times = source.field_times()
     if len(times) > 1:
         idx = snapshot_indices(len(times))
-        views = [folder.field(int(i)) for i in idx]
+        views = [source.field(int(i)) for i in idx]
         fig = snapshot_figure(views, title=title, vrange=vrange, zoom=zoom)
         when = ", ".join(time_label(v.time).removeprefix("t = ") for v in views)
         out.append(

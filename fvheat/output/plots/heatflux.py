@@ -6,7 +6,7 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from fvheat.output.plots import layers, style
+from fvheat.output.plots import layers, raster, style
 from fvheat.output.view import FieldView
 
 if TYPE_CHECKING:
@@ -17,9 +17,11 @@ if TYPE_CHECKING:
 #: |q| below this fraction of the largest value is drawn at the bottom of the colour scale
 FLUX_FLOOR = 1e-3
 #: streamline sampling grid: points across the longer side of the window
-STREAM_SAMPLES = 180
+STREAM_SAMPLES = 120
 #: number of heat paths drawn from the surfaces where heat enters
 HEAT_PATHS = 24
+#: longest heat path drawn, in widths of the sampled window
+HEAT_PATH_LENGTH = 2.5
 
 
 def heat_flux_figure(
@@ -44,12 +46,16 @@ def heat_flux_figure(
         mag = np.hypot(view.flux[:, 0], view.flux[:, 1])
         lo, hi = frange if frange is not None else _range(mag)
         norm = LogNorm(lo, hi, clip=True)
-        quad = layers.draw_cells(ax, view, np.clip(mag, lo, hi), cmap=style.FLUX_CMAP, norm=norm)
+        quad = layers.draw_cells(
+            ax, view, np.clip(mag, lo, hi), window=window, cmap=style.FLUX_CMAP, norm=norm
+        )
         draw_streamlines(ax, view, window)
         layers.draw_outlines(ax, view, colour="#d9d9d9")
         handles = layers.draw_boundaries(ax, view)
         layers.set_window(ax, window)
-        cbar = fig.colorbar(quad, ax=ax, shrink=0.85, pad=0.02, aspect=30, extend="min")
+        cbar = fig.colorbar(
+            raster.colour_scale(quad), ax=ax, shrink=0.85, pad=0.02, aspect=30, extend="min"
+        )
         cbar.set_label("heat-flux density |q| (W/m²)")
         log_ticks(cbar, lo, hi)
         cbar.outline.set_linewidth(0.5)
@@ -130,31 +136,47 @@ def draw_streamlines(
 ) -> None:
     """Lines along q: heat paths from the warm surfaces (``seeded``, see
     :func:`heat_path_seeds`) or an even cover of the window; they stop at the body's edges.
-    q is sampled bilinearly on a uniform grid over the window."""
+    q is sampled bilinearly on a uniform grid over the part of the window the body spans
+    (:data:`STREAM_SAMPLES` across), whatever the number of cells."""
     from matplotlib import patheffects
 
     x0, y0, x1, y1 = window
-    n = STREAM_SAMPLES
-    if x1 - x0 >= y1 - y0:
-        nx, ny = n, max(8, round(n * (y1 - y0) / (x1 - x0)))
-    else:
-        nx, ny = max(8, round(n * (x1 - x0) / (y1 - y0))), n
-    xs, ys = np.linspace(x0, x1, nx), np.linspace(y0, y1, ny)
+    bx0, by0, bx1, by1 = view.extent
+    span = (max(x0, bx0), max(y0, by0), min(x1, bx1), min(y1, by1))
+    if not (span[0] < span[2] and span[1] < span[3]):
+        return
+    xs, ys = layers.sample_window(view, span, STREAM_SAMPLES)
     gx, gy = np.meshgrid(xs, ys)
     q = dilate(layers.sample_cells(view, view.flux, gx, gy))
     if q.mask.all() or not np.ma.max(np.hypot(q[..., 0], q[..., 1])) > 0:
         return
+    # matplotlib follows a masked field point by point through numpy.ma, much slower than a
+    # plain array: masks only where some sample lies outside the body
+    qx, qy = (q[..., 0], q[..., 1]) if q.mask.any() else (q.data[..., 0], q.data[..., 1])
     opts: dict = {"density": 1.3, "broken_streamlines": True}
     if seeded:
         seeds = heat_path_seeds(view)
-        keep = (seeds[:, 0] > x0) & (seeds[:, 0] < x1) & (seeds[:, 1] > y0) & (seeds[:, 1] < y1)
+        keep = (
+            (seeds[:, 0] > xs[0])
+            & (seeds[:, 0] < xs[-1])
+            & (seeds[:, 1] > ys[0])
+            & (seeds[:, 1] < ys[-1])
+        )
         if keep.sum() >= 3:
-            opts = {"start_points": seeds[keep], "broken_streamlines": False, "density": 4}
+            # density sets the integration step (1/(30·density) of the window); a path
+            # ends after HEAT_PATH_LENGTH windows (one that circles in a slow region
+            # would otherwise be followed for long)
+            opts = {
+                "start_points": seeds[keep],
+                "broken_streamlines": False,
+                "density": 2,
+                "maxlength": HEAT_PATH_LENGTH,
+            }
     sp = ax.streamplot(
         xs,
         ys,
-        q[..., 0],
-        q[..., 1],
+        qx,
+        qy,
         color="#f2fbfa",
         linewidth=0.6,
         arrowsize=0.7,

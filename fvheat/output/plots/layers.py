@@ -11,7 +11,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from fvheat.mesh.mesh import RectGrid
-from fvheat.output.plots import style
+from fvheat.output.plots import raster, style
 from fvheat.output.view import GeometryView
 
 if TYPE_CHECKING:
@@ -19,6 +19,7 @@ if TYPE_CHECKING:
     from matplotlib.collections import QuadMesh
     from matplotlib.colors import Colormap, Normalize
     from matplotlib.contour import QuadContourSet
+    from matplotlib.image import AxesImage
 
 Window = tuple[float, float, float, float]
 
@@ -80,16 +81,41 @@ def sample_cells(
     vals = values[np.maximum(cells, 0)]  # (4, *shape, ...)
     extra = (slice(None),) * w.ndim + (None,) * (vals.ndim - w.ndim)
     out = (w[extra] * vals).sum(axis=0)
-    mask = np.broadcast_to(~ok[(...,) + (None,) * (vals.ndim - w.ndim)], out.shape)
+    mask = np.broadcast_to(~ok[(...,) + (None,) * (vals.ndim - w.ndim)], out.shape).copy()
     return np.ma.masked_array(out, mask=mask)
 
 
-def draw_cells(ax: Axes, view: GeometryView, values: np.ndarray, **kwargs: Any) -> QuadMesh:
-    """Cell values as flat-shaded quads over the real geometry (voids left blank)."""
-    g = view.grid
-    return ax.pcolormesh(
-        g.x, g.y, view.grid_values(values), shading="flat", rasterized=True, **kwargs
-    )
+def draw_cells(
+    ax: Axes,
+    view: GeometryView,
+    values: np.ndarray,
+    *,
+    window: Window | None = None,
+    **kwargs: Any,
+) -> QuadMesh | AxesImage:
+    """Cell values over the real geometry (voids left blank): flat-shaded quads up to
+    ``raster.RASTER_CELLS`` cells, above one image at the figure's resolution (each pixel
+    the value of the cell under its centre) over ``window`` (default: the whole model)."""
+    if view.n_cells <= raster.RASTER_CELLS:
+        g = view.grid
+        return ax.pcolormesh(
+            g.x, g.y, view.grid_values(values), shading="flat", rasterized=True, **kwargs
+        )
+    window = window if window is not None else window_of(view)
+    w, h = raster.image_size(window, raster.axes_pixels(ax, style.PNG_DPI))
+    xs, ys = raster.pixel_centres(window, w, h)
+    return raster.draw_image(ax, raster.grid_cells(view.grid, xs, ys), values, window, **kwargs)
+
+
+def sample_window(view: GeometryView, window: Window, most: int) -> tuple[np.ndarray, np.ndarray]:
+    """A uniform lattice (x (cols,), y (rows,), m) over ``window`` with ``most`` points
+    across its longer side."""
+    x0, y0, x1, y1 = window
+    if x1 - x0 >= y1 - y0:
+        nx, ny = most, max(8, round(most * (y1 - y0) / (x1 - x0)))
+    else:
+        nx, ny = max(8, round(most * (x1 - x0) / (y1 - y0))), most
+    return np.linspace(x0, x1, nx), np.linspace(y0, y1, ny)
 
 
 def _edges(mat: np.ndarray, x: np.ndarray, y: np.ndarray, pick: str) -> np.ndarray:
@@ -247,9 +273,12 @@ def draw_isotherms(
     cmap: str | Colormap | None = None,
     norm: Normalize | None = None,
     labels: bool = True,
+    window: Window | None = None,
 ) -> QuadContourSet | None:
-    """Isotherms through the cell centres, optionally labelled. With ``cmap`` and ``norm``
-    each line is dark over light colours and light over dark ones."""
+    """Isotherms through the cell centres (on a grid of more than
+    ``raster.CONTOUR_SAMPLES`` columns or rows: through a bilinear sample of that many
+    points across ``window``), optionally labelled. With ``cmap`` and ``norm`` each line is
+    dark over light colours and light over dark ones."""
     if levels.size == 0:
         return None
     g = view.grid
@@ -264,10 +293,16 @@ def draw_isotherms(
         )
         luminance = rgb @ np.array([0.2126, 0.7152, 0.0722])
         colours = ["#161616" if v > 0.45 else "#f4f4f4" for v in luminance]
+    if max(g.xc.size, g.yc.size) <= raster.CONTOUR_SAMPLES:
+        xs, ys, grid_vals = g.xc, g.yc, view.grid_values(values)
+    else:  # a fine grid: traced on a uniform sample finer than the lines can show
+        xs, ys = sample_window(view, window or window_of(view), raster.CONTOUR_SAMPLES)
+        gx, gy = np.meshgrid(xs, ys)
+        grid_vals = sample_cells(view, values, gx, gy)
     cs = ax.contour(
-        g.xc,
-        g.yc,
-        view.grid_values(values),
+        xs,
+        ys,
+        grid_vals,
         levels=levels,
         colors=colours,
         linewidths=0.6,

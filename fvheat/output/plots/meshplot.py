@@ -35,13 +35,14 @@ def mesh_figure(
         cmap = ListedColormap(colours)
         norm = BoundaryNorm(np.arange(n_mat + 1) - 0.5, n_mat)
         x, y = view.grid.x, view.grid.y
-        layers.draw_cells(ax, view, view.material, cmap=cmap, norm=norm)
+        layers.draw_cells(ax, view, view.material, window=window, cmap=cmap, norm=norm)
+        # (shared with the preview, which imports this module)
+        from fvheat.output.plots.preview import _ordinal, mesh_step
+
+        step = mesh_step(view, style.axes_size(x1 - x0, y1 - y0, extra_width=0.4))
+        width = min(0.45, edge_width(fig, view, window) * step)
         ax.add_collection(
-            LineCollection(
-                list(layers.cell_edges(view)),
-                colors="#3c3c3c",
-                linewidths=edge_width(fig, view, window),
-            )
+            LineCollection(list(layers.cell_edges(view, step)), colors="#3c3c3c", linewidths=width)
         )
         layers.draw_outlines(ax, view)
         handles = layers.draw_boundaries(ax, view)
@@ -57,8 +58,13 @@ def mesh_figure(
             fig,
             ax,
             title,
-            f"mesh: {view.n_cells} cells on {dx.size} × {dy.size} grid lines, cell edges "
-            f"{1000 * sizes.min():.3g}–{1000 * sizes.max():.3g} mm",
+            f"mesh: {view.n_cells} cells on {x.size} × {y.size} grid lines, cell edges "
+            f"{1000 * sizes.min():.3g}–{1000 * sizes.max():.3g} mm"
+            + (
+                ""
+                if step == 1
+                else f"; every {_ordinal(step)} grid line drawn (too fine to show all)"
+            ),
         )
         fig.legend(
             handles=mats + handles,

@@ -7,7 +7,7 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from fvheat.output.plots import layers, style
+from fvheat.output.plots import layers, raster, style
 from fvheat.output.view import FieldView
 
 if TYPE_CHECKING:
@@ -73,16 +73,29 @@ def temperature_figure(
         from matplotlib.colors import Normalize
 
         norm = Normalize(lo, hi)
-        quad = layers.draw_cells(ax, view, view.temperature, cmap=style.TEMPERATURE_CMAP, norm=norm)
+        quad = layers.draw_cells(
+            ax, view, view.temperature, window=window, cmap=style.TEMPERATURE_CMAP, norm=norm
+        )
         levels = layers.isotherm_levels(lo, hi)
         cs = layers.draw_isotherms(
-            ax, view, view.temperature, levels, cmap=style.TEMPERATURE_CMAP, norm=norm
+            ax,
+            view,
+            view.temperature,
+            levels,
+            cmap=style.TEMPERATURE_CMAP,
+            norm=norm,
+            window=window,
         )
         layers.draw_outlines(ax, view)
         handles = layers.draw_boundaries(ax, view)
         layers.set_window(ax, window)
         cbar = fig.colorbar(
-            quad, ax=ax, shrink=0.85, pad=0.02, aspect=30, extend=_extend(view, lo, hi)
+            raster.colour_scale(quad),
+            ax=ax,
+            shrink=0.85,
+            pad=0.02,
+            aspect=30,
+            extend=_extend(view, lo, hi),
         )
         cbar.set_label("temperature (°C)")
         cbar.outline.set_linewidth(0.5)

@@ -7,7 +7,7 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from fvheat.output.plots import layers, style
+from fvheat.output.plots import layers, raster, style
 from fvheat.output.plots.temperature import time_label
 from fvheat.output.view import FieldView
 
@@ -174,9 +174,18 @@ def snapshot_figure(
         levels = layers.isotherm_levels(*vrange, n=8)
         quad = None
         for ax, v in zip(axes, views, strict=False):
-            quad = layers.draw_cells(ax, v, v.temperature, cmap=style.TEMPERATURE_CMAP, norm=norm)
+            quad = layers.draw_cells(
+                ax, v, v.temperature, window=window, cmap=style.TEMPERATURE_CMAP, norm=norm
+            )
             layers.draw_isotherms(
-                ax, v, v.temperature, levels, cmap=style.TEMPERATURE_CMAP, norm=norm, labels=False
+                ax,
+                v,
+                v.temperature,
+                levels,
+                cmap=style.TEMPERATURE_CMAP,
+                norm=norm,
+                labels=False,
+                window=window,
             )
             layers.draw_outlines(ax, v)
             layers.set_window(ax, window)
@@ -185,7 +194,9 @@ def snapshot_figure(
         for ax in axes[n:]:
             ax.set_visible(False)
         assert quad is not None  # views is not empty
-        cbar = fig.colorbar(quad, ax=list(axes[:n]), shrink=0.8, pad=0.02, aspect=30)
+        cbar = fig.colorbar(
+            raster.colour_scale(quad), ax=list(axes[:n]), shrink=0.8, pad=0.02, aspect=30
+        )
         cbar.set_label("temperature (°C)")
         cbar.outline.set_linewidth(0.5)
         sub = "temperature field at saved times"

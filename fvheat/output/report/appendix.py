@@ -32,17 +32,17 @@ def case_section(s: dict[str, Any]) -> Section:
 
 def software_section(s: dict[str, Any]) -> Section:
     """Versions of fvheat and the libraries it stands on, and the method in one paragraph."""
-    import matplotlib
-    import meshio
     import numpy
     import scipy
+
+    from fvheat.versions import package_version  # without importing what a run did not need
 
     rows = [
         ["computed with", f"fvheat {s.get('fvheat_version', '?')}"],
         ["report written with", f"fvheat {__version__}"],
         ["Python", platform.python_version()],
         ["NumPy / SciPy", f"{numpy.__version__} / {scipy.__version__}"],
-        ["matplotlib / meshio", f"{matplotlib.__version__} / {meshio.__version__}"],
+        ["matplotlib / meshio", f"{package_version('matplotlib')} / {package_version('meshio')}"],
     ]
     return Section(
         "software",
