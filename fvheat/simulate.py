@@ -21,7 +21,7 @@ from fvheat.evaluate.periodic import PeriodicResponse
 from fvheat.evaluate.probes import probe_operator
 from fvheat.evaluate.surfaces import SurfaceResult, surface_results
 from fvheat.mesh.mesh import Mesh
-from fvheat.mesh.rectilinear import build_mesh
+from fvheat.mesh.select import build_mesh
 from fvheat.solve.linear import Method, SolverChoice
 from fvheat.solve.phase_change import evolve_enthalpy, solve_steady_phase
 from fvheat.solve.steady import solve_steady

@@ -12,7 +12,7 @@ from fvheat.checks import check_model
 from fvheat.evaluate.coupling import CouplingResult, coupling_coefficients
 from fvheat.evaluate.junction import JunctionResult, evaluate_junction
 from fvheat.mesh.mesh import Mesh
-from fvheat.mesh.rectilinear import build_mesh
+from fvheat.mesh.select import build_mesh
 from fvheat.simulate import Progress, Solution, simulate
 
 #: ISO 10211 (from memory): the sum of absolute heat flows must change by less than 1 % when

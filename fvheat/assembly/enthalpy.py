@@ -55,12 +55,20 @@ class EnthalpyModel:
             lat = (m.density or 0.0) * m.latent_heat
             rows.append((1.0, rho_f * c_f, cu, lat, *m.phase_change, k_f, m.conductivity))
         table = np.array(rows, dtype=float)[mesh.material]
-        v = mesh.volumes
+        cell, material, volume = mesh.pieces()
+        if mesh.piece_cell is not None and np.any(np.array(rows)[material, 0] > 0):
+            raise NotImplementedError("latent heat on a mesh whose cells straddle materials")
+
+        def per_cell(column: int) -> np.ndarray:
+            """Σ over each cell's pieces of the column's value per m² times the area."""
+            weights = np.array(rows, dtype=float)[material, column] * volume
+            return np.bincount(cell, weights=weights, minlength=mesh.n_cells)
+
         return cls(
             pcm=table[:, 0] > 0,
-            c_f=table[:, 1] * v,
-            c_u=table[:, 2] * v,
-            latent=table[:, 3] * v,
+            c_f=per_cell(1),
+            c_u=per_cell(2),
+            latent=per_cell(3),
             t_s=table[:, 4],
             t_l=table[:, 5],
             k_f=table[:, 6],

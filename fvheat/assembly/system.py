@@ -14,7 +14,7 @@ import scipy.sparse as sp
 
 from fvheat.assembly.boundary import SurfaceTerms
 from fvheat.assembly.conduction import conduction_matrix, face_conductance
-from fvheat.assembly.properties import conductivity, heat_capacity
+from fvheat.assembly.properties import conductivity, heat_capacity, material_conductivity
 from fvheat.case.model import Boundary, Case
 from fvheat.mesh.mesh import Mesh
 
@@ -29,16 +29,20 @@ class System:
     matrix: sp.csr_matrix  # M, W/(m·K)
     surface: SurfaceTerms
     capacity: np.ndarray  # J/(m·K) per cell
+    k_material: np.ndarray | None = None  # W/(m·K) per material (faces with their own material)
 
     @classmethod
     def build(cls, case: Case, mesh: Mesh) -> System:
         """Assemble conduction, surface terms and capacities, vectorised over faces."""
         k = conductivity(case, mesh)
-        g, m, surface = _operators(mesh, case.boundaries, k)
-        return cls(mesh, k, g, m, surface, heat_capacity(case, mesh))
+        km = material_conductivity(case, mesh)
+        g, m, surface = _operators(mesh, case.boundaries, k, km)
+        return cls(mesh, k, g, m, surface, heat_capacity(case, mesh), km)
 
     def with_conductivity(self, k: np.ndarray) -> System:
         """The same system with cell conductivities ``k`` (W/(m·K)), e.g. frozen ground."""
+        if self.mesh.face_weight is not None:
+            raise NotImplementedError("cell conductivities on a mesh whose faces carry materials")
         g, m, surface = _operators(self.mesh, self.surface.boundaries, k)
         return replace(self, k=k, g=g, matrix=m, surface=surface)
 
@@ -51,7 +55,7 @@ class System:
         """Σ face length × conductance from cell centre to face over the exchanging faces,
         W/(m·K): the scale of the heat flows a temperature difference drives."""
         s = self.surface
-        return float(np.sum(s.area * s.gc))
+        return float(np.sum(s.area * s.conductance_scale))
 
     @property
     def nonlinear(self) -> bool:
@@ -75,10 +79,11 @@ class System:
 
 
 def _operators(
-    mesh: Mesh, boundaries: tuple[Boundary, ...], k: np.ndarray
+    mesh: Mesh, boundaries: tuple[Boundary, ...], k: np.ndarray, km: np.ndarray | None = None
 ) -> tuple[np.ndarray, sp.csr_matrix, SurfaceTerms]:
-    """Face conductances, the matrix M and the surface terms for conductivities ``k``."""
-    g = face_conductance(mesh, k)
+    """Face conductances, the matrix M and the surface terms for cell conductivities ``k``
+    (and material conductivities ``km`` where faces carry their own material)."""
+    g = face_conductance(mesh, k, km)
     surface = SurfaceTerms.build(mesh, boundaries, k)
     m = conduction_matrix(mesh, g, surface.diagonal(mesh.n_cells))
     return g, m, surface

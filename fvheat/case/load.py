@@ -144,7 +144,7 @@ def _title(value: Any, ctx: Context) -> str:
 def _mesh(value: Any, ctx: Context) -> MeshSettings:
     if value is None:
         raise Invalid("mesh", "required table [mesh] is missing (at least max_cell = ... in m)")
-    tbl = table(value, "mesh", allowed=("max_cell", "min_cell", "growth", "corner_cell"))
+    tbl = table(value, "mesh", allowed=("max_cell", "min_cell", "growth", "corner_cell", "kind"))
     max_cell = number(tbl, "max_cell", "mesh", gt=0)
     min_cell = number(tbl, "min_cell", "mesh", required=False, default=max_cell / 5, gt=0)
     if min_cell > max_cell:
@@ -159,7 +159,18 @@ def _mesh(value: Any, ctx: Context) -> MeshSettings:
             f"corner_cell = {corner:g} m must not exceed min_cell = {min_cell:g} m "
             "(give corner_cell = min_cell for no extra refinement at corners)",
         )
-    return MeshSettings(max_cell=max_cell, min_cell=min_cell, growth=growth, corner_cell=corner)
+    kind = tbl.get("kind", "auto")
+    if kind not in MESH_KINDS:
+        raise Invalid(
+            "mesh.kind", f"expected one of {', '.join(map(repr, MESH_KINDS))}, got {describe(kind)}"
+        )
+    return MeshSettings(
+        max_cell=max_cell, min_cell=min_cell, growth=growth, corner_cell=corner, kind=kind
+    )
+
+
+#: the values of ``[mesh] kind``
+MESH_KINDS = ("auto", "triangles", "rectilinear")
 
 
 register_section("title", _title)

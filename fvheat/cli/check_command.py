@@ -8,7 +8,7 @@ from fvheat.case.load import load_case
 from fvheat.checks import check_model
 from fvheat.cli.console import print_warnings
 from fvheat.errors import CaseError
-from fvheat.mesh.rectilinear import build_mesh
+from fvheat.mesh.select import build_mesh
 
 
 def check_case(

@@ -28,9 +28,11 @@ def probe_operator(mesh: Mesh, points: np.ndarray) -> sp.csr_matrix:
     centres the value is held. Centres outside the body are dropped and the remaining
     weights renormalised; if none is left, the value of the cell containing the point.
     """
+    if mesh.triangles is not None:
+        return _barycentric_operator(mesh, points)
     g = mesh.grid
     if g is None:
-        raise NotImplementedError("probe interpolation needs a rectilinear grid")
+        raise NotImplementedError("probe interpolation needs a rectilinear grid or triangles")
     pts = np.atleast_2d(np.asarray(points, dtype=float))
     x0, x1, wx = _bracket(g.xc, pts[:, 0])
     y0, y1, wy = _bracket(g.yc, pts[:, 1])
@@ -54,3 +56,26 @@ def probe_operator(mesh: Mesh, points: np.ndarray) -> sp.csr_matrix:
     return sp.csr_matrix(
         (w.ravel()[keep], (rows[keep], cell.ravel()[keep])), shape=(pts.shape[0], mesh.n_cells)
     )
+
+
+def _barycentric_operator(mesh: Mesh, points: np.ndarray) -> sp.csr_matrix:
+    """Linear interpolation inside the triangle containing each point (the box method's
+    own field: linear in every triangle, so one material's values only, continuous across
+    interfaces); a point outside the body takes the nearest vertex's value."""
+    from fvheat.mesh.triangles import find_triangles
+
+    assert mesh.triangles is not None
+    pts = np.atleast_2d(np.asarray(points, dtype=float)).reshape(-1, 2)
+    if pts.shape[0] == 0:
+        return sp.csr_matrix((0, mesh.n_cells))
+    tri, lam = find_triangles(mesh, pts)
+    cols = mesh.triangles[np.maximum(tri, 0)]
+    out = tri < 0
+    if out.any():
+        from scipy.spatial import cKDTree
+
+        _, nearest = cKDTree(mesh.centres).query(pts[out])
+        cols[out] = np.asarray(nearest)[:, None]
+        lam[out] = [1.0, 0.0, 0.0]
+    rows = np.repeat(np.arange(pts.shape[0]), 3)
+    return sp.csr_matrix((lam.ravel(), (rows, cols.ravel())), shape=(pts.shape[0], mesh.n_cells))

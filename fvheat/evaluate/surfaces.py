@@ -94,6 +94,14 @@ class SurfacePointMap:
             others.append(other)
             uses.append(ok)
             weights.append(half / (half + half[other]))
+        # where the unknown sits on the surface (vertex-centred meshes) the surface field is
+        # linear between the nodes: its extremes are at the nodes themselves
+        node = s.at_node
+        if node.any():
+            vertex = mesh.centres[s.cell]
+            centre = np.where(node[:, None], vertex, centre)
+            ends = tuple(np.where(node[:, None], vertex, e) for e in ends)
+            uses = [u & ~node for u in uses]
         return cls(
             at=np.concatenate([centre, *ends]),
             bid=np.tile(s.bid, 3),
