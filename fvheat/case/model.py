@@ -27,9 +27,9 @@ class MeshSettings:
     min_cell: float
     growth: float = 1.3
     corner_cell: float | None = None
-    #: "auto" (triangles when a region outline or boundary edge is sloped), "triangles" or
-    #: "rectilinear"
-    kind: str = "auto"
+    #: "rectilinear" (default), "triangles", or "auto" (triangles when a region outline or
+    #: boundary edge is sloped)
+    kind: str = "rectilinear"
 
     @property
     def corner_size(self) -> float:

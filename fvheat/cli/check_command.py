@@ -43,5 +43,5 @@ def check_case(
         print(f"preview: {write_preview(case, mesh, plot, show_mesh=show_mesh)}")
 
 
-def _fmt(v: float | int) -> str:
+def _fmt(v: float | int | str) -> str:
     return f"{v:.4g}" if isinstance(v, float) else str(v)

@@ -59,6 +59,12 @@ def write_outputs(study: Study, out: str | Path, *, plots: bool = True) -> list[
     out = Path(out)
     sol = study.solution
     written = [write_inputs(out, sol.case, sol.mesh)]
+    if sol.mesh.triangles is not None:  # figures and cells.csv need the rectilinear grid
+        from fvheat.output.triangle_fields import write_triangle_fields
+
+        written += write_triangle_fields(sol, out, study.surface_solution)
+        log.warning("triangle mesh: field files written (fields/), figures not drawn yet")
+        return [*written, *write_report(ResultsFolder.open(out))]
     if sol.mesh.grid is None:  # field files and figures need the rectilinear grid
         log.warning("no rectilinear grid: field files and figures are not written")
         return [*written, *write_report(ResultsFolder.open(out))]

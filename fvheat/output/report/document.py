@@ -246,6 +246,9 @@ def _input_sections(s: dict[str, Any], inputs: dict[str, Any] | None) -> list[Se
             out.append(probes)
     stats = s.get("mesh") or {"cells": s.get("cells")}
     labels = {
+        "kind": ("mesh", "s", ""),
+        "triangles": ("triangles", "d", ""),
+        "min_angle_deg": ("smallest triangle angle", ".1f", "°"),
         "cells": ("cells", "d", ""),
         "interior_faces": ("interior faces", "d", ""),
         "boundary_faces": ("exterior faces", "d", ""),
@@ -313,6 +316,8 @@ def _input_sections(s: dict[str, Any], inputs: dict[str, Any] | None) -> list[Se
 
 
 def _stat(v: Any, fmt: str, unit: str) -> str:
+    if isinstance(v, str):
+        return v
     if isinstance(v, int) and not isinstance(v, bool):
         return str(v)
     return num(v, fmt if fmt != "d" else "g", unit)

@@ -1,0 +1,79 @@
+"""Field files of a run on the triangle mesh: VTU through meshio, the real triangles.
+
+Layout (as for the grid, without ``fields.json``, which describes grids)::
+
+    fields/field.vtu                      steady run
+    fields/field_0000.vtu, ... field.pvd  transient run: one file per saved time
+    fields/surface_solve.vtu              junction: the surface-temperature solve
+
+Each VTU holds the triangles (the mesh's vertices are its points, in the solver's order)
+and the exterior edges as lines. Point data: ``temperature`` (°C, the solver's unknowns:
+the field is linear in every triangle). Cell data: ``material`` (index, −1 on lines),
+``boundary`` (index on lines, −1 adiabatic and on triangles).
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import numpy as np
+
+from fvheat.output.fields import FIELDS_DIR, SURFACE_FILE, write_pvd
+from fvheat.output.files import atomic_write_file
+from fvheat.simulate import Solution
+
+
+def to_meshio(solution: Solution, temperature: np.ndarray):
+    """The triangle mesh with ``temperature`` (°C per vertex) as a :class:`meshio.Mesh`."""
+    import meshio
+
+    mesh = solution.mesh
+    assert mesh.triangles is not None and mesh.triangle_material is not None
+    # exterior edges: the two half-faces of an edge share its outward normal and midpoint
+    first = np.arange(mesh.n_boundary_faces // 2)
+    a = mesh.b_cell[first]
+    b = mesh.b_cell[first + mesh.n_boundary_faces // 2]
+    lines = np.column_stack([a, b])
+    points = np.column_stack([mesh.centres, np.zeros(mesh.n_cells)])
+    n_t, n_l = mesh.triangles.shape[0], lines.shape[0]
+    return meshio.Mesh(
+        points,
+        [("triangle", mesh.triangles), ("line", lines)],
+        point_data={"temperature": np.asarray(temperature, float)},
+        cell_data={
+            "material": [mesh.triangle_material.astype(np.int32), np.full(n_l, -1, np.int32)],
+            "boundary": [np.full(n_t, -1, np.int32), mesh.b_boundary[first].astype(np.int32)],
+        },
+    )
+
+
+def write_vtu(path: Path, solution: Solution, temperature: np.ndarray) -> Path:
+    """One field as binary, zlib-compressed VTU, written atomically."""
+    import meshio
+
+    m = to_meshio(solution, temperature)
+    return atomic_write_file(
+        path, lambda tmp: meshio.vtu.write(tmp, m, binary=True, compression="zlib")
+    )
+
+
+def write_triangle_fields(
+    solution: Solution, out: str | Path, surface: Solution | None = None
+) -> list[Path]:
+    """Write the field files of a run on the triangle mesh into ``out/fields``."""
+    folder = Path(out) / FIELDS_DIR
+    folder.mkdir(parents=True, exist_ok=True)
+    h = solution.history
+    if h is None or not h.fields:
+        states = [(solution.time, solution.temperature, "field.vtu")]
+    else:
+        states = [
+            (t, f, f"field_{k:04d}.vtu")
+            for k, (t, f) in enumerate(zip(h.times, h.fields, strict=True))
+        ]
+    written = [write_vtu(folder / name, solution, temp) for _, temp, name in states]
+    if len(states) > 1 or solution.case.transient:
+        written.append(write_pvd(folder / "field.pvd", [(float(t), n) for t, _, n in states]))
+    if surface is not None:
+        written.append(write_vtu(folder / SURFACE_FILE, surface, surface.temperature))
+    return written
