@@ -16,8 +16,9 @@ On a vertex-centred mesh (the box method, ``b_dist`` = 0) the unknown sits on th
 g_c is infinite, T_s = T_c, and the flux into the body is h (T_a − T_c) + ε σ (T_r⁴ − T_c⁴)
 + q exactly. A fixed temperature there is imposed through the conductance
 :data:`PENALTY`·k/(face length): the node then sits within about 1e-5 of the cell's
-temperature drop of the fixed value (1e-7 of the heat flow in tests/validation/test_cylinder_shell.py), while the heat flow through the face stays the one
-the solver balanced.
+temperature drop of the fixed value (1e-7 of the heat flow in
+tests/validation/test_cylinder_shell.py), while the heat flow through the face stays the
+one the solver balanced.
 """
 
 from __future__ import annotations

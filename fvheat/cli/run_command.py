@@ -134,7 +134,8 @@ def _print_results(study: Study, out: Path, elapsed: float) -> None:
             con.print(f"  {label} on both grids: {a:.5g} → {b:.5g} (change {b - a:+.3g}{rel})")
     bal = solution.balance
     con.print(
-        f"mesh {solution.mesh.kind}, cells {solution.mesh.n_cells}; energy balance: {bal.describe()}; "
+        f"mesh {solution.mesh.kind}, cells {solution.mesh.n_cells}; "
+        f"energy balance: {bal.describe()}; "
         f"solved in {elapsed:.2f} s; results in {out}/"
     )
     con.print(f"[dim]Caution: {CAUTION}[/dim]")
