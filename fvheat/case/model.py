@@ -30,6 +30,9 @@ class MeshSettings:
     #: "rectilinear" (default), "triangles", or "auto" (triangles when a region outline or
     #: boundary edge is sloped)
     kind: str = "rectilinear"
+    #: a mesh file (any format meshio reads; ``[mesh] file``), resolved against the case file
+    file: Path | None = None
+    file_sha256: str | None = None
 
     @property
     def corner_size(self) -> float:

@@ -75,6 +75,10 @@ def mesh_kind(case: Case) -> str:
 
 def build_mesh(case: Case, refine: float = 1.0) -> Mesh:
     """The case's mesh (kind from :func:`mesh_kind`); ``refine`` divides every size."""
+    if case.mesh.file is not None:
+        from fvheat.mesh.imported import build_file_mesh
+
+        return build_file_mesh(case, refine)
     if mesh_kind(case) == "triangles":
         from fvheat.mesh.triangles import build_triangle_mesh
 

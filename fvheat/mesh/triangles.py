@@ -46,7 +46,7 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
     """
     import triangle
 
-    points, segments, tol = constraints(case)
+    points, segments, _ = constraints(case)
     size = size_function(case, refine)
     pslg = {"vertices": points, "segments": segments}
     rough = triangle.triangulate(pslg, "pQ")
@@ -63,7 +63,15 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
             break
         tri = triangle.triangulate(dict(tri, triangle_max_area=target), "r" + flags + "a")
     v, t = tri["vertices"], tri["triangles"].astype(np.int64)
-    region = paint_triangles(case, v, t)
+    return finish_mesh(case, v, t, paint_triangles(case, v, t))
+
+
+def finish_mesh(case: Case, v: np.ndarray, t: np.ndarray, region: np.ndarray) -> Mesh:
+    """The box-method mesh of triangles ``t`` on points ``v`` (m) painted by ``region``
+    (index of the case region per triangle, −1: dropped), with the case's boundaries
+    attached and its probes checked."""
+    from dataclasses import replace
+
     keep = region >= 0
     used, t = np.unique(t[keep], return_inverse=True)
     t = t.reshape(-1, 3)
@@ -72,15 +80,13 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
     mesh = box_mesh(
         v[used], t, material[region[keep]], names, tuple(b.name for b in case.boundaries)
     )
-    from dataclasses import replace
-
     mesh = replace(
         mesh,
         triangle_region=region[keep],
         piece_region=np.repeat(region[keep], 3),
         region=_dominant(mesh, np.repeat(region[keep], 3)),
     )
-    mesh = attach_boundaries(case, mesh, tol)
+    mesh = attach_boundaries(case, mesh)
     check_probes(case, mesh)
     return mesh
 
@@ -321,7 +327,7 @@ def exact_segment_faces(mesh: Mesh, seg) -> tuple[np.ndarray, np.ndarray, float]
     return on, np.ones(mesh.n_boundary_faces), float(np.sum(mesh.b_area[on])) / length
 
 
-def attach_boundaries(case: Case, mesh: Mesh, tol: float) -> Mesh:
+def attach_boundaries(case: Case, mesh: Mesh) -> Mesh:
     """Mark the exterior faces on each boundary's segments; the same errors as the grid's."""
     from dataclasses import replace
 
