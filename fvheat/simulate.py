@@ -84,7 +84,9 @@ def simulate(
     mesh = mesh if mesh is not None else build_mesh(case)
     system = System.build(case, mesh)
     model = EnthalpyModel.build(case, mesh)
-    probe_op = probe_operator(mesh, np.array([p.at for p in case.probes]).reshape(-1, 2))
+    probe_op = probe_operator(
+        mesh, np.array([p.at for p in case.probes]).reshape(-1, 2), system.k_material
+    )
     names = [b.name for b in case.boundaries]
 
     if case.time is None:
