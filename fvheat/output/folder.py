@@ -59,12 +59,17 @@ def write_outputs(study: Study, out: str | Path, *, plots: bool = True) -> list[
     out = Path(out)
     sol = study.solution
     written = [write_inputs(out, sol.case, sol.mesh)]
-    if sol.mesh.triangles is not None:  # figures and cells.csv need the rectilinear grid
+    if sol.mesh.triangles is not None:  # cells.csv and the grid's figures need the grid
         from fvheat.output.triangle_fields import write_triangle_fields
 
         written += write_triangle_fields(sol, out, study.surface_solution)
-        log.warning("triangle mesh: field files written (fields/), figures not drawn yet")
-        return [*written, *write_report(ResultsFolder.open(out))]
+        folder = ResultsFolder.open(out)
+        if plots:
+            from fvheat.output.plots.triangles import draw_triangle_figures
+
+            for r in draw_triangle_figures(sol, out, folder.summary, study.surface_solution):
+                written += [out / r.png] + ([out / r.svg] if r.svg else [])
+        return [*written, *write_report(folder)]
     if sol.mesh.grid is None:  # field files and figures need the rectilinear grid
         log.warning("no rectilinear grid: field files and figures are not written")
         return [*written, *write_report(ResultsFolder.open(out))]

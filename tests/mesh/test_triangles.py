@@ -124,3 +124,17 @@ def test_run_writes_triangle_vtu_and_kind(tmp_path):
     assert m.cells_dict["triangle"].shape == mesh.triangles.shape
     np.testing.assert_allclose(m.point_data["temperature"], study.solution.temperature)
     assert "triangles" in (tmp_path / "out" / "report.md").read_text(encoding="utf-8")
+
+
+def test_figures_and_preview_on_triangles(tmp_path):
+    from fvheat.output.plots.preview import write_preview
+
+    path = write_case(tmp_path, SLOPED.format(kind="triangles", latent=""))
+    run_to_folder(path, tmp_path / "out", plots=True)
+    figures = (tmp_path / "out" / "figures" / "figures.json").read_text(encoding="utf-8")
+    for name in ("temperature", "mesh"):
+        assert f'"{name}"' in figures
+        assert (tmp_path / "out" / "figures" / f"{name}.png").stat().st_size > 10_000
+    assert "figures/temperature.png" in (tmp_path / "out" / "report.md").read_text("utf-8")
+    case = _case(tmp_path)
+    assert write_preview(case, build_mesh(case), tmp_path / "p.png").stat().st_size > 10_000
