@@ -166,7 +166,7 @@ def _mesh(value: Any, ctx: Context) -> MeshSettings:
             f"corner_cell = {corner:g} m must not exceed min_cell = {min_cell:g} m "
             "(give corner_cell = min_cell for no extra refinement at corners)",
         )
-    kind = tbl.get("kind", "rectilinear")
+    kind = tbl.get("kind", "auto")
     if kind not in MESH_KINDS:
         raise Invalid(
             "mesh.kind", f"expected one of {', '.join(map(repr, MESH_KINDS))}, got {describe(kind)}"

@@ -27,9 +27,9 @@ class MeshSettings:
     min_cell: float
     growth: float = 1.3
     corner_cell: float | None = None
-    #: "rectilinear" (default), "triangles", or "auto" (triangles when a region outline or
-    #: boundary edge is sloped)
-    kind: str = "rectilinear"
+    #: "auto" (default: triangles when a region outline or boundary edge is sloped),
+    #: "triangles" or "rectilinear"
+    kind: str = "auto"
     #: a mesh file (any format meshio reads; ``[mesh] file``), resolved against the case file
     file: Path | None = None
     file_sha256: str | None = None

@@ -43,16 +43,21 @@ class CutError(ValueError):
 
 
 def layer_cut(case: Case, mesh: Mesh, cut: Segment) -> LayerCut:
-    """Read the layers crossed by the axis-aligned segment ``cut`` (m).
+    """Read the layers crossed by the axis-aligned segment ``cut`` (m) on the rectilinear
+    grid (the case's own grid when ``mesh`` has none, e.g. on the triangle mesh).
 
     The cut must lie inside one row (or column) of cells, or on a grid line with the same
     layers and end conditions on both sides (a line the mesher put inside a layer), not on
     a material interface; its ends must be on boundary faces whose boundaries are surface
     resistances (or convection without radiation) or fixed temperatures (resistance 0).
     """
+    if mesh.grid is None:
+        # the layers are the case's geometry: read them on the case's rectilinear grid
+        from fvheat.mesh.rectilinear import build_mesh
+
+        mesh = build_mesh(case)
     g = mesh.grid
-    if g is None:
-        raise CutError("layer cuts need a rectilinear grid")
+    assert g is not None
     (x0, y0), (x1, y1) = cut
     if y0 == y1 and x0 != x1:
         along, lines, other, pos, (lo, hi) = 0, g.x, g.y, y0, sorted((x0, x1))
