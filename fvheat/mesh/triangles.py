@@ -56,7 +56,7 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
         pslg["holes"] = outside
     flags = f"pq{MIN_ANGLE_DEG:g}Q"
     tri = triangle.triangulate(pslg, flags + f"a{_area(size.largest):.17g}")
-    for _ in range(PASSES):
+    for _ in range(PASSES if size.graded else 0):
         v, t = tri["vertices"], tri["triangles"]
         target = _area(size(v[t].mean(axis=1)))
         if np.all(_triangle_areas(v, t) <= 1.3 * target):
@@ -111,6 +111,11 @@ class SizeFunction:
         self.largest = largest
         self.growth = growth
         self.groups = [(cKDTree(p), s) for p, s in groups if len(p)]
+
+    @property
+    def graded(self) -> bool:
+        """Whether any corner asks for edges shorter than the largest."""
+        return any(s < self.largest for _, s in self.groups)
 
     def __call__(self, x: np.ndarray) -> np.ndarray:
         h = np.full(len(x), self.largest)
@@ -255,8 +260,8 @@ def box_mesh(
     volumes = np.bincount(piece_cell, weights=piece_volume, minlength=nv)
 
     # boundary edges: used by one triangle only
-    key = np.sort(np.column_stack([a, b]), axis=1)
-    _, first, count = np.unique(key, axis=0, return_index=True, return_counts=True)
+    key = np.minimum(a, b) * np.int64(nv) + np.maximum(a, b)
+    _, first, count = np.unique(key, return_index=True, return_counts=True)
     edge = first[count == 1]
     ea, eb = a[edge], b[edge]  # counter-clockwise triangle: the body lies left of a → b
     d = v[eb] - v[ea]
@@ -300,12 +305,12 @@ def box_mesh(
 
 
 def _dominant(mesh: Mesh, piece_value: np.ndarray) -> np.ndarray:
-    """Per cell, the value of its largest piece (for drawing and summaries only)."""
+    """Per cell, the value of its largest piece (for drawing and summaries only): pieces
+    written in order of increasing volume, the last write wins."""
     assert mesh.piece_cell is not None and mesh.piece_volume is not None
-    order = np.lexsort((mesh.piece_volume, mesh.piece_cell))
-    last = np.r_[mesh.piece_cell[order][1:] != mesh.piece_cell[order][:-1], True]
+    order = np.argsort(mesh.piece_volume, kind="stable")
     out = np.zeros(mesh.n_cells, dtype=np.int64)
-    out[mesh.piece_cell[order][last]] = piece_value[order][last]
+    out[mesh.piece_cell[order]] = piece_value[order]
     return out
 
 
@@ -362,35 +367,37 @@ def attach_boundaries(case: Case, mesh: Mesh) -> Mesh:
 
 def find_triangles(mesh: Mesh, points: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """Triangle containing each point (−1 outside the body) and the barycentric weights
-    (n, 3) of its vertices. Points within round-off of the body's edge count as inside."""
-    from matplotlib.tri import Triangulation
+    (n, 3) of its vertices. Points within round-off of the body's edge count as inside.
 
+    Candidates are the triangles with the nearest centroids (a k-d tree); a point none of
+    them contains is tested against every triangle (vectorised), so the answer does not
+    depend on the mesh's quality."""
     assert mesh.triangles is not None
     v, t = mesh.centres, mesh.triangles
-    pts = np.atleast_2d(np.asarray(points, dtype=float))
-    finder = Triangulation(v[:, 0], v[:, 1], t).get_trifinder()
-    k = np.asarray(finder(pts[:, 0], pts[:, 1]), dtype=np.int64)
-    miss = np.flatnonzero(k < 0)
-    if miss.size:  # on the outline: the nearest triangle centroid, if the point is on it
-        tree = cKDTree(v[t].mean(axis=1))
-        _, near = tree.query(pts[miss], k=min(8, len(t)))
-        near = np.atleast_2d(near)
-        for row, i in enumerate(miss):
-            for cand in near[row]:
-                lam = _barycentric(v[t[cand]], pts[i])
-                if lam.min() >= -1e-9:
-                    k[i] = cand
-                    break
+    pts = np.atleast_2d(np.asarray(points, dtype=float)).reshape(-1, 2)
+    tol = 1e-9
+    found = np.full(len(pts), -1, dtype=np.int64)
     lam = np.zeros((len(pts), 3))
-    ok = k >= 0
-    if ok.any():
-        tv = v[t[k[ok]]]
-        lam[ok] = _barycentric_many(tv, pts[ok])
-    return k, np.clip(lam, 0.0, 1.0)
-
-
-def _barycentric(tv: np.ndarray, p: np.ndarray) -> np.ndarray:
-    return _barycentric_many(tv[None], p[None])[0]
+    if len(pts) == 0:
+        return found, lam
+    k = min(16, len(t))
+    _, near = cKDTree(v[t].mean(axis=1)).query(pts, k=k)
+    near = np.asarray(near).reshape(len(pts), k)
+    for col in range(k):
+        todo = np.flatnonzero(found < 0)
+        if todo.size == 0:
+            break
+        cand = near[todo, col]
+        b = _barycentric_many(v[t[cand]], pts[todo])
+        hit = b.min(axis=1) >= -tol
+        found[todo[hit]] = cand[hit]
+        lam[todo[hit]] = b[hit]
+    for i in np.flatnonzero(found < 0):  # far from any centroid: every triangle
+        b = _barycentric_many(v[t], np.repeat(pts[i : i + 1], len(t), axis=0))
+        best = int(np.argmax(b.min(axis=1)))
+        if b[best].min() >= -tol:
+            found[i], lam[i] = best, b[best]
+    return found, np.clip(lam, 0.0, 1.0)
 
 
 def _barycentric_many(tv: np.ndarray, p: np.ndarray) -> np.ndarray:
