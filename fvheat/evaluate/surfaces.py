@@ -100,7 +100,10 @@ class SurfacePointMap:
         if node.any():
             vertex = mesh.centres[s.cell]
             centre = np.where(node[:, None], vertex, centre)
-            ends = tuple(np.where(node[:, None], vertex, e) for e in ends)
+            ends = (
+                np.where(node[:, None], vertex, ends[0]),
+                np.where(node[:, None], vertex, ends[1]),
+            )
             uses = [u & ~node for u in uses]
         return cls(
             at=np.concatenate([centre, *ends]),

@@ -208,9 +208,10 @@ def paint_triangles(case: Case, v: np.ndarray, t: np.ndarray) -> np.ndarray:
         idx = np.flatnonzero(near)
         if idx.size == 0:
             continue
-        inside = np.ones(idx.size, bool) if r.is_box else points_in_polygon(*c[idx].T, r.vertices)
+        px, py = c[idx, 0], c[idx, 1]
+        inside = np.ones(idx.size, bool) if r.is_box else points_in_polygon(px, py, r.vertices)
         for hole in r.holes:
-            inside &= ~points_in_polygon(*c[idx].T, hole)
+            inside &= ~points_in_polygon(px, py, hole)
         owner[idx[inside]] = k
     return owner
 

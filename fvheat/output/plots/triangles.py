@@ -124,7 +124,7 @@ def mesh_map(mesh: Mesh, title: str):
             linewidth=0.15,
         )
         handles = _edges(mesh, ax)
-        style.headings(fig, ax, title, f"{mesh.triangles.shape[0]} triangles", "")
+        style.headings(fig, ax, title, f"{len(mesh.triangle_material)} triangles", "")
         style.boundary_legend(fig, handles)
     return fig
 
@@ -145,6 +145,8 @@ def draw_triangle_figures(
         records.append(FigureRecord(name, rel[0], rel[1] if len(rel) > 1 else None, caption))
 
     main_marked = marked if surface is None else None
+    tm = solution.mesh.triangle_material
+    n_triangles = 0 if tm is None else len(tm)
     save(
         temperature_map(solution, title, when, main_marked),
         "temperature",
@@ -162,7 +164,7 @@ def draw_triangle_figures(
         mesh_map(solution.mesh, title),
         "mesh",
         f"Computational mesh: {solution.mesh.n_cells} nodes (control volumes) on "
-        f"{solution.mesh.triangles.shape[0]} triangles coloured by material; "
+        f"{n_triangles} triangles coloured by material; "
         "unmarked exterior edges are adiabatic.",
         vector=False,
     )
