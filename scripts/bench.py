@@ -679,8 +679,8 @@ def triangles_vs_grid(nodes: int, repeat: int = 1) -> int:
     n = max(2, round(nodes**0.5))
     grid_text = case_toml(n, None)
     # the triangle mesh keeps its areas below 1.3 × that of an equilateral triangle of the
-    # target edge h: about 1.17 nodes per h² here (measured)
-    h = (1.17 / nodes) ** 0.5
+    # target edge h: about 1.8 nodes per h² here (measured)
+    h = (1.8 / nodes) ** 0.5
     old = f"max_cell = {1.0 / n!r}\nmin_cell = {1.0 / n!r}"
     tri_text = grid_text.replace(old, f'max_cell = {h!r}\nmin_cell = {h!r}\nkind = "triangles"')
     times, results = {}, {}

@@ -55,12 +55,14 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
     if outside.size:
         pslg["holes"] = outside
     flags = f"pq{MIN_ANGLE_DEG:g}Q"
-    tri = triangle.triangulate(pslg, flags + f"a{_area(size.largest):.17g}")
+    # triangle reads the area bound as a plain decimal (no exponent)
+    largest = np.format_float_positional(float(_area(size.largest)), trim="-")
+    tri = triangle.triangulate(pslg, flags + f"a{largest}")
     for _ in range(PASSES if size.graded else 0):
         v, t = tri["vertices"], tri["triangles"]
         target = _area(size(v[t].mean(axis=1)))
         if np.all(_triangle_areas(v, t) <= 1.3 * target):
-            break
+            break  # every triangle within 1.3 × its target area
         tri = triangle.triangulate(dict(tri, triangle_max_area=target), "r" + flags + "a")
     v, t = tri["vertices"], tri["triangles"].astype(np.int64)
     return finish_mesh(case, v, t, paint_triangles(case, v, t))
@@ -242,17 +244,20 @@ def box_mesh(
     a = t[:, [1, 2, 0]].ravel()
     b = t[:, [2, 0, 1]].ravel()
     c = t.ravel()
-    u, w = v[a] - v[c], v[b] - v[c]
+    va, vb, vc = v[a], v[b], v[c]  # gathered once: these arrays are 3 × triangles long
+    u, w = va - vc, vb - vc
     cross = u[:, 0] * w[:, 1] - u[:, 1] * w[:, 0]
-    weight = 0.5 * np.einsum("ij,ij->i", u, w) / cross
-    centroid = np.repeat(v[t].mean(axis=1), 3, axis=0)
-    mid = 0.5 * (v[a] + v[b])
+    weight = 0.5 * (u[:, 0] * w[:, 0] + u[:, 1] * w[:, 1]) / cross
+    centroid = (va + vb + vc) / 3.0
+    mid = 0.5 * (va + vb)
     dual = centroid - mid
-    length = np.hypot(*dual.T)
+    length = np.hypot(dual[:, 0], dual[:, 1])
+    along = vb - va
+    # the dual segment turned clockwise, pointing from a towards b (a counter-clockwise
+    # triangle's centroid lies left of a → b, so this is the sign that crosses to b)
     normal = np.column_stack([dual[:, 1], -dual[:, 0]]) / length[:, None]
-    along = v[b] - v[a]
-    normal *= np.sign(np.einsum("ij,ij->i", normal, along))[:, None]
-    half_edge = 0.5 * np.hypot(*along.T)
+    normal *= np.sign(normal[:, 0] * along[:, 0] + normal[:, 1] * along[:, 1])[:, None]
+    half_edge = 0.5 * np.hypot(along[:, 0], along[:, 1])
     face_material = np.repeat(tri_material, 3).astype(np.int32)
 
     piece_cell = t.ravel()
@@ -366,6 +371,10 @@ def attach_boundaries(case: Case, mesh: Mesh) -> Mesh:
     return replace(mesh, b_boundary=bid)
 
 
+#: up to this many points are located by testing every triangle
+FEW_POINTS = 8
+
+
 def find_triangles(mesh: Mesh, points: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """Triangle containing each point (−1 outside the body) and the barycentric weights
     (n, 3) of its vertices. Points within round-off of the body's edge count as inside.
@@ -381,6 +390,13 @@ def find_triangles(mesh: Mesh, points: np.ndarray) -> tuple[np.ndarray, np.ndarr
     lam = np.zeros((len(pts), 3))
     if len(pts) == 0:
         return found, lam
+    if len(pts) <= FEW_POINTS:  # a few probes: every triangle, no tree to build
+        for i in range(len(pts)):
+            b = _barycentric_many(v[t], np.broadcast_to(pts[i], (len(t), 2)))
+            best = int(np.argmax(b.min(axis=1)))
+            if b[best].min() >= -tol:
+                found[i], lam[i] = best, b[best]
+        return found, np.clip(lam, 0.0, 1.0)
     k = min(16, len(t))
     _, near = cKDTree(v[t].mean(axis=1)).query(pts, k=k)
     near = np.asarray(near).reshape(len(pts), k)
