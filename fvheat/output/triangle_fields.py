@@ -9,7 +9,8 @@ Layout (as for the grid, without ``fields.json``, which describes grids)::
 Each VTU holds the triangles (the mesh's vertices are its points, in the solver's order)
 and the exterior edges as lines. Point data: ``temperature`` (°C, the solver's unknowns:
 the field is linear in every triangle). Cell data: ``material`` (index, −1 on lines),
-``boundary`` (index on lines, −1 adiabatic and on triangles).
+``boundary`` (index on lines, −1 adiabatic and on triangles), ``heat_flux`` (W/m², z = 0;
+q = −k∇T, constant in each triangle: the flux the box method's faces carry; 0 on lines).
 """
 
 from __future__ import annotations
@@ -36,6 +37,11 @@ def to_meshio(solution: Solution, temperature: np.ndarray):
     lines = np.column_stack([a, b])
     points = np.column_stack([mesh.centres, np.zeros(mesh.n_cells)])
     n_t, n_l = mesh.triangles.shape[0], lines.shape[0]
+    k = solution.system.k_material
+    assert k is not None
+    q = -k[mesh.triangle_material][:, None] * triangle_gradients(
+        mesh.centres, mesh.triangles, temperature
+    )
     return meshio.Mesh(
         points,
         [("triangle", mesh.triangles), ("line", lines)],
@@ -43,8 +49,22 @@ def to_meshio(solution: Solution, temperature: np.ndarray):
         cell_data={
             "material": [mesh.triangle_material.astype(np.int32), np.full(n_l, -1, np.int32)],
             "boundary": [np.full(n_t, -1, np.int32), mesh.b_boundary[first].astype(np.int32)],
+            "heat_flux": [np.column_stack([q, np.zeros(n_t)]), np.zeros((n_l, 3))],
         },
     )
+
+
+def triangle_gradients(v: np.ndarray, t: np.ndarray, values: np.ndarray) -> np.ndarray:
+    """Gradient (t, 2) of the field linear in each triangle with ``values`` at the vertices
+    ``v`` (m): K/m for temperatures."""
+    p0, p1, p2 = v[t[:, 0]], v[t[:, 1]], v[t[:, 2]]
+    f = np.asarray(values, float)
+    d1, d2 = p1 - p0, p2 - p0
+    det = d1[:, 0] * d2[:, 1] - d1[:, 1] * d2[:, 0]
+    f1, f2 = f[t[:, 1]] - f[t[:, 0]], f[t[:, 2]] - f[t[:, 0]]
+    gx = (f1 * d2[:, 1] - f2 * d1[:, 1]) / det
+    gy = (f2 * d1[:, 0] - f1 * d2[:, 0]) / det
+    return np.column_stack([gx, gy])
 
 
 def write_vtu(path: Path, solution: Solution, temperature: np.ndarray) -> Path:

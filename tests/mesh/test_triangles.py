@@ -15,6 +15,7 @@ from casefiles import load, write_case
 
 from fvheat.errors import CaseError
 from fvheat.mesh.select import build_mesh, mesh_kind
+from fvheat.output.results import ResultsFolder
 from fvheat.run import run_to_folder
 from fvheat.simulate import simulate
 
@@ -123,6 +124,10 @@ def test_run_writes_triangle_vtu_and_kind(tmp_path):
     mesh = study.solution.mesh
     assert m.cells_dict["triangle"].shape == mesh.triangles.shape
     np.testing.assert_allclose(m.point_data["temperature"], study.solution.temperature)
+    q = m.cell_data_dict["heat_flux"]["triangle"]
+    assert np.all(np.isfinite(q)) and np.mean(q[:, 1]) > 0.0  # from the warm side (y = 0) up
+    with pytest.raises(CaseError, match="triangle-mesh run"):
+        ResultsFolder.open(tmp_path / "out").field_meta()
     assert "triangles" in (tmp_path / "out" / "report.md").read_text(encoding="utf-8")
 
 
@@ -138,3 +143,44 @@ def test_figures_and_preview_on_triangles(tmp_path):
     assert "figures/temperature.png" in (tmp_path / "out" / "report.md").read_text("utf-8")
     case = _case(tmp_path)
     assert write_preview(case, build_mesh(case), tmp_path / "p.png").stat().st_size > 10_000
+
+
+WALL = """
+title = "two-layer wall"
+[mesh]
+max_cell = 0.02
+min_cell = 0.005
+kind = "triangles"
+[materials.a]
+conductivity = 1.0
+[materials.b]
+conductivity = 0.1
+[[regions]]
+material = "a"
+box = [0.0, 0.0, 0.2, 0.5]
+[[regions]]
+material = "b"
+box = [0.1, 0.0, 0.2, 0.5]
+[[boundaries]]
+name = "inside"
+edges = [[[0.2, 0.0], [0.2, 0.5]]]
+air_temperature = 20.0
+resistance = 0.13
+[[boundaries]]
+name = "outside"
+edges = [[[0.0, 0.0], [0.0, 0.5]]]
+air_temperature = 0.0
+resistance = 0.04
+"""
+
+
+def test_triangle_heat_flux_of_a_wall(tmp_path):
+    """q = −k∇T per triangle in the VTU: the ISO 6946 flux density q = Δθ/ΣR everywhere
+    in a two-layer wall (x towards the cold side), 0 along it; P1 is exact in 1-D."""
+    from fvheat.output.triangle_fields import to_meshio
+
+    sol = simulate(load(tmp_path, WALL))
+    q_exact = 20.0 / (0.13 + 0.1 / 1.0 + 0.1 / 0.1 + 0.04)
+    q = to_meshio(sol, sol.temperature).cell_data["heat_flux"][0]
+    np.testing.assert_allclose(q[:, 0], -q_exact, rtol=1e-9)
+    np.testing.assert_allclose(q[:, 1], 0.0, atol=1e-9 * q_exact)
