@@ -2,7 +2,8 @@
 
 "auto" takes the triangle mesh (exact geometry) whenever a region outline, hole or boundary
 segment is not axis-aligned, unless the case uses something the triangle mesh does not
-support yet (then the rectilinear grid, said in the log); "triangles" with such a case is
+support yet (phase-dependent conductivity, ``[ground]``; then the rectilinear grid, said
+in the log); "triangles" with such a case is
 refused in one line naming the key.
 """
 
@@ -40,10 +41,13 @@ def unsupported(case: Case) -> tuple[str, str] | None:
     used = {r.material for r in case.regions}
     for name in case.materials:
         m = case.materials[name]
-        if name in used and (m.latent_heat is not None or m.phase_change is not None):
+        frozen_k = m.frozen.conductivity if m.frozen is not None else None
+        changes = m.latent_heat is not None and m.phase_change is not None
+        if name in used and changes and frozen_k is not None and frozen_k != m.conductivity:
             return (
-                f"materials.{name}.latent_heat",
-                "latent heat and phase-dependent conductivity run on the rectilinear mesh only",
+                f"materials.{name}.frozen.conductivity",
+                "phase-dependent conductivity runs on the rectilinear mesh only (latent heat "
+                "with one conductivity runs on both)",
             )
     if case.ground is not None:
         return "ground", "[ground] (the soil block's floor U) runs on the rectilinear mesh only"

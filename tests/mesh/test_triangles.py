@@ -97,12 +97,32 @@ def test_refining_halves_the_sizes(tmp_path):
     assert 3.0 < fine.n_cells / coarse.n_cells < 5.0
 
 
-def test_latent_heat_refused_on_triangles(tmp_path):
-    latent = "density = 30\nspecific_heat = 1000\nlatent_heat = 1000\nphase_change = [-1.0, 0.0]"
-    with pytest.raises(CaseError, match=r"materials\.wool\.latent_heat.*rectilinear"):
+def test_phase_dependent_conductivity_refused_on_triangles(tmp_path):
+    latent = (
+        "density = 30\nspecific_heat = 1000\nlatent_heat = 1000\nphase_change = [-1.0, 0.0]\n"
+        "frozen = { conductivity = 0.04 }"
+    )
+    with pytest.raises(CaseError, match=r"materials\.wool\.frozen\.conductivity.*rectilinear"):
         build_mesh(_case(tmp_path, latent=latent))
-    # auto falls back to the grid
+    # auto falls back to the grid; with one conductivity the triangles take latent heat
     assert mesh_kind(_case(tmp_path, "auto", latent)) == "rectilinear"
+    one_k = latent.replace("\nfrozen = { conductivity = 0.04 }", "")
+    assert mesh_kind(_case(tmp_path, "auto", one_k)) == "triangles"
+
+
+def test_two_phase_change_materials_at_one_node_refused(tmp_path):
+    """The wool (−1…0 °C) inside the timber (1…2 °C): nodes on their interface would need
+    two phase-change ranges."""
+    from fvheat.assembly.enthalpy import EnthalpyModel
+
+    wool = "density = 30\nspecific_heat = 1000\nlatent_heat = 1000\nphase_change = [-1.0, 0.0]"
+    text = SLOPED.format(kind="triangles", latent=wool).replace(
+        "specific_heat = 1600\n",
+        "specific_heat = 1600\nlatent_heat = 500\nphase_change = [1.0, 2.0]\n",
+    )
+    case = load(tmp_path, text)
+    with pytest.raises(CaseError, match=r"phase-change materials .* meet at the mesh node"):
+        EnthalpyModel.build(case, build_mesh(case))
 
 
 def test_bad_kind_is_one_line(tmp_path):
