@@ -60,7 +60,8 @@ def describe_boundary(b: Boundary) -> str:
 
 def case_inputs(case: Case, mesh: Mesh) -> dict[str, Any]:
     """The inputs dictionary (see the module docstring); SI units, temperatures in °C."""
-    area = np.bincount(mesh.material, weights=mesh.volumes, minlength=len(mesh.material_names))
+    _, piece_material, piece_volume = mesh.pieces()  # exact where cells straddle materials
+    area = np.bincount(piece_material, weights=piece_volume, minlength=len(mesh.material_names))
     cells = np.bincount(mesh.material, minlength=len(mesh.material_names))
     index = {n: k for k, n in enumerate(mesh.material_names)}
     materials = []
