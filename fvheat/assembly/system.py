@@ -30,6 +30,7 @@ class System:
     surface: SurfaceTerms
     capacity: np.ndarray  # J/(m·K) per cell
     k_material: np.ndarray | None = None  # W/(m·K) per material (faces with their own material)
+    phase_material: np.ndarray | None = None  # bool per material: conductivity follows the phase
 
     @classmethod
     def build(cls, case: Case, mesh: Mesh) -> System:
@@ -37,14 +38,39 @@ class System:
         k = conductivity(case, mesh)
         km = material_conductivity(case, mesh)
         g, m, surface = _operators(mesh, case.boundaries, k, km)
-        return cls(mesh, k, g, m, surface, heat_capacity(case, mesh), km)
+        phase = np.array(
+            [
+                case.materials[n].latent_heat is not None
+                and case.materials[n].phase_change is not None
+                for n in mesh.material_names
+            ],
+            dtype=bool,
+        )
+        return cls(mesh, k, g, m, surface, heat_capacity(case, mesh), km, phase)
 
     def with_conductivity(self, k: np.ndarray) -> System:
         """The same system with cell conductivities ``k`` (W/(m·K)), e.g. frozen ground."""
+        km = self.k_material
+        k_face = None
         if self.mesh.face_weight is not None:
-            raise NotImplementedError("cell conductivities on a mesh whose faces carry materials")
-        g, m, surface = _operators(self.mesh, self.surface.boundaries, k)
+            k_face = self.triangle_conductivity(k)
+        g, m, surface = _operators(self.mesh, self.surface.boundaries, k, km, k_face)
         return replace(self, k=k, g=g, matrix=m, surface=surface)
+
+    def triangle_conductivity(self, k: np.ndarray) -> np.ndarray:
+        """Per face piece of a triangle mesh, W/(m·K): the conductivity of its triangle, for
+        node conductivities ``k`` (W/(m·K)). A phase-change triangle takes the mean of its
+        vertices' values (the conductivity is linear in the liquid fraction, so this is its
+        material at the mean liquid fraction); other triangles keep their material's."""
+        mesh = self.mesh
+        assert mesh.triangles is not None and mesh.triangle_material is not None
+        assert self.k_material is not None and self.phase_material is not None
+        tm = mesh.triangle_material
+        k_tri = np.where(
+            self.phase_material[tm], k[mesh.triangles].mean(axis=1), self.k_material[tm]
+        )
+        # box_mesh numbers the face pieces triangle by triangle: face 3i + e is triangle i's
+        return np.repeat(k_tri, 3)
 
     @property
     def n(self) -> int:
@@ -79,11 +105,16 @@ class System:
 
 
 def _operators(
-    mesh: Mesh, boundaries: tuple[Boundary, ...], k: np.ndarray, km: np.ndarray | None = None
+    mesh: Mesh,
+    boundaries: tuple[Boundary, ...],
+    k: np.ndarray,
+    km: np.ndarray | None = None,
+    k_face: np.ndarray | None = None,
 ) -> tuple[np.ndarray, sp.csr_matrix, SurfaceTerms]:
     """Face conductances, the matrix M and the surface terms for cell conductivities ``k``
-    (and material conductivities ``km`` where faces carry their own material)."""
-    g = face_conductance(mesh, k, km)
+    (and, where faces carry their own material, the material conductivities ``km`` or the
+    faces' own conductivities ``k_face``)."""
+    g = face_conductance(mesh, k, km, k_face)
     surface = SurfaceTerms.build(mesh, boundaries, k)
     m = conduction_matrix(mesh, g, surface.diagonal(mesh.n_cells))
     return g, m, surface

@@ -2,9 +2,8 @@
 
 "auto" takes the triangle mesh (exact geometry) whenever a region outline, hole or boundary
 segment is not axis-aligned, unless the case uses something the triangle mesh does not
-support yet (phase-dependent conductivity, ``[ground]``; then the rectilinear grid, said
-in the log); "triangles" with such a case is
-refused in one line naming the key.
+support yet (``[ground]``; then the rectilinear grid, said in the log); "triangles" with
+such a case is refused in one line naming the key.
 """
 
 from __future__ import annotations
@@ -38,17 +37,6 @@ def sloped(case: Case) -> bool:
 def unsupported(case: Case) -> tuple[str, str] | None:
     """(key, reason) of the first thing in ``case`` the triangle mesh does not support yet,
     or None."""
-    used = {r.material for r in case.regions}
-    for name in case.materials:
-        m = case.materials[name]
-        frozen_k = m.frozen.conductivity if m.frozen is not None else None
-        changes = m.latent_heat is not None and m.phase_change is not None
-        if name in used and changes and frozen_k is not None and frozen_k != m.conductivity:
-            return (
-                f"materials.{name}.frozen.conductivity",
-                "phase-dependent conductivity runs on the rectilinear mesh only (latent heat "
-                "with one conductivity runs on both)",
-            )
     if case.ground is not None:
         return "ground", "[ground] (the soil block's floor U) runs on the rectilinear mesh only"
     return None

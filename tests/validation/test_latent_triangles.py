@@ -1,9 +1,9 @@
 """Latent heat on the triangle mesh: freezing of a semi-infinite medium (Neumann).
 
 Source: Carslaw & Jaeger, *Conduction of Heat in Solids*, 2nd ed., §11.2 (Neumann's
-two-phase solution; the same formulas as ``test_neumann.py``), here with one conductivity
-in both phases: the triangle mesh supports latent heat with a phase-independent
-conductivity (phase-dependent conductivity is refused there). The model releases the
+two-phase solution; the same formulas as ``test_neumann.py``, which runs two
+conductivities on both meshes), here with one conductivity in both phases. The model
+releases the
 latent heat over θ_f ± 0.05 K. Material values are invented (a wet soil-like medium).
 Checks, on both meshes: the front within 2 % and temperatures within 0.1 K after two days
 on 5 mm cells and 450 s steps (the 2 m strip is semi-infinite for two days: the exact
@@ -98,12 +98,3 @@ def test_freezing_front_on_both_meshes(tmp_path, kind):
     assert front_err < 0.02
     assert temp_err < 0.1
     assert s.balance.relative < 1e-8
-
-
-def test_phase_dependent_conductivity_refused_on_triangles(tmp_path):
-    from fvheat.errors import CaseError
-    from fvheat.mesh.select import build_mesh
-
-    text = CASE.replace("frozen = { ", "frozen = { conductivity = 2.2, ")
-    with pytest.raises(CaseError, match=r"materials\.soil\.frozen\.conductivity.*rectilinear"):
-        build_mesh(load(tmp_path, text, ["mesh.kind=triangles"]))
