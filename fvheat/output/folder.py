@@ -59,10 +59,14 @@ def write_outputs(study: Study, out: str | Path, *, plots: bool = True) -> list[
     out = Path(out)
     sol = study.solution
     written = [write_inputs(out, sol.case, sol.mesh)]
-    if sol.mesh.triangles is not None:  # cells.csv and the grid's figures need the grid
+    if sol.mesh.triangles is not None:  # the triangles' own field files and figures
         from fvheat.output.triangle_fields import write_triangle_fields
 
         written += write_triangle_fields(sol, out, study.surface_solution)
+        if sol.mesh.n_cells <= CELLS_CSV_LIMIT:
+            from fvheat.output.triangle_fields import write_node_csv
+
+            written.append(write_node_csv(out / CELLS_FILE, sol))
         folder = ResultsFolder.open(out)
         if plots:
             from fvheat.output.plots.triangles import draw_triangle_figures

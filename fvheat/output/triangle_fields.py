@@ -37,11 +37,7 @@ def to_meshio(solution: Solution, temperature: np.ndarray):
     lines = np.column_stack([a, b])
     points = np.column_stack([mesh.centres, np.zeros(mesh.n_cells)])
     n_t, n_l = mesh.triangles.shape[0], lines.shape[0]
-    k = solution.system.k_material
-    assert k is not None
-    q = -k[mesh.triangle_material][:, None] * triangle_gradients(
-        mesh.centres, mesh.triangles, temperature
-    )
+    q = triangle_flux(solution, temperature)
     return meshio.Mesh(
         points,
         [("triangle", mesh.triangles), ("line", lines)],
@@ -65,6 +61,54 @@ def triangle_gradients(v: np.ndarray, t: np.ndarray, values: np.ndarray) -> np.n
     gx = (f1 * d2[:, 1] - f2 * d1[:, 1]) / det
     gy = (f2 * d1[:, 0] - f1 * d2[:, 0]) / det
     return np.column_stack([gx, gy])
+
+
+def triangle_flux(solution: Solution, temperature: np.ndarray) -> np.ndarray:
+    """Heat-flux vectors (t, 2) W/m² of every triangle: q = −k∇T."""
+    mesh = solution.mesh
+    k = solution.system.k_material
+    assert mesh.triangles is not None and mesh.triangle_material is not None and k is not None
+    grad = triangle_gradients(mesh.centres, mesh.triangles, temperature)
+    return -k[mesh.triangle_material][:, None] * grad
+
+
+def node_flux(solution: Solution, temperature: np.ndarray) -> np.ndarray:
+    """Heat-flux vectors (n, 2) W/m² at the nodes: the area-weighted mean over the
+    triangles around each node (over its control volume's pieces)."""
+    mesh = solution.mesh
+    assert mesh.piece_cell is not None and mesh.piece_volume is not None
+    q = triangle_flux(solution, temperature)[np.arange(mesh.piece_cell.size) // 3]
+    w = mesh.piece_volume
+    sums = [
+        np.bincount(mesh.piece_cell, weights=w * q[:, i], minlength=mesh.n_cells) for i in (0, 1)
+    ]
+    return np.column_stack(sums) / mesh.volumes[:, None]
+
+
+def write_node_csv(path: Path, solution: Solution) -> Path:
+    """``cells.csv`` of a triangle-mesh run: one row per node (control volume) with the
+    columns of the grid's file: position (m), material (of its largest piece), temperature
+    (°C), heat flux (W/m², :func:`node_flux`)."""
+    import csv
+
+    from fvheat.output.files import atomic_write
+
+    mesh = solution.mesh
+    temp = solution.temperature
+    q = node_flux(solution, temp)
+    names = np.asarray(mesh.material_names, dtype=object)[mesh.material]
+
+    def write(fh) -> None:
+        w = csv.writer(fh)
+        w.writerow(
+            ["x_m", "y_m", "material", "temperature_C", "heat_flux_x_W_m2", "heat_flux_y_W_m2"]
+        )
+        w.writerows(
+            [repr(float(x)), repr(float(y)), m, repr(float(t)), repr(float(a)), repr(float(b))]
+            for (x, y), m, t, (a, b) in zip(mesh.centres, names, temp, q, strict=True)
+        )
+
+    return atomic_write(path, write)
 
 
 def write_vtu(path: Path, solution: Solution, temperature: np.ndarray) -> Path:

@@ -151,6 +151,8 @@ def test_run_writes_triangle_vtu_and_kind(tmp_path):
     with pytest.raises(CaseError, match="triangle-mesh run"):
         ResultsFolder.open(tmp_path / "out").field_meta()
     assert "triangles" in (tmp_path / "out" / "report.md").read_text(encoding="utf-8")
+    rows = (tmp_path / "out" / "cells.csv").read_text(encoding="utf-8").splitlines()
+    assert len(rows) == 1 + mesh.n_cells and rows[0].startswith("x_m,y_m,material,temperature_C")
 
 
 def test_figures_and_preview_on_triangles(tmp_path):
@@ -159,7 +161,7 @@ def test_figures_and_preview_on_triangles(tmp_path):
     path = write_case(tmp_path, SLOPED.format(kind="triangles", latent=""))
     run_to_folder(path, tmp_path / "out", plots=True)
     figures = (tmp_path / "out" / "figures" / "figures.json").read_text(encoding="utf-8")
-    for name in ("temperature", "mesh"):
+    for name in ("temperature", "heat_flux", "mesh"):
         assert f'"{name}"' in figures
         assert (tmp_path / "out" / "figures" / f"{name}.png").stat().st_size > 10_000
     assert "figures/temperature.png" in (tmp_path / "out" / "report.md").read_text("utf-8")
@@ -199,10 +201,12 @@ resistance = 0.04
 def test_triangle_heat_flux_of_a_wall(tmp_path):
     """q = −k∇T per triangle in the VTU: the ISO 6946 flux density q = Δθ/ΣR everywhere
     in a two-layer wall (x towards the cold side), 0 along it; P1 is exact in 1-D."""
-    from fvheat.output.triangle_fields import to_meshio
+    from fvheat.output.triangle_fields import node_flux, to_meshio
 
     sol = simulate(load(tmp_path, WALL))
     q_exact = 20.0 / (0.13 + 0.1 / 1.0 + 0.1 / 0.1 + 0.04)
     q = to_meshio(sol, sol.temperature).cell_data["heat_flux"][0]
     np.testing.assert_allclose(q[:, 0], -q_exact, rtol=1e-9)
     np.testing.assert_allclose(q[:, 1], 0.0, atol=1e-9 * q_exact)
+    qn = node_flux(sol, sol.temperature)  # the cells.csv values: the same at every node
+    np.testing.assert_allclose(qn, np.broadcast_to([-q_exact, 0.0], qn.shape), atol=1e-9 * q_exact)

@@ -2,10 +2,10 @@
 
 ``temperature`` (the field, linear in each triangle, with isotherms, material outlines and
 the boundaries coloured), ``temperature_surface`` (a junction's separate
-surface-temperature solve), ``mesh`` (the triangles coloured by material) and, for a
-transient run, ``probes`` and ``heat_flows``; listed in ``figures/figures.json`` with
-captions like the grid's figures (:mod:`fvheat.output.plots.figures`), so the report embeds
-them the same way.
+surface-temperature solve), ``heat_flux`` (|q| per triangle, log scale), ``mesh`` (the
+triangles coloured by material) and, for a transient run, ``probes`` and ``heat_flows``;
+listed in ``figures/figures.json`` with captions like the grid's figures
+(:mod:`fvheat.output.plots.figures`), so the report embeds them the same way.
 """
 
 from __future__ import annotations
@@ -103,6 +103,36 @@ def temperature_map(solution: Solution, title: str, subtitle: str, marked: Marke
     return fig
 
 
+def flux_map(solution: Solution, title: str, subtitle: str):
+    """|q| (W/m², log scale) per triangle, q = −k∇T (constant in each triangle)."""
+    from matplotlib.colors import LogNorm
+
+    from fvheat.output.plots.heatflux import log_ticks
+    from fvheat.output.triangle_fields import triangle_flux
+
+    q = triangle_flux(solution, solution.temperature)
+    size = np.hypot(q[:, 0], q[:, 1])
+    positive = size[size > 0]
+    lo = float(positive.min()) if positive.size else 1e-3
+    hi = float(size.max()) if positive.size else 1.0
+    lo = max(lo, hi * 1e-4)
+    with style.style():
+        fig, ax = _frame(solution.mesh)
+        shade = ax.tripcolor(
+            _triangulation(solution.mesh),
+            facecolors=np.clip(size, lo, hi),
+            cmap=style.FLUX_CMAP,
+            norm=LogNorm(lo, max(hi, lo * 1.0001)),
+        )
+        handles = _edges(solution.mesh, ax)
+        cbar = fig.colorbar(shade, ax=ax, shrink=0.85, pad=0.02, aspect=30)
+        cbar.set_label("heat-flux density |q| (W/m²)")
+        log_ticks(cbar, lo, max(hi, lo * 1.0001))
+        style.headings(fig, ax, title, subtitle, "")
+        style.boundary_legend(fig, handles)
+    return fig
+
+
 def mesh_map(mesh: Mesh, title: str):
     """The triangles coloured by material (also the preview of ``fvheat check --plot``)."""
     from matplotlib.colors import ListedColormap
@@ -160,6 +190,13 @@ def draw_triangle_figures(
             "Temperature field (°C) of the steady surface-temperature solve that f_Rsi and "
             "θ_si,min come from. " + SCREENING,
         )
+    save(
+        flux_map(solution, title, when),
+        "heat_flux",
+        f"Heat-flux density |q| (W/m², log scale), {when}: q = −λ∇T, constant in each "
+        "triangle (the flux the box method's faces carry).",
+        vector=False,
+    )
     save(
         mesh_map(solution.mesh, title),
         "mesh",
