@@ -1,22 +1,16 @@
 """Which mesh a case gets: ``[mesh] kind`` = "auto", "triangles" or "rectilinear".
 
 "auto" takes the triangle mesh (exact geometry) whenever a region outline, hole or boundary
-segment is not axis-aligned, unless the case uses something the triangle mesh does not
-support yet (``[ground]``; then the rectilinear grid, said in the log); "triangles" with
-such a case is refused in one line naming the key.
+segment is not axis-aligned, the rectilinear grid (fast, exact for orthogonal details)
+otherwise.
 """
 
 from __future__ import annotations
 
-import logging
-
 import numpy as np
 
 from fvheat.case.model import Case
-from fvheat.errors import CaseError
 from fvheat.mesh.mesh import Mesh
-
-log = logging.getLogger(__name__)
 
 
 def sloped(case: Case) -> bool:
@@ -34,35 +28,12 @@ def sloped(case: Case) -> bool:
     return False
 
 
-def unsupported(case: Case) -> tuple[str, str] | None:
-    """(key, reason) of the first thing in ``case`` the triangle mesh does not support yet,
-    or None."""
-    if case.ground is not None:
-        return "ground", "[ground] (the soil block's floor U) runs on the rectilinear mesh only"
-    return None
-
-
 def mesh_kind(case: Case) -> str:
     """The mesh ``case`` gets: "triangles" or "rectilinear" (see the module text)."""
     kind = case.mesh.kind
-    if kind == "rectilinear":
+    if kind != "auto":
         return kind
-    problem = unsupported(case)
-    if kind == "triangles":
-        if problem is not None:
-            key, reason = problem
-            raise CaseError(
-                f'{reason}: set [mesh] kind = "rectilinear" (or "auto")',
-                file=str(case.source),
-                key=key,
-            )
-        return kind
-    if not sloped(case):
-        return "rectilinear"
-    if problem is not None:
-        log.info("sloped geometry on the rectilinear mesh: %s (%s)", problem[1], problem[0])
-        return "rectilinear"
-    return "triangles"
+    return "triangles" if sloped(case) else "rectilinear"
 
 
 def build_mesh(case: Case, refine: float = 1.0) -> Mesh:

@@ -97,21 +97,6 @@ def test_refining_halves_the_sizes(tmp_path):
     assert 3.0 < fine.n_cells / coarse.n_cells < 5.0
 
 
-def test_ground_refused_on_triangles_phase_change_accepted(tmp_path):
-    from pathlib import Path
-
-    from fvheat.case.load import load_case
-
-    demo = Path(__file__).resolve().parents[2] / "cases" / "ground_floor_edge.toml"
-    with pytest.raises(CaseError, match=r"ground.*rectilinear"):
-        build_mesh(load_case(demo, ["mesh.kind=triangles"]))
-    latent = (
-        "density = 30\nspecific_heat = 1000\nlatent_heat = 1000\nphase_change = [-1.0, 0.0]\n"
-        "frozen = { conductivity = 0.04 }"
-    )
-    assert mesh_kind(_case(tmp_path, "auto", latent)) == "triangles"
-
-
 def test_two_phase_change_materials_at_one_node_refused(tmp_path):
     """The wool (−1…0 °C) inside the timber (1…2 °C): nodes on their interface would need
     two phase-change ranges."""
