@@ -195,3 +195,21 @@ def test_triangle_heat_flux_of_a_wall(tmp_path):
     np.testing.assert_allclose(q[:, 1], 0.0, atol=1e-9 * q_exact)
     qn = node_flux(sol, sol.temperature)  # the cells.csv values: the same at every node
     np.testing.assert_allclose(qn, np.broadcast_to([-q_exact, 0.0], qn.shape), atol=1e-9 * q_exact)
+
+
+def test_imposed_flux_and_fixed_temperature_on_nodes(tmp_path):
+    """A 0.2 m slab (λ = 1), 0 °C fixed on x = 0, 10 W/m² imposed into x = 0.2: Fourier's
+    law in 1-D gives θ(0.2) = q·L/λ = 2 °C. The imposed flow is exact (10 W/m² × 0.5 m);
+    the fixed face holds its node within the penalty's 1e-4 of a cell's drop (2e-5 K)."""
+    text = WALL.replace("[materials.b]\nconductivity = 0.1\n", "")
+    text = text.replace('[[regions]]\nmaterial = "b"\nbox = [0.1, 0.0, 0.2, 0.5]\n', "")
+    text = text.replace("air_temperature = 20.0\nresistance = 0.13", "heat_flux = 10.0").replace(
+        "air_temperature = 0.0\nresistance = 0.04", "temperature = 0.0"
+    )
+    sol = simulate(load(tmp_path, text))
+    inside, outside = sol.surfaces["inside"], sol.surfaces["outside"]
+    assert inside.heat_flow == pytest.approx(10.0 * 0.5, rel=1e-12)
+    assert outside.heat_flow == pytest.approx(-5.0, rel=1e-9)
+    assert inside.min_temperature == pytest.approx(2.0, abs=1e-4)
+    assert inside.max_temperature == pytest.approx(2.0, abs=1e-4)
+    assert outside.min_temperature == 0.0  # the fixed value itself
