@@ -19,7 +19,6 @@ from __future__ import annotations
 import logging
 
 import numpy as np
-import shapely
 from scipy.spatial import cKDTree
 
 from fvheat.case.model import Case
@@ -176,28 +175,19 @@ def _distance_to_segment(p: np.ndarray, a: np.ndarray, b: np.ndarray) -> np.ndar
 
 def constraints(case: Case) -> tuple[np.ndarray, np.ndarray, float]:
     """The planar straight-line graph to triangulate: vertices (n, 2) m, segments (m, 2)
-    vertex indices, noded (crossing and overlapping lines split where they meet, duplicates
-    merged), and the tolerance (m) within which two points are one. Region outlines and
-    holes, boundary segments, flanking cuts and probe points."""
-    lines = [shapely.LinearRing(r) for r in _rings(case)]
-    lines += [shapely.LineString(e) for b in case.boundaries for e in b.edges]
+    vertex indices, cleaned by :func:`fvheat.mesh.pslg.clean_graph`, and the tolerance (m)
+    within which two points are one. Region outlines and holes, boundary segments, flanking
+    cuts and probe points."""
+    from fvheat.mesh.pslg import clean_graph
+
+    lines = [np.vstack([r, r[:1]]) for r in _rings(case)]
+    lines += [np.asarray(e, float) for b in case.boundaries for e in b.edges]
     if case.junction is not None:
-        lines += [shapely.LineString(f.cut) for f in case.junction.flanking if f.cut is not None]
-    noded = shapely.node(shapely.MultiLineString([shapely.LineString(ln.coords) for ln in lines]))
-    coords = [np.asarray(g.coords) for g in shapely.get_parts(noded)]
-    starts = np.concatenate([c[:-1] for c in coords])
-    ends = np.concatenate([c[1:] for c in coords])
+        lines += [np.asarray(f.cut, float) for f in case.junction.flanking if f.cut is not None]
     probes = np.array([p.at for p in case.probes], float).reshape(-1, 2)
     tol = 1e-9 * _scale(case)
-    allpts = np.concatenate([starts, ends, probes])
-    key = np.rint(allpts / tol).astype(np.int64)
-    _, first, inverse = np.unique(key, axis=0, return_index=True, return_inverse=True)
-    inverse = inverse.ravel()
-    n = len(starts)
-    seg = np.column_stack([inverse[:n], inverse[n : 2 * n]])
-    seg = seg[seg[:, 0] != seg[:, 1]]
-    seg = np.unique(np.sort(seg, axis=1), axis=0)
-    return allpts[first], seg, tol
+    vertices, segments = clean_graph(lines, probes, tol)
+    return vertices, segments, tol
 
 
 def paint_triangles(case: Case, v: np.ndarray, t: np.ndarray) -> np.ndarray:
