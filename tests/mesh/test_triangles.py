@@ -213,3 +213,40 @@ def test_imposed_flux_and_fixed_temperature_on_nodes(tmp_path):
     assert inside.min_temperature == pytest.approx(2.0, abs=1e-4)
     assert inside.max_temperature == pytest.approx(2.0, abs=1e-4)
     assert outside.min_temperature == 0.0  # the fixed value itself
+
+
+def test_near_degenerate_input_is_cleaned(tmp_path):
+    """Inputs `triangle` cannot take raw (it may crash on them): a probe and a cut ending a
+    few ulp off an outline, an outline vertex 1e-15 m off another, a boundary segment
+    running along an outline and past its end. Source: identity (the mesh is valid: every
+    triangle has positive area, the drawn areas are kept to 1e-12)."""
+    import math
+
+    t = math.tan(math.radians(35.0))
+    y = 0.3 - t * 0.1  # on no line exactly: the wool's slope is drawn through other points
+    text = SLOPED.format(kind="triangles", latent="").replace(
+        "[0.05, 0.225]]", "[0.05000000000000001, 0.225]]"
+    )
+    text += f"""
+[[probes]]
+name = "on_the_roof_edge"
+at = [0.2, {0.3 - 0.5 * 0.2!r}]
+[[probes]]
+name = "odd"
+at = [0.1, {y!r}]
+"""
+    text = text.replace(
+        "edges = [[[0.0, 0.0], [0.4, 0.0]]]",
+        "edges = [[[0.0, 0.0], [0.4, 0.0]], [[0.39, 0.0], [0.5, 0.0]]]",
+    )
+    case = load(tmp_path, text)
+    mesh = build_mesh(case)
+    assert mesh.piece_volume is not None and mesh.triangles is not None
+    v, tri = mesh.centres, mesh.triangles
+    e1, e2 = v[tri[:, 1]] - v[tri[:, 0]], v[tri[:, 2]] - v[tri[:, 0]]
+    area = 0.5 * (e1[:, 0] * e2[:, 1] - e1[:, 1] * e2[:, 0])
+    assert np.all(area > 0.0)
+    total = shapely.Polygon(case.regions[0].vertices).area
+    assert mesh.piece_volume.sum() == pytest.approx(total, rel=1e-12)
+    sol = simulate(case, mesh=mesh)
+    assert sol.balance.relative < 1e-10
