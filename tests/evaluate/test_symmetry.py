@@ -120,7 +120,8 @@ def test_mirrored_junction_same_results(tmp_path):
 def test_mirrored_junction_on_triangles(tmp_path):
     """On the triangle mesh (the default for the chamfered upstand) the mirrored junction
     is meshed anew: ψ, L2D and f_Rsi agree within the discretisation error (0.1 %, the
-    grid check's scale), θ_si,min within 0.01 K, at the mirrored place."""
+    grid check's scale), θ_si,min within 0.01 K, at the mirrored place within two
+    min_cell (the two meshes have their nodes in different places)."""
     a = study(tmp_path, junction_toml(False), name="a.toml")
     b = study(tmp_path, junction_toml(True), name="b.toml")
     assert a.solution.mesh.kind == b.solution.mesh.kind == "triangles"
@@ -130,7 +131,7 @@ def test_mirrored_junction_on_triangles(tmp_path):
     assert jb.theta_si_min == pytest.approx(ja.theta_si_min, abs=0.01)
     xa, ya = ja.theta_si_min_at
     xb, yb = jb.theta_si_min_at
-    assert (xb, yb) == pytest.approx((-xa, ya), abs=1e-9)
+    assert (xb, yb) == pytest.approx((-xa, ya), abs=2 * 0.004)
 
 
 def test_mirrored_45_degree_chamfer_paints_the_same(tmp_path):
