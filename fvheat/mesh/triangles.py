@@ -399,11 +399,11 @@ def find_triangles(mesh: Mesh, points: np.ndarray) -> tuple[np.ndarray, np.ndarr
         hit = b.min(axis=1) >= -tol
         found[todo[hit]] = cand[hit]
         lam[todo[hit]] = b[hit]
-    for i in np.flatnonzero(found < 0):  # far from any centroid: every triangle
-        b = _barycentric_many(v[t], np.repeat(pts[i : i + 1], len(t), axis=0))
+    for miss in np.flatnonzero(found < 0):  # far from any centroid: every triangle
+        b = _barycentric_many(v[t], np.repeat(pts[miss : miss + 1], len(t), axis=0))
         best = int(np.argmax(b.min(axis=1)))
         if b[best].min() >= -tol:
-            found[i], lam[i] = best, b[best]
+            found[miss], lam[miss] = best, b[best]
     return found, np.clip(lam, 0.0, 1.0)
 
 
