@@ -74,6 +74,11 @@ def test_round_trip_gives_the_same_results(tmp_path):
             ours.surfaces[name].heat_flow, rel=1e-9
         )
     assert sol.probes["in_wool"] == pytest.approx(ours.probes["in_wool"], abs=1e-9)
+    # the mesh file is one of the case's inputs (sweeps record its SHA-256)
+    from fvheat.case.inputs import case_inputs
+
+    assert (tmp_path / "section.msh").absolute() in case_inputs(case)
+    assert case.mesh.file_sha256 is not None and len(case.mesh.file_sha256) == 64
     # the grid check splits every triangle of a file mesh into four
     assert build_mesh(case, refine=2.0).triangles.shape[0] == 4 * mesh.triangles.shape[0]
 
