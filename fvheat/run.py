@@ -10,7 +10,7 @@ from typing import Any
 from fvheat.case.load import load_case
 from fvheat.checks import check_model
 from fvheat.errors import CaseError
-from fvheat.mesh.rectilinear import build_mesh
+from fvheat.mesh.select import build_mesh
 from fvheat.output.fields import FIELD_CHOICES
 from fvheat.output.lock import folder_lock
 from fvheat.output.paths import check_output_folder

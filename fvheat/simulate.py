@@ -21,7 +21,7 @@ from fvheat.evaluate.periodic import PeriodicResponse
 from fvheat.evaluate.probes import probe_operator
 from fvheat.evaluate.surfaces import SurfaceResult, surface_results
 from fvheat.mesh.mesh import Mesh
-from fvheat.mesh.rectilinear import build_mesh
+from fvheat.mesh.select import build_mesh
 from fvheat.solve.linear import LinearSolver, Method, SolverChoice
 from fvheat.solve.phase_change import evolve_enthalpy, solve_steady_phase
 from fvheat.solve.steady import solve_steady, solve_steady_kept
@@ -86,7 +86,9 @@ def simulate(
     mesh = mesh if mesh is not None else build_mesh(case)
     system = System.build(case, mesh)
     model = EnthalpyModel.build(case, mesh)
-    probe_op = probe_operator(mesh, np.array([p.at for p in case.probes]).reshape(-1, 2))
+    probe_op = probe_operator(
+        mesh, np.array([p.at for p in case.probes]).reshape(-1, 2), system.k_material
+    )
     names = [b.name for b in case.boundaries]
 
     if case.time is None:

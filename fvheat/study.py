@@ -12,7 +12,7 @@ from fvheat.checks import check_model
 from fvheat.evaluate.coupling import CouplingResult, coupling_coefficients
 from fvheat.evaluate.junction import JunctionResult, evaluate_junction
 from fvheat.mesh.mesh import Mesh
-from fvheat.mesh.rectilinear import build_mesh
+from fvheat.mesh.select import build_mesh
 from fvheat.sensitivity.result import Sensitivities
 from fvheat.simulate import Progress, Solution, simulate
 

@@ -8,12 +8,27 @@ import scipy.sparse as sp
 from fvheat.mesh.mesh import Mesh
 
 
-def face_conductance(mesh: Mesh, k: np.ndarray) -> np.ndarray:
+def face_conductance(
+    mesh: Mesh,
+    k: np.ndarray,
+    k_material: np.ndarray | None = None,
+    k_face: np.ndarray | None = None,
+) -> np.ndarray:
     """Conductance of every interior face, W/(m·K) per metre depth.
 
     Two half-cells in series (harmonic mean): G = A / (d_o/k_o + d_n/k_n), with ``k`` the
-    cell conductivities W/(m·K).
+    cell conductivities W/(m·K). A mesh whose faces carry their own material (the box
+    method on triangles) gives G = face_weight·k_material[face_material] instead, with
+    ``k_material`` the conductivity of each material (W/(m·K)), or ``k_face`` the
+    conductivity of each face's own piece (W/(m·K), e.g. a freezing triangle's).
     """
+    if mesh.face_weight is not None and k_face is not None:
+        return mesh.face_weight * k_face
+    if mesh.face_weight is not None:
+        if k_material is None:
+            raise ValueError("faces with their own material need the material conductivities")
+        assert mesh.face_material is not None
+        return mesh.face_weight * k_material[mesh.face_material]
     return mesh.face_area / (mesh.d_owner / k[mesh.owner] + mesh.d_neighbour / k[mesh.neighbour])
 
 

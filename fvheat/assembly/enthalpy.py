@@ -11,6 +11,9 @@ the unfrozen density), the enthalpy per unit volume relative to the solidus is
 piecewise linear and strictly increasing, so T(h) is explicit. The liquid (unfrozen)
 fraction is linear across the range, and so is the conductivity between k_f and k_u.
 Other materials have h(T) = C·T. Cell enthalpies below are per metre depth (J/m): h·V.
+A cell made of pieces (a control volume of the triangle mesh straddling an interface) sums
+its pieces: with one phase-change material among them, the others' sensible capacity adds
+to both phases' capacities, so h(T) keeps the form above (shifted by a constant).
 """
 
 from __future__ import annotations
@@ -21,6 +24,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from fvheat.case.model import Case
+from fvheat.errors import CaseError
 from fvheat.mesh.mesh import Mesh
 
 
@@ -55,13 +59,40 @@ class EnthalpyModel:
             k_f = (fz.conductivity if fz and fz.conductivity else None) or m.conductivity
             lat = (m.density or 0.0) * m.latent_heat
             rows.append((1.0, rho_f * c_f, cu, lat, *m.phase_change, k_f, m.conductivity))
-        table = np.array(rows, dtype=float)[mesh.material]
-        v = mesh.volumes
+        rows_arr = np.array(rows, dtype=float)
+        cell, material, volume = mesh.pieces()
+        n = mesh.n_cells
+        # a cell's phase-change material: the one of its phase-change pieces (a cell of a
+        # vertex-centred mesh may straddle an interface; then the other pieces add their
+        # sensible capacity to both phases, which keeps h(T) of the same form)
+        is_pcm = rows_arr[material, 0] > 0
+        lo = np.full(n, len(rows), dtype=np.int64)
+        hi = np.full(n, -1, dtype=np.int64)
+        np.minimum.at(lo, cell[is_pcm], material[is_pcm])
+        np.maximum.at(hi, cell[is_pcm], material[is_pcm])
+        pcm = hi >= 0
+        if np.any(pcm & (lo != hi)):
+            c = int(np.flatnonzero(pcm & (lo != hi))[0])
+            names = f"{mesh.material_names[lo[c]]!r} and {mesh.material_names[hi[c]]!r}"
+            raise CaseError(
+                f"phase-change materials {names} meet at the mesh node at "
+                f"({mesh.centres[c, 0]:.4g}, {mesh.centres[c, 1]:.4g}) m: a node takes one "
+                'phase-change range; separate them or set [mesh] kind = "rectilinear"',
+                file=str(case.source),
+                key=f"materials.{mesh.material_names[hi[c]]}.phase_change",
+            )
+        table = rows_arr[np.where(pcm, lo, mesh.material)]
+
+        def per_cell(column: int) -> np.ndarray:
+            """Σ over each cell's pieces of the column's value per m² times the area."""
+            weights = rows_arr[material, column] * volume
+            return np.bincount(cell, weights=weights, minlength=n)
+
         return cls(
-            pcm=table[:, 0] > 0,
-            c_f=table[:, 1] * v,
-            c_u=table[:, 2] * v,
-            latent=table[:, 3] * v,
+            pcm=pcm,
+            c_f=per_cell(1),
+            c_u=per_cell(2),
+            latent=per_cell(3),
             t_s=table[:, 4],
             t_l=table[:, 5],
             k_f=table[:, 6],

@@ -14,7 +14,7 @@ import scipy.sparse as sp
 
 from fvheat.assembly.boundary import SurfaceTerms
 from fvheat.assembly.conduction import conduction_matrix, face_conductance
-from fvheat.assembly.properties import conductivity, heat_capacity
+from fvheat.assembly.properties import conductivity, heat_capacity, material_conductivity
 from fvheat.case.model import Boundary, Case
 from fvheat.mesh.mesh import Mesh
 
@@ -29,18 +29,48 @@ class System:
     matrix: sp.csr_matrix  # M, W/(m·K)
     surface: SurfaceTerms
     capacity: np.ndarray  # J/(m·K) per cell
+    k_material: np.ndarray | None = None  # W/(m·K) per material (faces with their own material)
+    phase_material: np.ndarray | None = None  # bool per material: conductivity follows the phase
 
     @classmethod
     def build(cls, case: Case, mesh: Mesh) -> System:
         """Assemble conduction, surface terms and capacities, vectorised over faces."""
         k = conductivity(case, mesh)
-        g, m, surface = _operators(mesh, case.boundaries, k)
-        return cls(mesh, k, g, m, surface, heat_capacity(case, mesh))
+        km = material_conductivity(case, mesh)
+        g, m, surface = _operators(mesh, case.boundaries, k, km)
+        phase = np.array(
+            [
+                case.materials[n].latent_heat is not None
+                and case.materials[n].phase_change is not None
+                for n in mesh.material_names
+            ],
+            dtype=bool,
+        )
+        return cls(mesh, k, g, m, surface, heat_capacity(case, mesh), km, phase)
 
     def with_conductivity(self, k: np.ndarray) -> System:
         """The same system with cell conductivities ``k`` (W/(m·K)), e.g. frozen ground."""
-        g, m, surface = _operators(self.mesh, self.surface.boundaries, k)
+        km = self.k_material
+        k_face = None
+        if self.mesh.face_weight is not None:
+            k_face = self.triangle_conductivity(k)
+        g, m, surface = _operators(self.mesh, self.surface.boundaries, k, km, k_face)
         return replace(self, k=k, g=g, matrix=m, surface=surface)
+
+    def triangle_conductivity(self, k: np.ndarray) -> np.ndarray:
+        """Per face piece of a triangle mesh, W/(m·K): the conductivity of its triangle, for
+        node conductivities ``k`` (W/(m·K)). A phase-change triangle takes the mean of its
+        vertices' values (the conductivity is linear in the liquid fraction, so this is its
+        material at the mean liquid fraction); other triangles keep their material's."""
+        mesh = self.mesh
+        assert mesh.triangles is not None and mesh.triangle_material is not None
+        assert self.k_material is not None and self.phase_material is not None
+        tm = mesh.triangle_material
+        k_tri = np.where(
+            self.phase_material[tm], k[mesh.triangles].mean(axis=1), self.k_material[tm]
+        )
+        # box_mesh numbers the face pieces triangle by triangle: face 3i + e is triangle i's
+        return np.repeat(k_tri, 3)
 
     @property
     def n(self) -> int:
@@ -52,7 +82,7 @@ class System:
         """Σ face length × conductance from cell centre to face over the exchanging faces,
         W/(m·K): the scale of the heat flows a temperature difference drives."""
         s = self.surface
-        return float(np.sum(s.area * s.gc))
+        return float(np.sum(s.area * s.conductance_scale))
 
     @property
     def nonlinear(self) -> bool:
@@ -76,10 +106,16 @@ class System:
 
 
 def _operators(
-    mesh: Mesh, boundaries: tuple[Boundary, ...], k: np.ndarray
+    mesh: Mesh,
+    boundaries: tuple[Boundary, ...],
+    k: np.ndarray,
+    km: np.ndarray | None = None,
+    k_face: np.ndarray | None = None,
 ) -> tuple[np.ndarray, sp.csr_matrix, SurfaceTerms]:
-    """Face conductances, the matrix M and the surface terms for conductivities ``k``."""
-    g = face_conductance(mesh, k)
+    """Face conductances, the matrix M and the surface terms for cell conductivities ``k``
+    (and, where faces carry their own material, the material conductivities ``km`` or the
+    faces' own conductivities ``k_face``)."""
+    g = face_conductance(mesh, k, km, k_face)
     surface = SurfaceTerms.build(mesh, boundaries, k)
     m = conduction_matrix(mesh, g, surface.diagonal(mesh.n_cells))
     return g, m, surface

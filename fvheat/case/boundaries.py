@@ -49,6 +49,18 @@ def parse_boundaries(value: Any, ctx: Context) -> tuple[Boundary, ...]:
 def _boundary(tbl: dict, path: str, seen: dict[str, str], ctx: Context) -> Boundary:
     table(tbl, path, allowed=_BOUNDARY_KEYS, required=("name",))
     bname = name(tbl["name"], join(path, "name"), seen)
+    from fvheat.mesh.meshfile import MESH_FILE
+
+    mesh_file = ctx.cache.get(MESH_FILE)
+    if "edges" not in tbl and "layer" not in tbl and mesh_file is not None:
+        if bname not in mesh_file.lines:
+            known = ", ".join(sorted(mesh_file.lines)) or "none"
+            raise Invalid(
+                join(path, "name"),
+                f"the mesh file has no 1-D group {bname!r} (its 1-D groups: {known}); "
+                "or give edges",
+            )
+        tbl = {**tbl, "edges": [list(map(list, e)) for e in mesh_file.group_edges(bname)]}
     if "edges" not in tbl and "layer" not in tbl:
         raise Invalid(
             join(path, "edges"),

@@ -31,8 +31,13 @@ def _drawing(case: Case) -> list[Path]:
     return [g.drawing] if g is not None and g.drawing is not None else []
 
 
+def _mesh_file(case: Case) -> list[Path]:
+    """The mesh of ``[mesh] file``."""
+    return [case.mesh.file] if case.mesh.file is not None else []
+
+
 #: one function per kind of file a case reads, each giving the files of its kind
-FINDERS: tuple[Callable[[Case], Iterable[Path]], ...] = (_series_files, _drawing)
+FINDERS: tuple[Callable[[Case], Iterable[Path]], ...] = (_series_files, _drawing, _mesh_file)
 
 
 def case_inputs(case: Case) -> list[Path]:

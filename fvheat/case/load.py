@@ -17,6 +17,8 @@ from collections.abc import Callable, Sequence
 from pathlib import Path
 from typing import Any
 
+import numpy as np
+
 from fvheat.case.boundaries import parse_boundaries
 from fvheat.case.condensation import parse_condensation
 from fvheat.case.fields import (
@@ -25,6 +27,7 @@ from fvheat.case.fields import (
     check_keys,
     describe,
     number,
+    string,
     table,
 )
 from fvheat.case.geometry import parse_geometry
@@ -148,7 +151,11 @@ def _title(value: Any, ctx: Context) -> str:
 def _mesh(value: Any, ctx: Context) -> MeshSettings:
     if value is None:
         raise Invalid("mesh", "required table [mesh] is missing (at least max_cell = ... in m)")
-    tbl = table(value, "mesh", allowed=("max_cell", "min_cell", "growth", "corner_cell"))
+    tbl = table(
+        value, "mesh", allowed=("max_cell", "min_cell", "growth", "corner_cell", "kind", "file")
+    )
+    if "file" in tbl:
+        return _mesh_file(tbl, ctx)
     max_cell = number(tbl, "max_cell", "mesh", gt=0)
     min_cell = number(tbl, "min_cell", "mesh", required=False, default=max_cell / 5, gt=0)
     if min_cell > max_cell:
@@ -163,7 +170,50 @@ def _mesh(value: Any, ctx: Context) -> MeshSettings:
             f"corner_cell = {corner:g} m must not exceed min_cell = {min_cell:g} m "
             "(give corner_cell = min_cell for no extra refinement at corners)",
         )
-    return MeshSettings(max_cell=max_cell, min_cell=min_cell, growth=growth, corner_cell=corner)
+    kind = tbl.get("kind", "auto")
+    if kind not in MESH_KINDS:
+        raise Invalid(
+            "mesh.kind", f"expected one of {', '.join(map(repr, MESH_KINDS))}, got {describe(kind)}"
+        )
+    return MeshSettings(
+        max_cell=max_cell, min_cell=min_cell, growth=growth, corner_cell=corner, kind=kind
+    )
+
+
+def _mesh_file(tbl: dict, ctx: Context) -> MeshSettings:
+    """``[mesh] file``: read the mesh (kept for the regions and boundaries that use its
+    groups); the sizes do not apply."""
+    from fvheat.mesh.meshfile import MESH_FILE, MeshFileError, read_mesh_file
+
+    name = string(tbl, "file", "mesh")
+    assert name is not None
+    extra = [k for k in ("max_cell", "min_cell", "growth", "corner_cell") if k in tbl]
+    if extra:
+        raise Invalid(f"mesh.{extra[0]}", "not used with mesh.file (the file gives the mesh)")
+    if tbl.get("kind", "triangles") != "triangles":
+        raise Invalid(
+            "mesh.kind", 'a mesh file is solved as triangles: remove kind or give "triangles"'
+        )
+    path = ctx.folder / name
+    try:
+        data = read_mesh_file(path)
+    except MeshFileError as err:
+        where = f" (looked for {path})" if not path.exists() else ""
+        raise Invalid("mesh.file", f"{name}: {err}{where}") from None
+    ctx.cache[MESH_FILE] = data
+    edges = data.points[data.triangles] - data.points[data.triangles[:, [1, 2, 0]]]
+    length = np.hypot(edges[..., 0], edges[..., 1])
+    return MeshSettings(
+        max_cell=float(length.max()),
+        min_cell=float(length.min()),
+        kind="triangles",
+        file=path,
+        file_sha256=data.sha256,
+    )
+
+
+#: the values of ``[mesh] kind``
+MESH_KINDS = ("auto", "triangles", "rectilinear")
 
 
 register_section("parameters", parse_parameters)

@@ -27,6 +27,12 @@ class MeshSettings:
     min_cell: float
     growth: float = 1.3
     corner_cell: float | None = None
+    #: "auto" (default: triangles when a region outline or boundary edge is sloped),
+    #: "triangles" or "rectilinear"
+    kind: str = "auto"
+    #: a mesh file (any format meshio reads; ``[mesh] file``), resolved against the case file
+    file: Path | None = None
+    file_sha256: str | None = None
 
     @property
     def corner_size(self) -> float:

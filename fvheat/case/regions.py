@@ -34,6 +34,16 @@ from fvheat.properties.library import UnknownMaterialError, lookup
 
 def parse_regions(value: Any, ctx: Context) -> tuple[Region, ...]:
     """Validate the ``[[regions]]`` entries; at least one is required."""
+    from fvheat.mesh.meshfile import MESH_FILE
+
+    if MESH_FILE in ctx.cache:
+        if value is not None:
+            raise Invalid(
+                "regions",
+                "not used with mesh.file: the file's 2-D groups, named after materials, are "
+                "the regions (remove the [[regions]] entries)",
+            )
+        return _file_regions(ctx)
     if value is None:
         raise Invalid("regions", "required: at least one [[regions]] entry")
     entries = tables(value, "regions")
@@ -50,6 +60,27 @@ def parse_regions(value: Any, ctx: Context) -> tuple[Region, ...]:
         for i, tbl in enumerate(entries)
         for region in _regions(tbl, join("regions", i), materials, ctx, seen)
     )
+
+
+def _file_regions(ctx: Context) -> tuple[Region, ...]:
+    """The regions of a mesh file: one per separate part of each 2-D group, the group
+    named after a material of the case or of the library."""
+    from fvheat.mesh.meshfile import MESH_FILE, group_outlines
+
+    materials: dict[str, Material] = ctx.parsed["materials"]
+    out = []
+    for k, (group, ring, holes) in enumerate(group_outlines(ctx.cache[MESH_FILE])):
+        if group not in materials:
+            try:
+                materials[group] = library_material(lookup(group))
+            except UnknownMaterialError:
+                raise Invalid(
+                    "mesh.file",
+                    f"2-D group {group!r} names no material: define [materials.{group}] or "
+                    "name the group after a library material (fvheat materials lists them)",
+                ) from None
+        out.append(Region(material=group, vertices=ring, name=group, entry=k, holes=holes))
+    return tuple(out)
 
 
 def _regions(

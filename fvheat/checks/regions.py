@@ -24,7 +24,10 @@ def region_area_warnings(case: Case, mesh: Mesh) -> list[str]:
     if mesh.region is None:
         return []
     polys = [_polygon(r) for r in case.regions]
-    painted = np.bincount(mesh.region, weights=mesh.volumes, minlength=len(polys))
+    if mesh.piece_region is not None and mesh.piece_volume is not None:  # exact, per piece
+        painted = np.bincount(mesh.piece_region, weights=mesh.piece_volume, minlength=len(polys))
+    else:
+        painted = np.bincount(mesh.region, weights=mesh.volumes, minlength=len(polys))
     entries: dict[int, list[int]] = {}
     for k, r in enumerate(case.regions):
         entries.setdefault(r.entry, []).append(k)

@@ -8,7 +8,7 @@ from fvheat.case.load import load_case
 from fvheat.checks import check_model
 from fvheat.cli.console import print_warnings
 from fvheat.errors import CaseError
-from fvheat.mesh.rectilinear import build_mesh
+from fvheat.mesh.select import build_mesh
 
 
 def check_case(
@@ -43,5 +43,5 @@ def check_case(
         print(f"preview: {write_preview(case, mesh, plot, show_mesh=show_mesh)}")
 
 
-def _fmt(v: float | int) -> str:
+def _fmt(v: float | int | str) -> str:
     return f"{v:.4g}" if isinstance(v, float) else str(v)

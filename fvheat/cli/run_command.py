@@ -147,7 +147,8 @@ def _print_results(study: Study, out: Path, elapsed: float) -> None:
         print_sensitivities(con, study.sensitivities)
     bal = solution.balance
     con.print(
-        f"cells {solution.mesh.n_cells}; energy balance: {bal.describe()}; "
+        f"mesh {solution.mesh.kind}, cells {solution.mesh.n_cells}; "
+        f"energy balance: {bal.describe()}; "
         f"solved in {elapsed:.2f} s; results in {out}/"
     )
     con.print(f"[dim]Caution: {CAUTION}[/dim]")

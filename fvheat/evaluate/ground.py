@@ -101,13 +101,18 @@ def slab_on_ground_u(
 
 def ground_floor(case: Case, mesh: Mesh) -> GroundFloor:
     """The ISO 13370 floor U of the case's ``[ground]``, R_f read from the floor layers at
-    the symmetry plane unless given; :class:`CaseError` when the floor does not reach it."""
+    the symmetry plane (on the rectilinear grid, the case's own when ``mesh`` has none)
+    unless given; :class:`CaseError` when the floor does not reach it."""
     g = case.ground
     assert g is not None
-    grid = mesh.grid
     file = str(case.source)
-    if grid is None:
-        raise CaseError("ground floors need a rectilinear grid", file=file, key="ground")
+    if mesh.grid is None:
+        # the floor layers are the case's geometry: read them on the case's rectilinear grid
+        from fvheat.mesh.rectilinear import build_mesh
+
+        mesh = build_mesh(case)
+    grid = mesh.grid
+    assert grid is not None
     tol = 1e-9 * max(float(np.ptp(grid.x)), 1.0)
     hit = np.flatnonzero(np.abs(grid.x - g.symmetry_x) <= tol)
     column = -1 if hit.size == 0 else int(hit[0]) - (1 if g.interior > 0 else 0)

@@ -45,23 +45,35 @@ class CutError(ValueError):
 
 
 def layer_cut(case: Case, mesh: Mesh, cut: Segment) -> LayerCut:
-    """Read the layers crossed by the axis-aligned segment ``cut`` (m).
+    """Read the layers crossed by the segment ``cut`` (m): an axis-aligned one on the
+    rectilinear grid (the case's own grid when ``mesh`` has none, e.g. on the triangle
+    mesh), a sloped one on the case's geometry (:mod:`fvheat.evaluate.sloped_cut`: it must
+    cross the element perpendicular to its surfaces).
 
     The cut must lie inside one row (or column) of cells, or on a grid line with the same
     layers and end conditions on both sides (a line the mesher put inside a layer), not on
     a material interface; its ends must be on boundary faces whose boundaries are surface
     resistances (or convection without radiation) or fixed temperatures (resistance 0).
     """
-    g = mesh.grid
-    if g is None:
-        raise CutError("layer cuts need a rectilinear grid")
     (x0, y0), (x1, y1) = cut
+    if x0 != x1 and y0 != y1:  # sloped: read on the geometry itself
+        from fvheat.evaluate.sloped_cut import sloped_layers
+
+        layers, r_start, r_end = sloped_layers(case, cut)
+        return LayerCut(tuple(layers), r_start, r_end)
+    if mesh.grid is None:
+        # the layers are the case's geometry: read them on the case's rectilinear grid
+        from fvheat.mesh.rectilinear import build_mesh
+
+        mesh = build_mesh(case)
+    g = mesh.grid
+    assert g is not None
     if y0 == y1 and x0 != x1:
         along, lines, other, pos, (lo, hi) = 0, g.x, g.y, y0, sorted((x0, x1))
     elif x0 == x1 and y0 != y1:
         along, lines, other, pos, (lo, hi) = 1, g.y, g.x, x0, sorted((y0, y1))
     else:
-        raise CutError("a cut must be a horizontal or vertical segment of non-zero length")
+        raise CutError("a cut must have a non-zero length")
     tol = 1e-9 * max(float(np.ptp(g.x)), float(np.ptp(g.y)), 1.0)
     on_line = np.flatnonzero(np.abs(other - pos) <= tol)
     if on_line.size:

@@ -96,6 +96,17 @@ class SurfacePointMap:
             others.append(other)
             uses.append(ok)
             weights.append(half / (half + half[other]))
+        # where the unknown sits on the surface (vertex-centred meshes) the surface field is
+        # linear between the nodes: its extremes are at the nodes themselves
+        node = s.at_node
+        if node.any():
+            vertex = mesh.centres[s.cell]
+            centre = np.where(node[:, None], vertex, centre)
+            ends = (
+                np.where(node[:, None], vertex, ends[0]),
+                np.where(node[:, None], vertex, ends[1]),
+            )
+            uses = [u & ~node for u in uses]
         return cls(
             at=np.concatenate([centre, *ends]),
             bid=np.tile(s.bid, 3),

@@ -51,6 +51,18 @@ class Mesh:
     normal on a stepped sloped edge, so the stepped faces sum to the true edge length).
     ``region`` (n,), when the generator knows it: index of the case region that gave
     each cell its material.
+
+    Vertex-centred meshes (the box method on triangles, ``kind = "triangles"``) carry more:
+    a control volume straddles several materials, so its conductances and capacities are
+    sums over pieces, each with its own material. ``face_material``/``face_weight``
+    (per interior face): the face's conductance is G = face_weight·k[face_material]
+    (face_weight dimensionless, the cotangent weight ½·cot θ of the triangle the face
+    piece lies in) instead of the harmonic mean of the two cells; ``piece_cell``,
+    ``piece_material``, ``piece_volume`` (m²), ``piece_region``: the parts of the control
+    volumes (one per cell and triangle); ``triangles`` (t, 3) cell (= vertex) indices and
+    ``triangle_material``/``triangle_region`` per triangle. Boundary faces of such a mesh
+    have ``b_dist`` = 0: the unknown sits on the surface, the surface temperature is the
+    cell's own.
     """
 
     centres: np.ndarray
@@ -74,6 +86,16 @@ class Mesh:
     boundary_names: tuple[str, ...]
     grid: RectGrid | None = field(default=None, repr=False)
     region: np.ndarray | None = field(default=None, repr=False)
+    kind: str = "rectilinear"
+    face_material: np.ndarray | None = field(default=None, repr=False)
+    face_weight: np.ndarray | None = field(default=None, repr=False)
+    piece_cell: np.ndarray | None = field(default=None, repr=False)
+    piece_material: np.ndarray | None = field(default=None, repr=False)
+    piece_volume: np.ndarray | None = field(default=None, repr=False)
+    piece_region: np.ndarray | None = field(default=None, repr=False)
+    triangles: np.ndarray | None = field(default=None, repr=False)
+    triangle_material: np.ndarray | None = field(default=None, repr=False)
+    triangle_region: np.ndarray | None = field(default=None, repr=False)
 
     @property
     def n_cells(self) -> int:
@@ -94,9 +116,23 @@ class Mesh:
         """Indices of the boundary faces belonging to boundary ``name``."""
         return np.flatnonzero(self.b_boundary == self.boundary_names.index(name))
 
-    def stats(self) -> dict[str, float | int]:
+    @property
+    def vertex_centred(self) -> bool:
+        """Whether the unknowns sit on the vertices of a triangulation (box method)."""
+        return self.triangles is not None
+
+    def pieces(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """(cell, material, volume m²) of every part of a cell with one material: the pieces
+        of a vertex-centred mesh, else each cell whole."""
+        if self.piece_cell is not None:
+            assert self.piece_material is not None and self.piece_volume is not None
+            return self.piece_cell, self.piece_material, self.piece_volume
+        return np.arange(self.n_cells), self.material, self.volumes
+
+    def stats(self) -> dict[str, float | int | str]:
         """Mesh statistics for reports: counts and cell-size range (m)."""
-        out: dict[str, float | int] = {
+        out: dict[str, float | int | str] = {
+            "kind": self.kind,
             "cells": self.n_cells,
             "interior_faces": self.n_faces,
             "boundary_faces": self.n_boundary_faces,
@@ -111,6 +147,15 @@ class Mesh:
                 smallest_cell=float(sizes.min()),
                 largest_cell=float(sizes.max()),
                 max_neighbour_ratio=float(max(_max_ratio(dx), _max_ratio(dy))),
+            )
+        if self.triangles is not None:
+            edges = self.centres[self.triangles] - self.centres[np.roll(self.triangles, 1, 1)]
+            length = np.hypot(edges[..., 0], edges[..., 1])
+            out.update(
+                triangles=int(self.triangles.shape[0]),
+                smallest_cell=float(length.min()),
+                largest_cell=float(length.max()),
+                min_angle_deg=float(_min_angle(edges).min()),
             )
         return out
 
@@ -128,3 +173,10 @@ def _max_ratio(h: np.ndarray) -> float:
         return 1.0
     r = h[1:] / h[:-1]
     return float(np.max(np.maximum(r, 1.0 / r)))
+
+
+def _min_angle(edges: np.ndarray) -> np.ndarray:
+    """Smallest angle (degrees) of each triangle from its edge vectors (t, 3, 2)."""
+    a, b = edges, -np.roll(edges, -1, axis=1)
+    cos = np.einsum("tij,tij->ti", a, b) / (np.hypot(*a.T).T * np.hypot(*b.T).T)
+    return np.degrees(np.arccos(np.clip(cos, -1.0, 1.0))).min(axis=1)

@@ -379,6 +379,10 @@ def segment_faces(
     outer side belong to it, with exchange fractions their projections |n_face · n_segment|
     scaled so the stepped faces sum to the segment's true length.
     """
+    if mesh.vertex_centred:  # the mesh follows the geometry: faces lie on the segment
+        from fvheat.mesh.triangles import exact_segment_faces
+
+        return exact_segment_faces(mesh, seg)
     p0, p1 = np.asarray(seg[0], float), np.asarray(seg[1], float)
     c, nrm = mesh.b_centre, mesh.b_normal
     tol = 1e-9 * max(float(np.ptp(mesh.centres)), 1.0)

@@ -67,6 +67,22 @@ def write_outputs(
     out = Path(out)
     sol = study.solution
     written = [write_inputs(out, sol.case, sol.mesh)]
+    if sol.mesh.triangles is not None:  # the triangles' own field files and figures
+        from fvheat.output.triangle_fields import write_triangle_fields
+
+        if fields != "none":
+            written += write_triangle_fields(sol, out, study.surface_solution, fields)
+        if fields != "none" and sol.mesh.n_cells <= CELLS_CSV_LIMIT:
+            from fvheat.output.triangle_fields import write_node_csv
+
+            written.append(write_node_csv(out / CELLS_FILE, sol))
+        folder = ResultsFolder.open(out)
+        if plots:
+            from fvheat.output.plots.triangles import draw_triangle_figures
+
+            for r in draw_triangle_figures(sol, out, folder.summary, study.surface_solution):
+                written += [out / r.png] + ([out / r.svg] if r.svg else [])
+        return [*written, *write_report(folder)]
     if sol.mesh.grid is None:  # field files and figures need the rectilinear grid
         log.warning("no rectilinear grid: field files and figures are not written")
         return [*written, *write_report(ResultsFolder.open(out))]

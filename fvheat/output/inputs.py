@@ -60,7 +60,8 @@ def describe_boundary(b: Boundary) -> str:
 
 def case_inputs(case: Case, mesh: Mesh) -> dict[str, Any]:
     """The inputs dictionary (see the module docstring); SI units, temperatures in °C."""
-    area = np.bincount(mesh.material, weights=mesh.volumes, minlength=len(mesh.material_names))
+    _, piece_material, piece_volume = mesh.pieces()  # exact where cells straddle materials
+    area = np.bincount(piece_material, weights=piece_volume, minlength=len(mesh.material_names))
     cells = np.bincount(mesh.material, minlength=len(mesh.material_names))
     index = {n: k for k, n in enumerate(mesh.material_names)}
     materials = []
@@ -109,6 +110,9 @@ def case_inputs(case: Case, mesh: Mesh) -> dict[str, Any]:
             "min_cell": case.mesh.min_cell,
             "growth": case.mesh.growth,
             "corner_cell": case.mesh.corner_size,
+            "kind": mesh.kind,
+            "file": None if case.mesh.file is None else str(case.mesh.file),
+            "file_sha256": case.mesh.file_sha256,
         },
         "time": None,
         "junction": None,

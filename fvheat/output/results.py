@@ -85,6 +85,12 @@ class ResultsFolder:
         if self._meta is None:
             f = self.path / FIELDS_DIR / META_FILE
             if not f.is_file():
+                if (self.summary.get("mesh") or {}).get("kind") == "triangles":
+                    raise CaseError(
+                        "a triangle-mesh run: its figures are drawn by the run itself "
+                        "(figures/); redrawing reads grid results only",
+                        file=str(self.path),
+                    )
                 raise CaseError(
                     "no field files (fields/fields.json); run the case again to write them",
                     file=str(self.path),

@@ -152,17 +152,20 @@ def test_separate_bodies_each_with_a_temperature_warned(tmp_path):
 
 
 def test_thin_sloped_layer_reported(tmp_path):
-    """A 2 mm layer of foil sloped at about 45° across the wall, on 4 mm cells: the cells
-    whose centres fall in it paint far from its drawn area (0.002 × length)."""
+    """A 2 mm layer of foil sloped at about 45° across the wall, on 4 mm cells of the grid:
+    the cells whose centres fall in it paint far from its drawn area (0.002 × length)."""
     foil = """
 [[regions]]
 name = "tilted_foil"
 material = "foil"
 polygon = [[0.05, 0.3], [0.0514, 0.2986], [0.1514, 0.3986], [0.15, 0.4]]
 """
-    _, _, warnings = checked(tmp_path, WALL + foil + INSIDE + OUTSIDE)
+    _, _, warnings = checked(tmp_path, WALL + foil + INSIDE + OUTSIDE, ["mesh.kind=rectilinear"])
     (w,) = [w for w in warnings if "tilted_foil" in w]
     assert "region 'tilted_foil' (regions.1) (foil)" in w and "mesh.min_cell (now 0.004 m)" in w
+    # the triangle mesh (the default for a sloped layer) follows the foil exactly
+    _, mesh, warnings = checked(tmp_path, WALL + foil + INSIDE + OUTSIDE)
+    assert mesh.kind == "triangles" and not [w for w in warnings if "tilted_foil" in w]
 
 
 def test_region_painted_over_entirely_reported(tmp_path):
@@ -175,11 +178,16 @@ def test_region_painted_over_entirely_reported(tmp_path):
 def test_region_area_exact_for_boxes_and_fine_polygons(tmp_path):
     """Boxes paint exactly; a 45° chamfer polygon of 0.02 m² paints within the 5 % tolerance
     on 4 mm cells (no warning), and 7 % too much on the 20 mm cells the grid grows to
-    inside it by default (a warning, +7 %)."""
+    inside it by default (a warning, +7 %). On the triangle mesh (the default for a sloped
+    outline) the areas are exact: no warning."""
     chamfer = '\n[[regions]]\nmaterial = "foil"\npolygon = [[0.0, 0.6], [0.2, 0.6], [0.0, 0.8]]\n'
-    _, _, warnings = checked(tmp_path, WALL + chamfer + INSIDE + OUTSIDE, ["mesh.max_cell=0.004"])
+    grid = ["mesh.kind=rectilinear"]
+    text = WALL + chamfer + INSIDE + OUTSIDE
+    _, _, warnings = checked(tmp_path, text, ["mesh.max_cell=0.004", *grid])
     assert warnings == []
-    _, _, warnings = checked(tmp_path, WALL + chamfer + INSIDE + OUTSIDE)
+    _, mesh, warnings = checked(tmp_path, text)
+    assert mesh.kind == "triangles" and warnings == []
+    _, _, warnings = checked(tmp_path, text, grid)
     (w,) = warnings
     assert w.startswith("regions.1 (foil): the grid paints 0.0214 m² of its drawn 0.02 m² (+7 %)")
 

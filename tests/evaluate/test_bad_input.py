@@ -72,10 +72,10 @@ BAD = {
         "junction.flanking.0.cut",
         "surfaces",
     ),
-    "sloped cut": (
+    "sloped cut not perpendicular to the element": (
         {"flanking": "cut = [[0.0, 0.5], [0.3, 0.6]]"},
         "junction.flanking.0.cut",
-        "horizontal or vertical",
+        "perpendicular to its surfaces",
     ),
     "different inside temperatures": (
         {"inside": '["inside", "inside_upper"]', "upper": "18.0"},

@@ -99,10 +99,12 @@ def test_slightly_ventilated_cavity_doubles(tmp_path):
     assert k1 == pytest.approx(2.0 * k0, rel=1e-15)
 
 
-def test_cavity_layer_in_a_wall_u(tmp_path):
+@pytest.mark.parametrize("kind", ["rectilinear", "triangles"])
+def test_cavity_layer_in_a_wall_u(tmp_path, kind):
     """A 40 mm unventilated cavity layer across a wall (horizontal heat flow): the junction's
-    layer cut reads λ_eq of a cavity with d = 0.04 m, b = 2 m, and the plane-wall ψ is 0.
-    ISO 6946 layer sum with the cavity as a layer of d/λ_eq."""
+    layer cut reads λ_eq of a cavity with d = 0.04 m, b = 2 m, and the plane-wall ψ is 0,
+    on both meshes (the triangles' cut read on the case's grid). ISO 6946 layer sum with
+    the cavity as a layer of d/λ_eq."""
     text = """
     title = "cavity wall"
     [mesh]
@@ -135,7 +137,9 @@ def test_cavity_layer_in_a_wall_u(tmp_path):
     length = 2.0
     cut = [[0.0, 1.3], [0.24, 1.3]]
     """
-    j = study(tmp_path, text).junction
+    result = study(tmp_path, text, [f"mesh.kind={kind}"])
+    assert result.solution.mesh.kind == kind
+    j = result.junction
     lam = float(equivalent_conductivity(0.04, 2.0, direction="horizontal").lambda_eq)
     layers = j.flanking[0].cut.layers
     assert [m for m, _, _ in layers] == ["brick", "regions.1.cavity", "brick"]

@@ -272,7 +272,7 @@ def test_a_boundary_whose_faces_another_claims_is_refused(tmp_path):
 def test_a_mesh_without_grid_is_refused_in_one_line(tmp_path):
     case = load(tmp_path, WALL)
     mesh = replace(build_mesh(case), grid=None)
-    with pytest.raises(CaseError, match="rectilinear grids only"):
+    with pytest.raises(CaseError, match="rectilinear grids and triangles only"):
         preview.preview_figure(case, mesh)
 
 
@@ -433,7 +433,7 @@ def test_check_writes_the_preview(tmp_path):
     lines = res.stdout.splitlines()
     # the check's own output is unchanged, the preview's path comes last
     assert lines[0] == f"{case}: valid (steady) — test wall"
-    assert lines[1].startswith("mesh: cells 16, ")
+    assert lines[1].startswith("mesh: kind rectilinear, cells 16, ")
     assert lines[2:4] == ["boundary room: surface, 4 faces", "boundary sky: surface, 4 faces"]
     assert lines[4] == f"preview: {out}"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["case.toml", "model.png"]  # no temp

@@ -42,10 +42,13 @@ DEMOS = {
 
 
 @pytest.mark.slow
+@pytest.mark.parametrize("kind", ["rectilinear", "triangles"])
 @pytest.mark.parametrize("name", list(DEMOS))
-def test_theta_si_min_against_fem(name):
-    case = load_case(CASES / name)
+def test_theta_si_min_against_fem(name, kind):
+    """On both meshes (the triangle mesh's corner is a node: no extrapolation)."""
+    case = load_case(CASES / name, [f"mesh.kind={kind}"])
     study = run_study(case)
+    assert study.solution.mesh.kind == kind
     j = study.junction
     assert j is not None
     surf = study.surface_solution or study.solution
@@ -64,7 +67,7 @@ def test_theta_si_min_against_fem(name):
     f_rsi_names = case.junction.f_rsi_boundaries or case.junction.inside
     ref_min = min(fem.surface_minimum(b)[0] for b in f_rsi_names)
     report(
-        f"θ_si,min at corners, {name}",
+        f"θ_si,min at corners, {name}, {kind}",
         per_boundary=rows,
         theta_si_min=j.theta_si_min,
         reference=ref_min,

@@ -84,11 +84,14 @@ box = [-1.5, -0.05, 0.2, 0.05]
 """
 
 
-@pytest.fixture(scope="module")
-def coupled(tmp_path_factory):
+@pytest.fixture(scope="module", params=["rectilinear", "triangles"])
+def coupled(tmp_path_factory, request):
+    """The case on each mesh (its sizes apply to both)."""
     folder = tmp_path_factory.mktemp("coupling")
-    case = load(folder, case_text())
-    return folder, case, run_study(case)
+    case = load(folder, case_text(), [f"mesh.kind={request.param}"])
+    study = run_study(case)
+    assert study.solution.mesh.kind == request.param
+    return folder, case, study
 
 
 def test_symmetry_and_row_sums(coupled):
@@ -138,6 +141,7 @@ def test_weighting_factors_give_direct_solve(coupled):
         assert p.temperature == pytest.approx(float(np.dot(p.g, c.temperatures)), abs=1e-9)
     other = {"room_a": 22.0, "room_b": 5.0, "outside": -12.0}
     overrides = [f"boundaries.{b}.air_temperature={other[ENV_OF[b]]}" for b in EDGES]
+    overrides.append(f"mesh.kind={case.mesh.kind}")
     direct = run_study(load(folder, case_text(), overrides, name="other.toml")).solution
     sysm = direct.system
     ts, _, _ = sysm.surface.surface_state(direct.temperature, 0.0)

@@ -44,6 +44,7 @@ def test_probe_exact_on_piecewise_linear_field(tmp_path):
     }
     text = f"""
 [mesh]
+kind = "rectilinear"
 max_cell = 0.03
 min_cell = {ROW}
 {mats}
@@ -98,6 +99,7 @@ def test_probe_exact_on_uniform_field(tmp_path):
     }
     text = f"""
 [mesh]
+kind = "rectilinear"
 max_cell = 0.05
 min_cell = 0.01
 [materials.concrete]
@@ -135,6 +137,7 @@ temperature = {theta}
 
 MESH_CASE = """
 [mesh]
+kind = "rectilinear"
 max_cell = 0.05
 min_cell = 0.004
 growth = 1.25
@@ -236,6 +239,7 @@ def test_grid_growth_after_thin_layer(tmp_path):
     membrane must keep growing by ≤ growth across the next key line (x = 0.35 m)."""
     text = """
 [mesh]
+kind = "rectilinear"
 max_cell = 0.1
 min_cell = 0.02
 growth = 1.2
@@ -275,6 +279,7 @@ def wedge_case(h: float) -> str:
     stays the body, the wedge only changes the material); uniform cells of h."""
     return f"""
 [mesh]
+kind = "rectilinear"
 max_cell = {h}
 min_cell = {h}
 [materials.timber]
@@ -330,6 +335,7 @@ def trapezoid_case(maxc: float, minc: float, order: list[str]) -> str:
     )
     return f"""
 [mesh]
+kind = "rectilinear"
 max_cell = {maxc}
 min_cell = {minc}
 [materials.m]
@@ -365,6 +371,7 @@ def wedge_body_case(h: float) -> str:
     """A 30° wedge as the body itself; its sloped edge exchanges heat with air."""
     return f"""
 [mesh]
+kind = "rectilinear"
 max_cell = {h}
 min_cell = {h}
 [materials.m]

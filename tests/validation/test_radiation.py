@@ -83,9 +83,12 @@ def surface_balance(q_solar: float) -> tuple[float, float]:
 @pytest.mark.parametrize(
     ("label", "heat_flux"), [("night sky", None), ("with absorbed solar 400 W/m2", 400.0)]
 )
-def test_radiating_surface(tmp_path, label, heat_flux):
-    """Surface temperature ≤ 1e-6 K, heat flows (inside and outside) ≤ 1e-8 relative."""
-    sol = run(tmp_path, radiation_case(heat_flux))
+@pytest.mark.parametrize("kind", ["rectilinear", "triangles"])
+def test_radiating_surface(tmp_path, label, heat_flux, kind):
+    """Surface temperature ≤ 1e-6 K, heat flows (inside and outside) ≤ 1e-8 relative, on
+    both meshes (1-D: the triangle mesh's P1 field is exact too)."""
+    sol = run(tmp_path, radiation_case(heat_flux), [f"mesh.kind={kind}"])
+    assert sol.mesh.kind == kind
     ts, q = surface_balance(heat_flux or 0.0)
     out = sol.surfaces["outside"]
     err_t = max(abs(out.min_temperature - ts), abs(out.max_temperature - ts))

@@ -79,10 +79,13 @@ save_every = 3600
 """ + probes_toml({f"d{i}": (d, 0.5 * min_cell) for i, d in enumerate(DEPTHS)})
 
 
-def semi_infinite_errors(tmp_path, max_cell: float, min_cell: float, step: float):
+def semi_infinite_errors(
+    tmp_path, max_cell: float, min_cell: float, step: float, kind: str = "rectilinear"
+):
     """Max |θ_fv − θ_exact| (K) over the probe depths and times, and the max relative error
     of the surface heat flow h(θ∞ − θ(0, t)) at those times."""
-    sol = run(tmp_path, semi_infinite_case(max_cell, min_cell, step))
+    sol = run(tmp_path, semi_infinite_case(max_cell, min_cell, step), [f"mesh.kind={kind}"])
+    assert sol.mesh.kind == kind
     hist = sol.history
     err_t, err_q = 0.0, 0.0
     for t in TIMES_A:
@@ -103,17 +106,18 @@ def test_semi_infinite_model_is_deep_enough():
 
 
 @pytest.mark.slow
-def test_semi_infinite_convective_surface(tmp_path):
+@pytest.mark.parametrize("kind", ["rectilinear", "triangles"])
+def test_semi_infinite_convective_surface(tmp_path, kind):
     """Temperatures at 10, 30, 60, 100 mm after 1, 3, 6 h (20 K step in air temperature).
 
     Coarse: cells 2 mm at the surface growing to 20 mm, backward Euler, step 60 s:
     tolerance 0.05 K (0.25 % of the step) and 1 % on the surface heat flow.
     Fine: cells 0.5 → 5 mm, step 15 s: tolerance 0.01 K, and less than half the coarse error.
     """
-    coarse = semi_infinite_errors(tmp_path, 0.02, 0.002, 60.0)
-    fine = semi_infinite_errors(tmp_path, 0.005, 0.0005, 15.0)
+    coarse = semi_infinite_errors(tmp_path, 0.02, 0.002, 60.0, kind)
+    fine = semi_infinite_errors(tmp_path, 0.005, 0.0005, 15.0, kind)
     report(
-        "semi-infinite solid (Incropera 5.60)",
+        f"semi-infinite solid (Incropera 5.60), {kind}",
         coarse_max_err_K=coarse[0],
         coarse_flow_rel_err=coarse[1],
         coarse_surface_err_K=coarse[2],

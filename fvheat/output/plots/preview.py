@@ -94,9 +94,13 @@ def preview_figure(case: Case, mesh: Mesh, *, show_mesh: bool = False) -> Figure
     one (said in a note above the plot). Returns a matplotlib Figure (Agg canvas). Raises
     :class:`CaseError` for a mesh without a rectilinear grid (not drawn yet).
     """
+    if mesh.triangles is not None:
+        from fvheat.output.plots.triangles import mesh_map
+
+        return mesh_map(mesh, case.title)
     if mesh.grid is None:
         raise CaseError(
-            "the preview draws rectilinear grids only; this mesh has none", file=str(case.source)
+            "the preview draws rectilinear grids and triangles only", file=str(case.source)
         )
     geom = geometry_view(mesh)
     with style.style():

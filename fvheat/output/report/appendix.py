@@ -51,8 +51,14 @@ def software_section(s: dict[str, Any]) -> Section:
         [
             Table(["component", "version"], rows),
             Para(
-                "Cell-centred finite volumes on a rectilinear grid, harmonic-mean face "
-                "conductances; heat flows, surface temperatures and heat-flux vectors come from "
+                (
+                    "Vertex-centred finite volumes (box method) on a conforming triangle mesh, "
+                    "each triangle's own conductivity in its edge coefficients"
+                    if (s.get("mesh") or {}).get("kind") == "triangles"
+                    else "Cell-centred finite volumes on a rectilinear grid, harmonic-mean face "
+                    "conductances"
+                )
+                + "; heat flows, surface temperatures and heat-flux vectors come from "
                 "the same face fluxes the solver balanced."
             ),
         ],

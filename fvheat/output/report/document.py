@@ -126,7 +126,7 @@ def _inputs_from_case(s: dict[str, Any]) -> dict[str, Any] | None:
     """Inputs rebuilt from the case file named in the summary (older folders)."""
     from fvheat.case.load import load_case
     from fvheat.errors import FvheatError
-    from fvheat.mesh.rectilinear import build_mesh
+    from fvheat.mesh.select import build_mesh
     from fvheat.output.inputs import case_inputs
 
     path = s.get("case_file")

@@ -101,6 +101,9 @@ def _boundary_blocks(s: dict[str, Any], inputs: dict[str, Any]) -> list[Para | T
 
 #: mesh statistics: summary key -> (label, format, unit)
 _MESH_LABELS = {
+    "kind": ("mesh", "s", ""),
+    "triangles": ("triangles", "d", ""),
+    "min_angle_deg": ("smallest triangle angle", ".1f", "°"),
     "cells": ("cells", "d", ""),
     "interior_faces": ("interior faces", "d", ""),
     "boundary_faces": ("exterior faces", "d", ""),
@@ -133,6 +136,8 @@ def _mesh_section(s: dict[str, Any], inputs: dict[str, Any] | None) -> Section:
 
 
 def _stat(v: Any, fmt: str, unit: str) -> str:
+    if isinstance(v, str):
+        return v
     if isinstance(v, int) and not isinstance(v, bool):
         return str(v)
     return num(v, fmt if fmt != "d" else "g", unit)
