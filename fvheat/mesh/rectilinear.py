@@ -16,9 +16,10 @@ import numpy as np
 
 from fvheat.case.model import Case
 from fvheat.errors import CaseError
-from fvheat.mesh.geometry import points_in_polygon, segment_frame
+from fvheat.mesh.geometry import grid_in_polygon, points_in_polygon, points_on_segments
 from fvheat.mesh.grading import graded_lines, merge_close
 from fvheat.mesh.mesh import Mesh, RectGrid
+from fvheat.mesh.segments import FaceLocator, segment_faces
 
 
 def build_mesh(case: Case, refine: float = 1.0) -> Mesh:
@@ -160,12 +161,7 @@ def reentrant_corners(case: Case, x: np.ndarray, y: np.ndarray, mat: np.ndarray)
     segs = [e for b in case.boundaries if b.kind != "flux" for e in b.edges]
     if not segs or pts.size == 0:
         return np.zeros((0, 2))
-    a = np.array([s[0] for s in segs], float)
-    d = np.array([s[1] for s in segs], float) - a
-    rel = pts[:, None, :] - a[None, :, :]
-    u = np.clip(np.einsum("psk,sk->ps", rel, d) / np.einsum("sk,sk->s", d, d), 0.0, 1.0)
-    gap = np.hypot(*(rel - u[..., None] * d[None]).transpose(2, 0, 1))
-    return pts[(gap <= tol).any(axis=1)]
+    return pts[points_on_segments(pts, segs, tol)]
 
 
 def _near_any(values: np.ndarray, keys: np.ndarray, tol: float) -> np.ndarray:
@@ -190,13 +186,13 @@ def paint_regions(case: Case, x: np.ndarray, y: np.ndarray) -> np.ndarray:
         if region.is_box and not region.holes:
             owner[j0:j1, i0:i1] = k
             continue
-        px, py = np.meshgrid(xc[i0:i1], yc[j0:j1])
+        xs, ys = xc[i0:i1], yc[j0:j1]
         if region.is_box:
-            inside = np.ones(px.shape, dtype=bool)
+            inside = np.ones((ys.size, xs.size), dtype=bool)
         else:
-            inside = points_in_polygon(px, py, region.vertices)
+            inside = grid_in_polygon(xs, ys, region.vertices)
         for hole in region.holes:  # cells centred in a hole keep what was painted before
-            inside &= ~points_in_polygon(px, py, hole)
+            inside &= ~grid_in_polygon(xs, ys, hole)
         owner[j0:j1, i0:i1][inside] = k
     return owner
 
@@ -319,10 +315,10 @@ def attach_boundaries(case: Case, mesh: Mesh) -> Mesh:
     """
     bid = mesh.b_boundary.copy()
     exch = mesh.b_exchange.copy()
-    reach = face_reach(mesh)
+    locator = FaceLocator(mesh)
     for k, b in enumerate(case.boundaries):
         for e, seg in enumerate(b.edges):
-            on, exch_e, _ = segment_faces(mesh, seg, reach)
+            on, exch_e, _ = segment_faces(locator, seg)
             key = f"boundaries.{k}.edges.{e}"
             if not on.any():
                 raise CaseError(
@@ -351,51 +347,6 @@ def attach_boundaries(case: Case, mesh: Mesh) -> Mesh:
 def _seg_text(seg) -> str:
     (x0, y0), (x1, y1) = seg
     return f"({x0:.6g}, {y0:.6g})–({x1:.6g}, {y1:.6g}) m"
-
-
-def face_reach(mesh: Mesh) -> np.ndarray:
-    """Half the diagonal (m) of each boundary face's grid cell: how far a stepped face may
-    lie from the sloped segment it belongs to."""
-    if mesh.grid is None:
-        return np.sqrt(mesh.volumes[mesh.b_cell])
-    dx = np.diff(mesh.grid.x)
-    dy = np.diff(mesh.grid.y)
-    cols = np.searchsorted(mesh.grid.x, mesh.centres[mesh.b_cell, 0]) - 1
-    rows = np.searchsorted(mesh.grid.y, mesh.centres[mesh.b_cell, 1]) - 1
-    return 0.5 * np.hypot(dx[cols], dy[rows])
-
-
-def segment_faces(mesh: Mesh, seg, reach: np.ndarray) -> tuple[np.ndarray, np.ndarray, float]:
-    """The exterior faces on segment ``seg`` ((x0, y0), (x1, y1)) m, their exchange
-    fractions, and the fraction of the segment's length they cover (1 when the segment
-    lies on the body's outline over its whole length).
-
-    On a grid-aligned segment a face belongs to it when its centre lies on the segment and
-    it is parallel to it. On a sloped segment the body's edge is stepped: exterior faces
-    whose centre lies within ``reach`` of the segment and that look out on the segment's
-    outer side belong to it, with exchange fractions their projections |n_face · n_segment|
-    scaled so the stepped faces sum to the segment's true length.
-    """
-    p0, p1 = np.asarray(seg[0], float), np.asarray(seg[1], float)
-    c, nrm = mesh.b_centre, mesh.b_normal
-    tol = 1e-9 * max(float(np.ptp(mesh.centres)), 1.0)
-    t, n, length = segment_frame(p0, p1)
-    rel = c - p0
-    along = rel @ t
-    off = np.abs(rel @ n)
-    proj = np.abs(nrm @ n)
-    if abs(t[0]) < 1e-12 or abs(t[1]) < 1e-12:
-        on = (off <= tol) & (along > tol) & (along < length - tol) & (proj > 0.5)
-        return on, np.ones_like(proj), float(np.sum(mesh.b_area[on])) / length
-    near = (off <= reach) & (along > -tol) & (along < length + tol)
-    # keep the faces looking out on the side the staircase faces mostly look to (not those
-    # of a neighbouring straight edge at a shared corner); a full staircase's projections
-    # sum to the segment's length
-    side = nrm @ n
-    outward = np.sign(np.sum(mesh.b_area[near] * side[near]))
-    on = near & (side * outward > 0.0)
-    total = float(np.sum(mesh.b_area[on] * proj[on]))
-    return on, proj * (length / total if total > 0 else 1.0), total / length
 
 
 def check_probes(case: Case, mesh: Mesh) -> None:
