@@ -11,6 +11,7 @@ import numpy as np
 from fvheat.case.fields import (
     Context,
     Invalid,
+    coordinate,
     describe,
     join,
     name,
@@ -19,7 +20,6 @@ from fvheat.case.fields import (
     string,
     table,
     tables,
-    to_number,
 )
 from fvheat.case.geometry import LayerShape, check_drawing_scale, layer_shapes
 from fvheat.case.materials import library_material
@@ -172,7 +172,7 @@ def _box_vertices(x0: float, y0: float, x1: float, y1: float) -> np.ndarray:
 def _box(value: Any, path: str) -> np.ndarray:
     if not isinstance(value, list) or len(value) != 4:
         raise Invalid(path, f"expected [x0, y0, x1, y1] (m), got {describe(value)}")
-    x0, y0, x1, y1 = (to_number(v, join(path, i)) for i, v in enumerate(value))
+    x0, y0, x1, y1 = (coordinate(v, join(path, i)) for i, v in enumerate(value))
     if not (x1 > x0 and y1 > y0):
         raise Invalid(
             path, f"needs x1 > x0 and y1 > y0 (box = [x0, y0, x1, y1]), got {[x0, y0, x1, y1]}"

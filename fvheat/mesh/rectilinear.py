@@ -17,9 +17,10 @@ import numpy as np
 from fvheat.case.model import Case
 from fvheat.errors import CaseError
 from fvheat.mesh.geometry import grid_in_polygon, points_in_polygon, points_on_segments
-from fvheat.mesh.grading import graded_lines, merge_close
+from fvheat.mesh.grading import LinePlan, merge_close, plan_lines
 from fvheat.mesh.mesh import Mesh, RectGrid
 from fvheat.mesh.segments import FaceLocator, segment_faces
+from fvheat.mesh.size import check_grid_size
 
 
 def build_mesh(case: Case, refine: float = 1.0) -> Mesh:
@@ -33,11 +34,11 @@ def build_mesh(case: Case, refine: float = 1.0) -> Mesh:
     the body.
     """
     names = tuple(case.materials)
-    x, y = grid_lines(case, refine)
+    x, y = _checked_lines(case, refine, None)
     owner = paint_regions(case, x, y)
     corners = reentrant_corners(case, x, y, owner)
     if corners.size:
-        x, y = grid_lines(case, refine, corners)
+        x, y = _checked_lines(case, refine, corners)
         owner = paint_regions(case, x, y)
     material = np.array([names.index(r.material) for r in case.regions], dtype=np.int32)
     mat = np.where(owner >= 0, material[owner], -1).astype(np.int32)
@@ -116,21 +117,21 @@ def on_body(case: Case, points: np.ndarray) -> np.ndarray:
     return inside
 
 
-def grid_lines(
+def grid_plans(
     case: Case, refine: float = 1.0, corners: np.ndarray | None = None
-) -> tuple[np.ndarray, np.ndarray]:
-    """x and y grid lines (m) through all region vertices and boundary-segment ends, the
-    first cells at the key lines through ``corners`` ((k, 2) m) of size ``corner_size``."""
+) -> tuple[LinePlan, LinePlan]:
+    """The x and y grid lines (m) of :func:`grid_lines`, planned (cell counts known) but
+    not yet placed."""
     keys, tol = key_lines(case)
     s = case.mesh
-    lines = []
+    plans = []
     for axis in (0, 1):
         first = np.full(keys[axis].size, s.min_cell / refine)
         if corners is not None and corners.size:
             near = np.abs(keys[axis][:, None] - corners[None, :, axis]).min(axis=1) <= tol
             first[near] = min(s.corner_size, s.min_cell) / refine
-        lines.append(
-            graded_lines(
+        plans.append(
+            plan_lines(
                 keys[axis],
                 s.max_cell / refine,
                 s.min_cell / refine,
@@ -138,7 +139,35 @@ def grid_lines(
                 first,
             )
         )
-    return lines[0], lines[1]
+    return plans[0], plans[1]
+
+
+def grid_lines(
+    case: Case, refine: float = 1.0, corners: np.ndarray | None = None
+) -> tuple[np.ndarray, np.ndarray]:
+    """x and y grid lines (m) through all region vertices and boundary-segment ends, the
+    first cells at the key lines through ``corners`` ((k, 2) m) of size ``corner_size``."""
+    px, py = grid_plans(case, refine, corners)
+    return px.coordinates(), py.coordinates()
+
+
+def _checked_lines(
+    case: Case, refine: float, corners: np.ndarray | None
+) -> tuple[np.ndarray, np.ndarray]:
+    """:func:`grid_lines`, after checking the grid's size against ``[mesh] max_cells``."""
+    px, py = grid_plans(case, refine, corners)
+    check_grid_size(case, px.cells, py.cells, refined=refine > 1.0)
+    return px.coordinates(), py.coordinates()
+
+
+def check_refined_size(case: Case, mesh: Mesh, refine: float) -> None:
+    """Raise :class:`CaseError` when the mesh refined by ``refine`` (a grid check) would
+    exceed ``[mesh] max_cells``: estimated from ``mesh``'s own re-entrant corners, before
+    anything is solved or allocated."""
+    g = mesh.grid
+    corners = None if g is None else reentrant_corners(case, g.x, g.y, g.cell_index)
+    px, py = grid_plans(case, refine, corners)
+    check_grid_size(case, px.cells, py.cells, refined=True)
 
 
 def reentrant_corners(case: Case, x: np.ndarray, y: np.ndarray, mat: np.ndarray) -> np.ndarray:
