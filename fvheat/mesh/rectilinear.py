@@ -118,16 +118,23 @@ def on_body(case: Case, points: np.ndarray) -> np.ndarray:
 
 
 def grid_plans(
-    case: Case, refine: float = 1.0, corners: np.ndarray | None = None
+    case: Case,
+    refine: float = 1.0,
+    corners: np.ndarray | None = None,
+    *,
+    corners_everywhere: bool = False,
 ) -> tuple[LinePlan, LinePlan]:
     """The x and y grid lines (m) of :func:`grid_lines`, planned (cell counts known) but
-    not yet placed."""
+    not yet placed; ``corners_everywhere``: as if every key line ran through a re-entrant
+    corner (the most cells the corner refinement can add)."""
     keys, tol = key_lines(case)
     s = case.mesh
     plans = []
     for axis in (0, 1):
         first = np.full(keys[axis].size, s.min_cell / refine)
-        if corners is not None and corners.size:
+        if corners_everywhere:
+            first[:] = min(s.corner_size, s.min_cell) / refine
+        elif corners is not None and corners.size:
             near = np.abs(keys[axis][:, None] - corners[None, :, axis]).min(axis=1) <= tol
             first[near] = min(s.corner_size, s.min_cell) / refine
         plans.append(
@@ -156,7 +163,11 @@ def _checked_lines(
 ) -> tuple[np.ndarray, np.ndarray]:
     """:func:`grid_lines`, after checking the grid's size against ``[mesh] max_cells``."""
     px, py = grid_plans(case, refine, corners)
-    check_grid_size(case, px.cells, py.cells, refined=refine > 1.0)
+    at_most = None
+    if corners is None and px.cells * py.cells > case.mesh.max_cells:
+        wx, wy = grid_plans(case, refine, corners_everywhere=True)
+        at_most = wx.cells * wy.cells
+    check_grid_size(case, px.cells, py.cells, refined=refine > 1.0, at_most=at_most)
     return px.coordinates(), py.coordinates()
 
 
@@ -165,8 +176,10 @@ def check_refined_size(case: Case, mesh: Mesh, refine: float) -> None:
     exceed ``[mesh] max_cells``: estimated from ``mesh``'s own re-entrant corners, before
     anything is solved or allocated."""
     g = mesh.grid
-    corners = None if g is None else reentrant_corners(case, g.x, g.y, g.cell_index)
-    px, py = grid_plans(case, refine, corners)
+    if g is None:
+        px, py = grid_plans(case, refine, corners_everywhere=True)
+    else:
+        px, py = grid_plans(case, refine, reentrant_corners(case, g.x, g.y, g.cell_index))
     check_grid_size(case, px.cells, py.cells, refined=True)
 
 

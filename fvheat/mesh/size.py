@@ -37,23 +37,31 @@ def _round_up(n: int) -> int:
     return -(-n // step) * step
 
 
-def check_grid_size(case: Case, columns: int, rows: int, *, refined: bool = False) -> None:
+def check_grid_size(
+    case: Case, columns: int, rows: int, *, refined: bool = False, at_most: int | None = None
+) -> None:
     """Raise :class:`CaseError` (key ``mesh.max_cells``) when a grid of ``columns`` ×
     ``rows`` cells exceeds the case's ``[mesh] max_cells``; ``refined``: the grid check's
-    refined grid (the message then offers to leave the grid check out)."""
+    refined grid (the message then offers to leave the grid check out); ``at_most``: the
+    most cells the refinement at re-entrant corners could make of it (the limit the
+    message suggests)."""
     cells = columns * rows
     limit = case.mesh.max_cells
     if cells <= limit:
         return
     s = case.mesh
     what = "the grid check's refined grid (every cell size halved)" if refined else "the grid"
+    upto = ""
+    if at_most is not None and at_most > cells:
+        upto = f", up to {at_most:,} with the finer cells at re-entrant corners"
     raise CaseError(
-        f"{what} would have {cells:,} cells ({columns:,} columns × {rows:,} rows, "
-        f"{memory_text(cells, case.transient)} of memory), more than max_cells = {limit:,}: "
+        f"{what} would have {cells:,} cells ({columns:,} columns × {rows:,} rows{upto}; "
+        f"{memory_text(cells, case.transient)} of memory{' or more' if upto else ''}), "
+        f"more than max_cells = {limit:,}: "
         f"give larger cells (max_cell = {s.max_cell:g} m, min_cell = {s.min_cell:g} m, "
         f"corner cells {s.corner_size:g} m)"
         + (", run without the grid check (--no-grid-check)" if refined else "")
-        + f", or raise the limit (--set mesh.max_cells={_round_up(cells)}) if the machine "
+        + f", or raise the limit (--set mesh.max_cells={_round_up(max(cells, at_most or 0))}) if the machine "
         "has the memory",
         file=str(case.source),
         key="mesh.max_cells",

@@ -1,0 +1,142 @@
+"""Absurd coordinates are one line naming the file and the key: every point of a case
+goes through one reader (fvheat.case.fields.coordinate), limited to ±1e6 m after the unit
+conversion, and points taken from a drawing are checked the same way."""
+
+from __future__ import annotations
+
+import pytest
+from casefiles import write_case
+from drawings import line, new_drawing, rectangle, save
+
+from fvheat.case.load import load_case
+from fvheat.cli.main import main
+from fvheat.errors import CaseError
+
+BASE = """
+[mesh]
+max_cell = 0.05
+[materials.w]
+conductivity = 1.0
+[[regions]]
+material = "w"
+box = [0, 0, 0.3, 1.0]
+[[regions]]
+material = "w"
+polygon = [[0.3, 0], [0.5, 0], [0.5, 0.2], [0.3, 0.2]]
+[[boundaries]]
+name = "in"
+edges = [[[0, 0], [0, 1.0]]]
+air_temperature = 20
+resistance = 0.13
+[[boundaries]]
+name = "out"
+edges = [[[0.3, 0.2], [0.3, 1.0]]]
+air_temperature = -5
+resistance = 0.04
+[[probes]]
+name = "p"
+at = [0.1, 0.5]
+[[probe_lines]]
+name = "l"
+start = [0.0, 0.5]
+end = [0.3, 0.5]
+[junction]
+inside = ["in"]
+outside = ["out"]
+[[junction.flanking]]
+name = "wall"
+cut = [[0.0, 0.9], [0.3, 0.9]]
+length = 1.0
+"""
+
+KEYS = [
+    "regions.0.box.2",
+    "regions.1.polygon.1.0",
+    "boundaries.0.edges.0.1.1",
+    "probes.0.at.0",
+    "probe_lines.0.end.1",
+    "junction.flanking.0.cut.0.0",
+]
+
+
+@pytest.mark.parametrize("key", KEYS)
+@pytest.mark.parametrize("value", ["1e308", "-1e300", "2e6", "nan", "inf"])
+def test_absurd_coordinate_is_one_line(tmp_path, key, value):
+    case = write_case(tmp_path, BASE)
+    with pytest.raises(CaseError) as err:
+        load_case(case, [f"{key}={value}"])
+    text = str(err.value)
+    assert "\n" not in text
+    assert text.startswith(f"{case}: {key}: "), text
+
+
+def test_within_the_limit_in_mm(tmp_path):
+    """The limit applies after the unit conversion: 9e8 mm (900 km) is accepted by the
+    reader (the case then fails elsewhere or not at all), 2e9 mm (2 000 km) is not."""
+    case = write_case(tmp_path, BASE.replace("[mesh]", '[geometry]\nunits = "m"\n[mesh]'))
+    load_case(case)
+    mm = write_case(
+        tmp_path,
+        '[geometry]\nunits = "mm"\n'
+        + BASE.replace("max_cell = 0.05", "max_cell = 50").replace(
+            "box = [0, 0, 0.3, 1.0]", "box = [0, 0, 2e9, 1000]"
+        ),
+        name="mm.toml",
+    )
+    with pytest.raises(CaseError, match=r"regions\.0\.box\.2: coordinate 2e\+06 m is beyond"):
+        load_case(mm)
+
+
+def test_ground_coordinates(tmp_path):
+    """[ground] coordinates and a soil block reaching beyond the limit."""
+    case = load_case("cases/ground_floor_edge.toml")
+    assert case.ground is not None
+    for key, value, where in [
+        ("ground.floor_edge", "1e308", "ground.floor_edge"),
+        ("ground.ground_level", "nan", "ground.ground_level"),
+        ("ground.width", "1e6", "ground.width"),
+    ]:
+        with pytest.raises(CaseError) as err:
+            load_case("cases/ground_floor_edge.toml", [f"{key}={value}"])
+        assert f": {where}: " in str(err.value)
+
+
+def test_drawing_coordinates(tmp_path):
+    """A shape and a boundary line in a drawing far beyond the limit (a DXF holding an
+    absurd number): one line naming the region's / boundary's layer key."""
+    doc, msp = new_drawing()
+    rectangle(msp, "WALL", (0, 0, 200, 1000))
+    rectangle(msp, "FAR", (3e12, 0, 3e12 + 200, 1000))
+    line(msp, "IN", (0, 0), (0, 1000))
+    line(msp, "FARLINE", (3e12, 0), (3e12, 1000))
+    save(doc, tmp_path / "d.dxf")
+    text = """
+        [geometry]
+        drawing = "d.dxf"
+        units = "mm"
+        [mesh]
+        max_cell = 50
+        [[regions]]
+        layer = "{region}"
+        material = "clay_brick"
+        [[boundaries]]
+        name = "in"
+        layer = "{boundary}"
+        air_temperature = 20
+        resistance = 0.13
+        """
+    far = write_case(tmp_path, text.format(region="FAR", boundary="IN"), name="far.toml")
+    with pytest.raises(CaseError, match=r"regions\.0\.layer: d\.dxf: layer 'FAR'.*beyond"):
+        load_case(far)
+    line_far = write_case(
+        tmp_path, text.format(region="WALL", boundary="FARLINE"), name="farline.toml"
+    )
+    with pytest.raises(CaseError, match=r"boundaries\.0\.layer: d\.dxf: layer 'FARLINE'.*beyond"):
+        load_case(line_far)
+
+
+def test_cli(tmp_path, capsys):
+    case = write_case(tmp_path, BASE)
+    assert main(["check", str(case), "--set", "probes.0.at.1=1e308"]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "probes.0.at.1" in err[0]
