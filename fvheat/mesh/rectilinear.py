@@ -391,19 +391,50 @@ def _seg_text(seg) -> str:
     return f"({x0:.6g}, {y0:.6g})–({x1:.6g}, {y1:.6g}) m"
 
 
+#: points per probe line checked to lie in the body: 5 × 400 + 1, a superset of the
+#: 401 equally spaced points fvheat.evaluate.fronts samples along a line
+LINE_CHECK_POINTS = 2001
+
+
 def check_probes(case: Case, mesh: Mesh) -> None:
-    """Raise :class:`CaseError` for a probe that lies outside every cell of the body."""
+    """Raise :class:`CaseError` for a probe that lies outside every cell of the body, and
+    for a probe line that leaves the body anywhere along its length."""
     g = mesh.grid
     if g is None:
         return
     tol = 1e-12 * max(float(np.ptp(g.x)), float(np.ptp(g.y)), 1.0)
     for k, p in enumerate(case.probes):
-        px, py = p.at
-        cols = np.flatnonzero((g.x[:-1] <= px + tol) & (g.x[1:] >= px - tol))
-        rows = np.flatnonzero((g.y[:-1] <= py + tol) & (g.y[1:] >= py - tol))
-        if not (g.cell_index[np.ix_(rows, cols)] >= 0).any():
+        if not _in_body(g, np.array([p.at]), tol)[0]:
             raise CaseError(
                 f"point {list(p.at)} is outside the body (no region covers it)",
                 file=str(case.source),
                 key=f"probes.{k}.at",
             )
+    s = np.linspace(0.0, 1.0, LINE_CHECK_POINTS)[:, None]
+    for k, line in enumerate(case.probe_lines):
+        a, b = np.asarray(line.start, float), np.asarray(line.end, float)
+        pts = a + s * (b - a)
+        inside = _in_body(g, pts, tol)
+        if not inside.all():
+            x, y = pts[int(np.argmin(inside))]
+            raise CaseError(
+                f"the line from {list(line.start)} to {list(line.end)} leaves the body at "
+                f"({x:.6g}, {y:.6g}) m (no region covers it): a probe line must run "
+                "through the body over its whole length",
+                file=str(case.source),
+                key=f"probe_lines.{k}",
+            )
+
+
+def _in_body(g: RectGrid, pts: np.ndarray, tol: float) -> np.ndarray:
+    """Whether each point (n, 2) m lies in, or within ``tol`` of, a cell of the body."""
+    nx, ny = g.x.size - 1, g.y.size - 1
+    out = np.zeros(len(pts), dtype=bool)
+    for dx in (-tol, tol):
+        for dy in (-tol, tol):
+            i = np.searchsorted(g.x, pts[:, 0] + dx, side="right") - 1
+            j = np.searchsorted(g.y, pts[:, 1] + dy, side="right") - 1
+            ok = (i >= 0) & (i < nx) & (j >= 0) & (j < ny)
+            cell = g.cell_index[np.clip(j, 0, ny - 1), np.clip(i, 0, nx - 1)]
+            out |= ok & (cell >= 0)
+    return out

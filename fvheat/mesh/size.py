@@ -51,6 +51,7 @@ def check_grid_size(
         return
     s = case.mesh
     what = "the grid check's refined grid (every cell size halved)" if refined else "the grid"
+    suggest = _round_up(max(cells, at_most or 0))
     upto = ""
     if at_most is not None and at_most > cells:
         upto = f", up to {at_most:,} with the finer cells at re-entrant corners"
@@ -61,8 +62,7 @@ def check_grid_size(
         f"give larger cells (max_cell = {s.max_cell:g} m, min_cell = {s.min_cell:g} m, "
         f"corner cells {s.corner_size:g} m)"
         + (", run without the grid check (--no-grid-check)" if refined else "")
-        + f", or raise the limit (--set mesh.max_cells={_round_up(max(cells, at_most or 0))}) if the machine "
-        "has the memory",
+        + f", or raise the limit (--set mesh.max_cells={suggest}) if the machine has the memory",
         file=str(case.source),
         key="mesh.max_cells",
     )
