@@ -25,6 +25,9 @@ SCHEMES = ("backward_euler", "crank_nicolson")
 #: of the step giving at most this many (every saved state is a field kept in memory and a
 #: VTU file)
 DEFAULT_SAVES = 100
+#: the most time steps a run may take: a year at 30 s steps (about 1 000 000 steps); more
+#: is a slip in ``duration`` or ``step`` (and would run for days)
+MAX_STEPS = 1_000_000
 
 
 def parse_time(value: Any, ctx: Context) -> TimeSettings | None:
@@ -54,6 +57,12 @@ def parse_time(value: Any, ctx: Context) -> TimeSettings | None:
             "time.step", f"step = {step:g} s is longer than the duration = {duration:g} s"
         )
     n_steps = duration / step
+    if n_steps > MAX_STEPS:
+        raise Invalid(
+            "time.step",
+            f"duration = {duration:g} s in steps of {step:g} s makes {n_steps:.4g} time steps, "
+            f"more than {MAX_STEPS:,}: give a longer step or a shorter duration",
+        )
     if abs(n_steps - round(n_steps)) > 1e-9 * n_steps:
         raise Invalid(
             "time.duration",

@@ -1,4 +1,4 @@
-"""Absurd coordinates are one line naming the file and the key: every point of a case
+"""Absurd coordinates and run lengths are one line naming the file and the key: every point of a case
 goes through one reader (fvheat.case.fields.coordinate), limited to ±1e6 m after the unit
 conversion, and points taken from a drawing are checked the same way."""
 
@@ -140,3 +140,19 @@ def test_cli(tmp_path, capsys):
     assert main(["check", str(case), "--set", "probes.0.at.1=1e308"]) == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and "probes.0.at.1" in err[0]
+
+
+@pytest.mark.parametrize(("duration", "step"), [("1e7", "1"), ("1e300", "1e290")])
+def test_more_than_a_million_steps(duration, step):
+    """duration / step beyond 1 000 000 steps: one line at time.step (a run of 1e7 steps
+    ran for hours before; found by tests/cli/test_fuzz.py)."""
+    with pytest.raises(CaseError, match=r": time\.step: .* time steps, more than 1,000,000"):
+        load_case(
+            "cases/wall_daily_cycle.toml",
+            [f"time.duration={duration}", f"time.step={step}", f"time.save_every={step}"],
+        )
+    # a year at one-minute steps is accepted
+    load_case(
+        "cases/wall_daily_cycle.toml",
+        ["time.duration=31536000", "time.step=60", "time.save_every=86400"],
+    )
