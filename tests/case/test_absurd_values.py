@@ -1,6 +1,7 @@
-"""Absurd coordinates and run lengths are one line naming the file and the key: every point of a case
-goes through one reader (fvheat.case.fields.coordinate), limited to ±1e6 m after the unit
-conversion, and points taken from a drawing are checked the same way."""
+"""Absurd coordinates and run lengths are one line naming the file and the key: every
+point of a case goes through one reader (fvheat.case.fields.coordinate), limited to ±1e6 m
+after the unit conversion, points taken from a drawing are checked the same way, and a run
+may take at most 1 000 000 time steps."""
 
 from __future__ import annotations
 
