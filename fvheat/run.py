@@ -9,6 +9,7 @@ from typing import Any
 
 from fvheat.case.load import load_case
 from fvheat.checks import check_model
+from fvheat.errors import ConvergenceError
 from fvheat.mesh.rectilinear import build_mesh
 from fvheat.output.lock import folder_lock
 from fvheat.output.paths import check_output_folder
@@ -32,7 +33,7 @@ def run_to_folder(
     time of the solves). A folder this run created is removed again if the run fails
     before writing anything into it."""
     from fvheat.output.folder import clear_outputs
-    from fvheat.output.summary import build_summary, write_summary
+    from fvheat.output.summary import build_summary, non_finite_keys, write_summary
     from fvheat.output.timeseries import write_timeseries
 
     case = load_case(case_file, overrides)
@@ -49,6 +50,12 @@ def run_to_folder(
             )
             summary = build_summary(study, overrides)
             summary["solve_seconds"] = time.perf_counter() - t0
+            bad = non_finite_keys(summary)
+            if bad:  # nothing is written: the earlier run's outputs stay as they were
+                raise ConvergenceError(
+                    f"the results hold NaN or infinite values ({', '.join(bad[:3])}"
+                    f"{', …' if len(bad) > 3 else ''}): check the inputs' magnitudes"
+                )
             clear_outputs(out)
             write_summary(out / "summary.json", summary)
             if case.transient:

@@ -23,6 +23,11 @@ from fvheat.case.model import (
 from fvheat.case.signals import Signal
 from fvheat.case.values import read_signal
 
+#: W/(m²·K): the largest surface coefficient (resistance ≥ 1e-6 m²·K/W); condensing or
+#: boiling water reaches about 1e4 (common practice): a fixed surface temperature is
+#: `temperature = ...`, not a huge coefficient
+LARGEST_COEFFICIENT = 1e6
+
 _SURFACE_KEYS = ("resistance", "convection", "emissivity", "radiant_temperature")
 _BOUNDARY_KEYS = (
     "name",
@@ -108,7 +113,7 @@ def _boundary(tbl: dict, path: str, seen: dict[str, str], ctx: Context) -> Bound
         return Boundary(name=bname, edges=edges, kind="flux", heat_flux=heat_flux)
 
     air = signal("air_temperature", is_temperature=True)
-    resistance = number(tbl, "resistance", path, required=False, gt=0)
+    resistance = number(tbl, "resistance", path, required=False, ge=1.0 / LARGEST_COEFFICIENT)
     if resistance is not None:
         for key in ("convection", "emissivity"):
             if key in tbl:
@@ -120,7 +125,9 @@ def _boundary(tbl: dict, path: str, seen: dict[str, str], ctx: Context) -> Bound
                 )
         convection = 1.0 / resistance
     elif "convection" in tbl or "emissivity" in tbl:
-        convection = number(tbl, "convection", path, required=False, default=0.0, ge=0)
+        convection = number(
+            tbl, "convection", path, required=False, default=0.0, ge=0, le=LARGEST_COEFFICIENT
+        )
     else:
         raise Invalid(
             join(path, "resistance"),

@@ -22,6 +22,10 @@ NAME_PATTERN = re.compile(r"[A-Za-z0-9_.-]+")
 ABSOLUTE_ZERO = -273.15
 """°C."""
 
+HIGHEST_TEMPERATURE = 10_000.0
+"""°C: the highest temperature a case may give (a building fire is about 1 200 °C; above
+this the radiation terms lose their meaning and the number is a slip)."""
+
 COORDINATE_LIMIT = 1e6
 """m: the largest |x| or |y| of any point of a case (after unit conversion); a building
 junction is metres across, so a coordinate beyond a thousand kilometres is a typing or
@@ -254,7 +258,12 @@ def whole_number(
 
 
 def temperature(value: float, path: str) -> float:
-    """``value`` (°C) checked to be above absolute zero."""
+    """``value`` (°C) checked to be above absolute zero and at most
+    :data:`HIGHEST_TEMPERATURE`."""
     if value <= ABSOLUTE_ZERO:
         raise Invalid(path, f"{value:g} °C is not above absolute zero ({ABSOLUTE_ZERO} °C)")
+    if value > HIGHEST_TEMPERATURE:
+        raise Invalid(
+            path, f"{value:g} °C is above {HIGHEST_TEMPERATURE:g} °C: check the number and its unit"
+        )
     return value

@@ -96,7 +96,8 @@ def parse_junction(value: Any, ctx: Context) -> Junction | None:
         _flanking(t, join(join(path, "flanking"), i), seen, dimensions)
         for i, t in enumerate(tables(tbl.get("flanking", []), join(path, "flanking")))
     )
-    humidity = number(tbl, "indoor_humidity", path, required=False, gt=0, le=100)
+    # below 1 % the dew point leaves the range of the saturation-pressure formulas
+    humidity = number(tbl, "indoor_humidity", path, required=False, ge=1, le=100)
     grid = tbl.get("grid_check", False)
     if not isinstance(grid, bool):
         raise Invalid(join(path, "grid_check"), f"expected true or false, got {describe(grid)}")

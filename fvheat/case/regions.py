@@ -110,7 +110,8 @@ def _cavity_material(value: Any, path: str, vertices: np.ndarray) -> Material:
     section = string(
         tbl, "section", path, required=False, default="vertical", choices=("vertical", "plan")
     )
-    eps = number(tbl, "emissivity", path, required=False, default=0.9, gt=0, le=1)
+    # polished metal and low-e coatings reach about 0.02 (common practice)
+    eps = number(tbl, "emissivity", path, required=False, default=0.9, ge=0.01, le=1)
     vent = string(
         tbl, "ventilation", path, required=False, default="none", choices=("none", "slight")
     )

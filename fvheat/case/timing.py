@@ -97,6 +97,13 @@ def parse_time(value: Any, ctx: Context) -> TimeSettings | None:
     max_cycles = number(tbl, "max_cycles", path, required=False, default=200, ge=1)
     if max_cycles != int(max_cycles):
         raise Invalid("time.max_cycles", f"expected a whole number, got {max_cycles:g}")
+    if periodic and round(n_steps) * max_cycles > MAX_STEPS:
+        raise Invalid(
+            "time.step",
+            f"a periodic run of up to max_cycles = {max_cycles:g} cycles of {round(n_steps):,} "
+            f"steps may take {round(n_steps) * max_cycles:.4g} time steps, more than "
+            f"{MAX_STEPS:,}: give a longer step or a smaller max_cycles",
+        )
     return TimeSettings(
         duration=duration,
         step=step,

@@ -1,3 +1,4 @@
+# ruff: noqa: E501  (the table of absurd values reads best one case per line)
 """Absurd coordinates and run lengths are one line naming the file and the key: every
 point of a case goes through one reader (fvheat.case.fields.coordinate), limited to ±1e6 m
 after the unit conversion, points taken from a drawing are checked the same way, and a run
@@ -157,3 +158,52 @@ def test_more_than_a_million_steps(duration, step):
         "cases/wall_daily_cycle.toml",
         ["time.duration=31536000", "time.step=60", "time.save_every=86400"],
     )
+
+
+def test_periodic_cycles_count_too():
+    """A periodic run repeats its cycle up to max_cycles times: 86 400 one-second steps ×
+    200 cycles is refused (a fuzzed PCM case ran for many minutes); fewer cycles pass."""
+    with pytest.raises(CaseError, match=r": time\.step: a periodic run of up to max_cycles = 200"):
+        load_case("cases/pcm_wall.toml", ["time.step=1", "time.save_every=3600"])
+    load_case("cases/pcm_wall.toml", ["time.step=60", "time.save_every=3600"])
+
+
+@pytest.mark.parametrize(
+    ("case", "override", "key", "words"),
+    [
+        # material properties far outside every building material (classes found by fuzzing)
+        ("balcony_slab", "materials.slab.conductivity=1e-30", "materials.slab.conductivity", "at least 1e-05"),
+        ("balcony_slab", "materials.slab.conductivity=1e308", "materials.slab.conductivity", "at most 10000"),
+        ("wall_daily_cycle", "materials.brick.density=1e-30", "materials.brick.density", "at least 0.01"),
+        ("wall_daily_cycle", "materials.brick.specific_heat=1e300", "materials.brick.specific_heat", "at most 100000"),
+        ("frost_slab_edge", "materials.silt.latent_heat=1e12", "materials.silt.latent_heat", "at most 1e+07"),
+        ("frost_slab_edge", "materials.silt.frozen.conductivity=1e9", "materials.silt.frozen.conductivity", "at most 10000"),
+        # surface coefficients beyond 1e6 W/(m²·K)
+        ("balcony_slab", "boundaries.3.resistance=1e-9", "boundaries.3.resistance", "at least 1e-06"),
+        # temperatures above 10 000 °C: constant, cosine, a CSV column scaled
+        ("wall_daily_cycle", "boundaries.0.air_temperature=20000", "boundaries.0.air_temperature", "above 10000 °C"),
+        ("wall_daily_cycle", "boundaries.1.air_temperature={mean=1e5, amplitude=5, period=86400}", "boundaries.1.air_temperature", "above 10000 °C"),
+        ("frost_slab_edge", "boundaries.2.air_temperature.scale=1e6", "boundaries.2.air_temperature", "at most 10000 °C"),
+        ("frost_slab_edge", "boundaries.2.air_temperature.scale=-1e3", "boundaries.2.air_temperature", "absolute zero"),
+        # a cosine period below 1 ms
+        ("wall_daily_cycle", "boundaries.1.air_temperature={mean=0, amplitude=5, period=1e-4}", "boundaries.1.air_temperature.period", "at least 0.001"),
+        # a cavity surface of almost no emissivity, indoor humidity below 1 %
+        ("window_frame_section", "regions.1.cavity.emissivity=1e-9", "regions.1.cavity.emissivity", "at least 0.01"),
+        ("balcony_slab", "junction.indoor_humidity=0.001", "junction.indoor_humidity", "at least 1"),
+    ],
+)  # fmt: skip
+def test_absurd_values(case, override, key, words):
+    with pytest.raises(CaseError) as err:
+        load_case(f"cases/{case}.toml", [override])
+    text = str(err.value)
+    assert "\n" not in text
+    assert f": {key}: " in text and words in text, text
+
+
+def test_condensation_humidity_below_one_percent():
+    over = 'condensation={boundaries = ["inside"], relative_humidity = 0.5}'
+    with pytest.raises(
+        CaseError, match=r"condensation\.relative_humidity: must stay within \[1, 100\] %"
+    ):
+        load_case("cases/wall_daily_cycle.toml", [over])
+    load_case("cases/wall_daily_cycle.toml", [over.replace("0.5", "1")])

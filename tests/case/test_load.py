@@ -348,7 +348,7 @@ ERRORS = [
         [],
         ["materials.concrete.conductivity=0"],
         "materials.concrete.conductivity",
-        "greater than 0",
+        "at least 1e-05",
     ),
     ("k missing", [("conductivity = 2.3\n", "")], [], "materials.concrete.conductivity", "missing"),
     (
