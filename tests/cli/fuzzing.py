@@ -280,7 +280,7 @@ def known_class(rng: random.Random, data: Any) -> str | None:
     """An absurd value of a class an earlier adversarial pass found."""
     if not isinstance(data, dict):
         return None
-    choice = rng.randrange(14)
+    choice = rng.randrange(15)
     mats = data.get("materials")
     bnds = data.get("boundaries")
     name = rng.choice(list(mats)) if isinstance(mats, dict) and mats else None
@@ -351,6 +351,11 @@ def known_class(rng: random.Random, data: Any) -> str | None:
         edits = [(("mesh", "max_cells"), rng.choice([1, 10, 2**62, 1e308]))]
     elif choice == 13:
         edits = [(("mesh", "growth"), rng.choice([1.0000000001, 3.0, 1e308]))]
+    elif choice == 14:  # a device where a file is read (read for ever unless refused)
+        if isinstance(data.get("geometry"), dict) and "drawing" in data["geometry"]:
+            edits = [(("geometry", "drawing"), "/dev/zero")]
+        elif b is not None:
+            edits = [(("boundaries", b, "air_temperature"), {"file": "/dev/zero", "column": "x"})]
     done = [dotted(p) for p, v in edits if _set_key(data, p, v)]
     return f"known class {choice}: {', '.join(done)}" if done else None
 
