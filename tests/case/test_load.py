@@ -395,7 +395,7 @@ ERRORS = [
             "materials.concrete.frozen={conductivity = -2}",
         ],
         "materials.concrete.frozen.conductivity",
-        "greater than 0",
+        "at least 1e-05",
     ),
     (
         "unknown material",
@@ -547,7 +547,7 @@ ERRORS = [
         [],
         ["boundaries.1.air_temperature.period=0"],
         "boundaries.1.air_temperature.period",
-        "greater than 0",
+        "at least 0.001",
     ),
     (
         "cosine without mean",
