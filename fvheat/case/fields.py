@@ -240,10 +240,16 @@ def point(value: Any, path: str) -> tuple[float, float]:
 
 
 def whole_number(
-    tbl: Mapping[str, Any], key: str, path: str, *, default: int, least: int = 0
+    tbl: Mapping[str, Any],
+    key: str,
+    path: str,
+    *,
+    default: int,
+    least: int = 0,
+    most: int | None = None,
 ) -> int:
-    """``tbl[key]`` as a whole number ≥ ``least`` (``default`` when absent); a float with
-    no fraction (``4e6``) is accepted."""
+    """``tbl[key]`` as a whole number from ``least`` to ``most`` (``default`` when absent);
+    a float with no fraction (``4e6``) is accepted."""
     if key not in tbl:
         return default
     value = tbl[key]
@@ -254,6 +260,8 @@ def whole_number(
         raise Invalid(kpath, f"expected a whole number, got {describe(value)}")
     if value < least:
         raise Invalid(kpath, f"must be at least {least}, got {value}")
+    if most is not None and value > most:
+        raise Invalid(kpath, f"must be at most {most:,}, got {value:.4g}")
     return value
 
 

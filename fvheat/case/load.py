@@ -169,7 +169,10 @@ def _mesh(value: Any, ctx: Context) -> MeshSettings:
             f"corner_cell = {corner:g} m must not exceed min_cell = {min_cell:g} m "
             "(give corner_cell = min_cell for no extra refinement at corners)",
         )
-    max_cells = whole_number(tbl, "max_cells", "mesh", default=DEFAULT_MAX_CELLS, least=1)
+    # a billion cells is about a terabyte of memory: beyond any machine fvheat runs on
+    max_cells = whole_number(
+        tbl, "max_cells", "mesh", default=DEFAULT_MAX_CELLS, least=1, most=1_000_000_000
+    )
     return MeshSettings(
         max_cell=max_cell,
         min_cell=min_cell,

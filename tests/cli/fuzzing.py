@@ -424,7 +424,7 @@ def make_cases(seed: int, count: int) -> list[Mutant]:
     """``count`` mutants of the demo cases, reproducible from ``seed``: 1 to 3 mutations
     each, a third of them with ``--set`` overrides; about one in five runs only
     ``fvheat check``; about 15 % get only :func:`gentle` changes (valid cases whose runs
-    reach the outputs, one in six with figures); one in ten is not quiet."""
+    reach the outputs, one in twelve with figures); one in ten is not quiet."""
     rng = random.Random(seed)
     demos = demo_cases()
     names = sorted(demos)
@@ -441,7 +441,7 @@ def make_cases(seed: int, count: int) -> list[Mutant]:
         if not mild and rng.random() < 0.33:
             m.overrides = set_overrides(rng, data)
         m.command = "check" if not mild and rng.random() < 0.2 else "run"
-        m.plots = m.command == "run" and rng.random() < (1 / 6 if mild else 1 / 40)
+        m.plots = m.command == "run" and rng.random() < (1 / 12 if mild else 1 / 60)
         m.quiet = rng.random() >= 0.1
         out.append(m)
     return out

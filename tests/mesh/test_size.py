@@ -139,6 +139,8 @@ def test_cli_refusal_is_one_line_exit_2(tmp_path, capsys):
         ('max_cells = "many"', "mesh.max_cells", ("whole number",)),
         ("max_cells = 0", "mesh.max_cells", ("at least 1",)),
         ("max_cells = 1.5", "mesh.max_cells", ("whole number",)),
+        ("max_cells = 1e308", "mesh.max_cells", ("at most 1,000,000,000",)),
+        ("max_cells = 4611686018427387904", "mesh.max_cells", ("at most 1,000,000,000",)),
         ("min_cell = 1e-300", "mesh.min_cell", ("at least 1e-06",)),
         ("corner_cell = 1e-300", "mesh.corner_cell", ("at least 1e-06",)),
         ("min_cell = nan", "mesh.min_cell", ("finite",)),
