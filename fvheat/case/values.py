@@ -103,7 +103,8 @@ def _series(value: dict, path: str, ctx: Context, *, is_temperature: bool) -> Se
             f"period = {period:g} s must exceed the table's span ({times[-1] - times[0]:g} s): "
             "the last row is followed by the first row of the next period",
         )
-    values = values * scale
+    with np.errstate(over="ignore"):  # a huge scale gives inf, refused just below
+        values = values * scale
     if is_temperature:  # after the scale, which may turn a sane column into an absurd one
         bad = (values <= ABSOLUTE_ZERO) | (values > HIGHEST_TEMPERATURE)
         if bad.any():

@@ -184,6 +184,7 @@ def test_periodic_cycles_count_too():
         ("wall_daily_cycle", "boundaries.0.air_temperature=20000", "boundaries.0.air_temperature", "above 10000 °C"),
         ("wall_daily_cycle", "boundaries.1.air_temperature={mean=1e5, amplitude=5, period=86400}", "boundaries.1.air_temperature", "above 10000 °C"),
         ("frost_slab_edge", "boundaries.2.air_temperature.scale=1e6", "boundaries.2.air_temperature", "at most 10000 °C"),
+        ("frost_slab_edge", "boundaries.2.air_temperature.scale=1e308", "boundaries.2.air_temperature", "at most 10000 °C"),
         ("frost_slab_edge", "boundaries.2.air_temperature.scale=-1e3", "boundaries.2.air_temperature", "absolute zero"),
         # a cosine period below 1 ms
         ("wall_daily_cycle", "boundaries.1.air_temperature={mean=0, amplitude=5, period=1e-4}", "boundaries.1.air_temperature.period", "at least 0.001"),
