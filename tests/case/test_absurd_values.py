@@ -186,6 +186,8 @@ def test_periodic_cycles_count_too():
         ("frost_slab_edge", "boundaries.2.air_temperature.scale=1e6", "boundaries.2.air_temperature", "at most 10000 °C"),
         ("frost_slab_edge", "boundaries.2.air_temperature.scale=1e308", "boundaries.2.air_temperature", "at most 10000 °C"),
         ("frost_slab_edge", "boundaries.2.air_temperature.scale=-1e3", "boundaries.2.air_temperature", "absolute zero"),
+        # an imposed heat flux beyond 1e6 W/m² (temperatures overflowed: exit 1 buried in warnings)
+        ("wall_daily_cycle", 'boundaries.1={name="outside", edges=[[[0.365, 0], [0.365, 1.2]]], heat_flux=1e308}', "boundaries.1.heat_flux", "beyond ±1e+06 W/m²"),
         # a cosine period below 1 ms
         ("wall_daily_cycle", "boundaries.1.air_temperature={mean=0, amplitude=5, period=1e-4}", "boundaries.1.air_temperature.period", "at least 0.001"),
         # a cavity surface of almost no emissivity, indoor humidity below 1 %
