@@ -10,6 +10,7 @@ import numpy as np
 from fvheat.case.fields import (
     Context,
     Invalid,
+    check_length,
     describe,
     join,
     name,
@@ -199,7 +200,6 @@ def _edges(value: Any, path: str) -> tuple[Segment, ...]:
                 spath, f"expected a segment [[x0, y0], [x1, y1]], got {describe(seg)}{hint}"
             )
         start, end = point(seg[0], join(spath, 0)), point(seg[1], join(spath, 1))
-        if start == end:
-            raise Invalid(spath, "the segment has zero length (its two points coincide)")
+        check_length(start, end, spath)
         segments.append((start, end))
     return tuple(segments)

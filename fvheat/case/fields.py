@@ -239,6 +239,20 @@ def point(value: Any, path: str) -> tuple[float, float]:
     return coordinate(value[0], join(path, 0)), coordinate(value[1], join(path, 1))
 
 
+def check_length(
+    start: tuple[float, float], end: tuple[float, float], path: str, what: str = "segment"
+) -> None:
+    """Raise :class:`Invalid` at ``path`` when the ``what`` from ``start`` to ``end`` (m)
+    is shorter than :data:`SMALLEST_CELL` (a round-off length no grid can hold)."""
+    length = math.hypot(end[0] - start[0], end[1] - start[1])
+    if length < SMALLEST_CELL:
+        raise Invalid(
+            path,
+            f"the {what} is {length:g} m long, shorter than {SMALLEST_CELL:g} m (its two "
+            "points coincide or differ by round-off)",
+        )
+
+
 def whole_number(
     tbl: Mapping[str, Any],
     key: str,

@@ -36,6 +36,7 @@ from typing import Any
 from fvheat.case.fields import (
     Context,
     Invalid,
+    check_length,
     describe,
     join,
     name,
@@ -199,6 +200,7 @@ def _flanking(tbl: dict, path: str, seen: dict[str, str], primary: str) -> Flank
                 join(path, "cut"), f"expected a segment [[x0, y0], [x1, y1]], got {describe(c)}"
             )
         cut = (point(c[0], join(join(path, "cut"), 0)), point(c[1], join(join(path, "cut"), 1)))
+        check_length(*cut, join(path, "cut"), "cut")
     if (u is None) == (cut is None):
         raise Invalid(
             path, "give exactly one of u_value (W/(m²·K)) or cut (a segment across the element)"

@@ -9,6 +9,7 @@ from typing import Any
 import numpy as np
 
 from fvheat.case.fields import (
+    SMALLEST_CELL,
     Context,
     Invalid,
     coordinate,
@@ -178,6 +179,12 @@ def _box(value: Any, path: str) -> np.ndarray:
         raise Invalid(
             path, f"needs x1 > x0 and y1 > y0 (box = [x0, y0, x1, y1]), got {[x0, y0, x1, y1]}"
         )
+    if min(x1 - x0, y1 - y0) < SMALLEST_CELL:
+        raise Invalid(
+            path,
+            f"the box is {x1 - x0:g} m × {y1 - y0:g} m: thinner than {SMALLEST_CELL:g} m "
+            "(round-off in a coordinate?)",
+        )
     return _box_vertices(x0, y0, x1, y1)
 
 
@@ -195,6 +202,13 @@ def _polygon(value: Any, path: str) -> tuple[np.ndarray, bool]:
         raise Invalid(path, f"a polygon needs at least 3 vertices, got {len(pts)}")
     p = np.array(pts, dtype=float)
     n = len(p)
+    extent = np.ptp(p, axis=0)
+    if float(extent.min()) < SMALLEST_CELL:
+        raise Invalid(
+            path,
+            f"the polygon spans {extent[0]:g} m × {extent[1]:g} m: thinner than "
+            f"{SMALLEST_CELL:g} m (round-off in a coordinate?)",
+        )
     edge = np.roll(p, -1, axis=0) - p
     scale = float(np.ptp(p, axis=0).max())
     short = np.flatnonzero(np.hypot(edge[:, 0], edge[:, 1]) <= 1e-12 * scale)

@@ -210,3 +210,23 @@ def test_condensation_humidity_below_one_percent():
     ):
         load_case("cases/wall_daily_cycle.toml", [over])
     load_case("cases/wall_daily_cycle.toml", [over.replace("0.5", "1")])
+
+
+@pytest.mark.parametrize(
+    ("override", "key", "words"),
+    [
+        # round-off boxes, polygons, segments, cuts and lines (found by tests/cli/test_fuzz.py:
+        # numpy warnings on the way to an error, a traceback from the layer cut)
+        ("regions.0.box.3=1e-300", "regions.0.box", "thinner than 1e-06 m"),
+        ("regions.0.box.2=1e-13", "regions.0.box", "thinner than 1e-06 m"),
+        ("regions.1.polygon=[[0.3, 0], [0.5, 0], [0.5, 1e-12]]", "regions.1.polygon", "thinner than 1e-06 m"),
+        ("boundaries.0.edges.0=[[0, 0], [0, 1e-13]]", "boundaries.0.edges.0", "shorter than 1e-06 m"),
+        ("junction.flanking.0.cut.1=[1e-9, 0.9]", "junction.flanking.0.cut", "shorter than 1e-06 m"),
+        ("probe_lines.0.end=[1e-12, 0.5]", "probe_lines.0.end", "shorter than 1e-06 m"),
+    ],
+)  # fmt: skip
+def test_round_off_sizes(tmp_path, override, key, words):
+    case = write_case(tmp_path, BASE)
+    with pytest.raises(CaseError) as err:
+        load_case(case, [override])
+    assert f": {key}: " in str(err.value) and words in str(err.value), str(err.value)
