@@ -525,7 +525,7 @@ ERRORS = [
         [],
         ["boundaries.2.edges.1=[[0.2, 0.0], [0.2, 0.0]]"],
         "boundaries.2.edges.1",
-        "zero length",
+        "0 m long",
     ),
     (
         "bad coordinate",
