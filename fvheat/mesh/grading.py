@@ -39,7 +39,13 @@ def size_function(
     # With h = a + s·t and unit steps in ∫ dt/h, consecutive cells differ by exp(s) = growth;
     # a = h0·s/(exp(s) − 1) makes the first cell h0.
     a = start * s / np.expm1(s)
-    h = np.min(a[None, :] + s * np.abs(t[:, None] - keys[None, :]), axis=1)
+    # keys farther than max_cell/s from every t give sizes above max_cell: leave them out
+    # (the same result; thousands of key lines would otherwise cost keys² work per line)
+    reach = max_cell / s
+    lo, hi = np.searchsorted(keys, [float(np.min(t)) - reach, float(np.max(t)) + reach])
+    lo = min(int(lo), keys.size - 1)
+    hi = max(int(hi), lo + 1)  # at least one key (then every size is max_cell)
+    h = np.min(a[None, lo:hi] + s * np.abs(t[:, None] - keys[None, lo:hi]), axis=1)
     return np.minimum(h, max_cell)
 
 
