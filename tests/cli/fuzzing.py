@@ -89,6 +89,9 @@ class Mutant:
     plots: bool = False
     quiet: bool = True
     steps: list[str] = field(default_factory=list)
+    #: TOML text appended to the written file (a table given twice is a syntax error no
+    #: data-level mutation can make)
+    extra_text: str = ""
 
 
 def demo_cases() -> dict[str, dict[str, Any]]:
@@ -440,6 +443,11 @@ def make_cases(seed: int, count: int) -> list[Mutant]:
                 m.steps.append(step)
         if not mild and rng.random() < 0.33:
             m.overrides = set_overrides(rng, data)
+        if not mild and rng.random() < 0.03:
+            tables = [k for k, v in data.items() if isinstance(v, dict)]
+            if tables:
+                m.extra_text = f"\n[{rng.choice(tables)}]\nmax_cell = 1\n"
+                m.steps.append("a table given twice")
         m.command = "check" if not mild and rng.random() < 0.2 else "run"
         m.plots = m.command == "run" and rng.random() < (1 / 12 if mild else 1 / 60)
         m.quiet = rng.random() >= 0.1

@@ -8,7 +8,7 @@ script does); a handful run as ``python -m fvheat`` subprocesses, their standard
 pipe (no progress bar may appear there).
 
 Seed and size: ``FVHEAT_FUZZ_SEED`` (default 20261203) and ``FVHEAT_FUZZ_CASES`` (default
-600) in the environment; a failure names the case's index, its source and its mutations.
+500) in the environment; a failure names the case's index, its source and its mutations.
 """
 
 from __future__ import annotations
@@ -30,7 +30,7 @@ from fvheat.cli.main import main
 from .fuzzing import CASES, Mutant, make_cases
 
 SEED = int(os.environ.get("FVHEAT_FUZZ_SEED", "20261203"))
-COUNT = int(os.environ.get("FVHEAT_FUZZ_CASES", "600"))
+COUNT = int(os.environ.get("FVHEAT_FUZZ_CASES", "500"))
 #: cases run as subprocesses (each pays the interpreter's and the imports' start-up)
 SUBPROCESS_CASES = 6
 
@@ -59,7 +59,7 @@ def workspace(tmp_path_factory) -> Path:
 def write(m: Mutant, root: Path) -> tuple[Path, Path]:
     """The mutant's case file and its (not yet existing) results folder."""
     case = root / f"fuzz_{m.index}.toml"
-    case.write_text(dumps(m.data), encoding="utf-8")
+    case.write_text(dumps(m.data) + m.extra_text, encoding="utf-8")
     return case, root / f"out_{m.index}"
 
 
