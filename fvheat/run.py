@@ -9,7 +9,7 @@ from typing import Any
 
 from fvheat.case.load import load_case
 from fvheat.checks import check_model
-from fvheat.errors import CaseError
+from fvheat.errors import CaseError, ConvergenceError
 from fvheat.mesh.select import build_mesh
 from fvheat.output.fields import FIELD_CHOICES
 from fvheat.output.lock import folder_lock
@@ -40,7 +40,7 @@ def run_to_folder(
     differences for ``[parameters]``). A folder this run created is removed again if the
     run fails before writing anything into it."""
     from fvheat.output.folder import clear_outputs
-    from fvheat.output.summary import build_summary, write_summary
+    from fvheat.output.summary import build_summary, non_finite_keys, write_summary
     from fvheat.output.timeseries import write_timeseries
 
     check_fields_choice(fields)
@@ -66,6 +66,12 @@ def run_to_folder(
             t2 = time.perf_counter()
             summary = build_summary(study, overrides)
             summary["solve_seconds"] = time.perf_counter() - t0
+            bad = non_finite_keys(summary)
+            if bad:  # nothing is written: the earlier run's outputs stay as they were
+                raise ConvergenceError(
+                    f"the results hold NaN or infinite values ({', '.join(bad[:3])}"
+                    f"{', …' if len(bad) > 3 else ''}): check the inputs' magnitudes"
+                )
             if want:
                 summary["sensitivity_seconds"] = t2 - t1
             clear_outputs(out)

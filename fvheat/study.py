@@ -12,6 +12,7 @@ from fvheat.checks import check_model
 from fvheat.evaluate.coupling import CouplingResult, coupling_coefficients
 from fvheat.evaluate.junction import JunctionResult, evaluate_junction
 from fvheat.mesh.mesh import Mesh
+from fvheat.mesh.rectilinear import check_refined_size
 from fvheat.mesh.select import build_mesh
 from fvheat.sensitivity.result import Sensitivities
 from fvheat.simulate import Progress, Solution, simulate
@@ -170,10 +171,12 @@ def run_study(
     mesh = mesh if mesh is not None else build_mesh(case)
     if warnings is None:
         warnings = check_model(case, mesh)
-    solution = simulate(case, mesh=mesh, progress=progress, keep_fields=keep_fields)
-    study = Study(solution, warnings=warnings)
     j = case.junction
     want_grid = check_grid if check_grid is not None else (j is not None and j.grid_check)
+    if want_grid:  # a refined grid beyond [mesh] max_cells is refused before any solve
+        check_refined_size(case, mesh, GRID_CHECK_REFINE)
+    solution = simulate(case, mesh=mesh, progress=progress, keep_fields=keep_fields)
+    study = Study(solution, warnings=warnings)
     if j is None and not want_grid:
         return study
     base = solution if not case.transient else simulate(steady_case(case), mesh=mesh)

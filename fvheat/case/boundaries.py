@@ -5,9 +5,12 @@ from __future__ import annotations
 
 from typing import Any
 
+import numpy as np
+
 from fvheat.case.fields import (
     Context,
     Invalid,
+    check_length,
     describe,
     join,
     name,
@@ -20,8 +23,29 @@ from fvheat.case.geometry import layer_segments
 from fvheat.case.model import (
     Boundary,
 )
-from fvheat.case.signals import Signal
+from fvheat.case.signals import Constant, Cosine, Series, Signal
 from fvheat.case.values import read_signal
+
+#: W/(m²·K): the largest surface coefficient (resistance ≥ 1e-6 m²·K/W); condensing or
+#: boiling water reaches about 1e4 (common practice): a fixed surface temperature is
+#: `temperature = ...`, not a huge coefficient
+LARGEST_COEFFICIENT = 1e6
+
+#: W/m²: the largest imposed heat flux (sunshine about 1e3, a fire about 1e5; common
+#: practice): beyond it the temperatures overflow
+LARGEST_FLUX = 1e6
+
+
+def _largest(sig: Signal) -> float:
+    """The largest magnitude a boundary value takes (W/m² for a heat flux)."""
+    if isinstance(sig, Constant):
+        return abs(sig.value)
+    if isinstance(sig, Cosine):
+        return abs(sig.mean) + abs(sig.amplitude)
+    if isinstance(sig, Series):
+        return float(np.max(np.abs(sig.values)))
+    return 0.0
+
 
 _SURFACE_KEYS = ("resistance", "convection", "emissivity", "radiant_temperature")
 _BOUNDARY_KEYS = (
@@ -104,6 +128,12 @@ def _boundary(tbl: dict, path: str, seen: dict[str, str], ctx: Context) -> Bound
         return read_signal(tbl[key], join(path, key), ctx, is_temperature=is_temperature)
 
     heat_flux = signal("heat_flux", is_temperature=False)
+    if heat_flux is not None and _largest(heat_flux) > LARGEST_FLUX:
+        raise Invalid(
+            join(path, "heat_flux"),
+            f"reaches {_largest(heat_flux):.4g} W/m², beyond ±{LARGEST_FLUX:g} W/m²: check the "
+            "number and its unit",
+        )
     if has_temp:
         return Boundary(
             name=bname,
@@ -121,7 +151,7 @@ def _boundary(tbl: dict, path: str, seen: dict[str, str], ctx: Context) -> Bound
         return Boundary(name=bname, edges=edges, kind="flux", heat_flux=heat_flux)
 
     air = signal("air_temperature", is_temperature=True)
-    resistance = number(tbl, "resistance", path, required=False, gt=0)
+    resistance = number(tbl, "resistance", path, required=False, ge=1.0 / LARGEST_COEFFICIENT)
     if resistance is not None:
         for key in ("convection", "emissivity"):
             if key in tbl:
@@ -133,7 +163,9 @@ def _boundary(tbl: dict, path: str, seen: dict[str, str], ctx: Context) -> Bound
                 )
         convection = 1.0 / resistance
     elif "convection" in tbl or "emissivity" in tbl:
-        convection = number(tbl, "convection", path, required=False, default=0.0, ge=0)
+        convection = number(
+            tbl, "convection", path, required=False, default=0.0, ge=0, le=LARGEST_COEFFICIENT
+        )
     else:
         raise Invalid(
             join(path, "resistance"),
@@ -181,7 +213,6 @@ def _edges(value: Any, path: str) -> tuple[Segment, ...]:
                 spath, f"expected a segment [[x0, y0], [x1, y1]], got {describe(seg)}{hint}"
             )
         start, end = point(seg[0], join(spath, 0)), point(seg[1], join(spath, 1))
-        if start == end:
-            raise Invalid(spath, "the segment has zero length (its two points coincide)")
+        check_length(start, end, spath)
         segments.append((start, end))
     return tuple(segments)

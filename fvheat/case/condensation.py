@@ -85,8 +85,8 @@ def parse_condensation(value: Any, ctx: Context) -> Condensation | None:
     values = rh.values if isinstance(rh, Series) else np.array([rh.at(0.0)])
     if isinstance(rh, Cosine):
         values = np.array([rh.mean - abs(rh.amplitude), rh.mean + abs(rh.amplitude)])
-    if np.any(values <= 0) or np.any(values > 100):
-        raise Invalid(join(path, "relative_humidity"), "must stay within (0, 100] %")
+    if np.any(values < 1) or np.any(values > 100):  # below 1 %: outside the dew-point formulas
+        raise Invalid(join(path, "relative_humidity"), "must stay within [1, 100] %")
     return Condensation(
         boundaries=tuple(names),
         air_temperature=air,

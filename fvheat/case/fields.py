@@ -22,6 +22,19 @@ NAME_PATTERN = re.compile(r"[A-Za-z0-9_.-]+")
 ABSOLUTE_ZERO = -273.15
 """°C."""
 
+HIGHEST_TEMPERATURE = 10_000.0
+"""°C: the highest temperature a case may give (a building fire is about 1 200 °C; above
+this the radiation terms lose their meaning and the number is a slip)."""
+
+COORDINATE_LIMIT = 1e6
+"""m: the largest |x| or |y| of any point of a case (after unit conversion); a building
+junction is metres across, so a coordinate beyond a thousand kilometres is a typing or
+unit slip (and would defeat the mesher's tolerances)."""
+
+SMALLEST_CELL = 1e-6
+"""m: the smallest cell edge ``[mesh]`` accepts (1 µm; films thinner than that are
+modelled as surface resistances, not meshed)."""
+
 
 class Invalid(Exception):
     """A bad value at the dotted ``key`` path; ``message`` says what is wrong and how to fix it."""
@@ -259,15 +272,90 @@ def name(value: Any, path: str, seen: dict[str, str]) -> str:
     return value
 
 
+def coordinate(value: Any, path: str) -> float:
+    """One coordinate (m), finite and within ±:data:`COORDINATE_LIMIT`; every point of a
+    case (regions, boundaries, probes, junction cuts) is read through this."""
+    x = to_number(value, path)
+    if abs(x) > COORDINATE_LIMIT:
+        raise Invalid(
+            path,
+            f"coordinate {x:g} m is beyond ±{COORDINATE_LIMIT:g} m; a junction is metres "
+            "across: check the number and the units ([geometry] units)",
+        )
+    return x
+
+
+def check_coordinates(points: Any, path: str, what: str) -> None:
+    """Raise :class:`Invalid` at ``path`` when an array of points (m) taken from elsewhere
+    (a drawing) holds a non-finite value or one beyond ±:data:`COORDINATE_LIMIT`;
+    ``what`` names the points in the message."""
+    import numpy as np
+
+    p = np.asarray(points, dtype=float)
+    bad = ~np.isfinite(p) | (np.abs(np.where(np.isfinite(p), p, 0.0)) > COORDINATE_LIMIT)
+    if bad.any():
+        v = float(p.ravel()[int(np.flatnonzero(bad.ravel())[0])])
+        raise Invalid(
+            path,
+            f"{what} has the coordinate {v:g} m, beyond ±{COORDINATE_LIMIT:g} m (or not "
+            "finite): check the drawing and [geometry] units",
+        )
+
+
 def point(value: Any, path: str) -> tuple[float, float]:
-    """A point ``[x, y]`` (m)."""
+    """A point ``[x, y]`` (m), each coordinate read by :func:`coordinate`."""
     if not isinstance(value, list) or len(value) != 2:
         raise Invalid(path, f"expected a point [x, y] (m), got {describe(value)}")
-    return to_number(value[0], join(path, 0)), to_number(value[1], join(path, 1))
+    return coordinate(value[0], join(path, 0)), coordinate(value[1], join(path, 1))
+
+
+def check_length(
+    start: tuple[float, float], end: tuple[float, float], path: str, what: str = "segment"
+) -> None:
+    """Raise :class:`Invalid` at ``path`` when the ``what`` from ``start`` to ``end`` (m)
+    is shorter than :data:`SMALLEST_CELL` (a round-off length no grid can hold)."""
+    length = math.hypot(end[0] - start[0], end[1] - start[1])
+    if length < SMALLEST_CELL:
+        raise Invalid(
+            path,
+            f"the {what} is {length:g} m long, shorter than {SMALLEST_CELL:g} m (its two "
+            "points coincide or differ by round-off)",
+        )
+
+
+def whole_number(
+    tbl: Mapping[str, Any],
+    key: str,
+    path: str,
+    *,
+    default: int,
+    least: int = 0,
+    most: int | None = None,
+) -> int:
+    """``tbl[key]`` as a whole number from ``least`` to ``most`` (``default`` when absent);
+    a float with no fraction (``4e6``) is accepted."""
+    if key not in tbl:
+        return default
+    value = tbl[key]
+    kpath = join(path, key)
+    if isinstance(value, float) and math.isfinite(value) and value.is_integer():
+        value = int(value)
+    if isinstance(value, bool) or not isinstance(value, int):
+        raise Invalid(kpath, f"expected a whole number, got {describe(value)}")
+    if value < least:
+        raise Invalid(kpath, f"must be at least {least}, got {value}")
+    if most is not None and value > most:
+        raise Invalid(kpath, f"must be at most {most:,}, got {value:.4g}")
+    return value
 
 
 def temperature(value: float, path: str) -> float:
-    """``value`` (°C) checked to be above absolute zero."""
+    """``value`` (°C) checked to be above absolute zero and at most
+    :data:`HIGHEST_TEMPERATURE`."""
     if value <= ABSOLUTE_ZERO:
         raise Invalid(path, f"{value:g} °C is not above absolute zero ({ABSOLUTE_ZERO} °C)")
+    if value > HIGHEST_TEMPERATURE:
+        raise Invalid(
+            path, f"{value:g} °C is above {HIGHEST_TEMPERATURE:g} °C: check the number and its unit"
+        )
     return value

@@ -24,7 +24,7 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from fvheat.case.fields import Context, Invalid, describe, string, table
+from fvheat.case.fields import Context, Invalid, check_coordinates, describe, string, table
 from fvheat.case.model import Geometry
 from fvheat.case.units import UNITS
 from fvheat.errors import DrawingError
@@ -203,6 +203,7 @@ def layer_shapes(ctx: Context, value: Any, key: str) -> list[LayerShape]:
     out = []
     for s in shapes:
         vertices = s.outline / source.per_metre
+        check_coordinates(vertices, key, f"{source.name}: layer {layer.name!r}, {s.entity}")
         thickness = float(np.ptp(vertices, axis=0).min())
         if thickness > MAX_THICKNESS:
             raise Invalid(
@@ -242,7 +243,9 @@ def layer_segments(
             "splines",
         )
     k = source.per_metre
-    return tuple(((a[0] / k, a[1] / k), (b[0] / k, b[1] / k)) for (a, b), _ in found)
+    segments = tuple(((a[0] / k, a[1] / k), (b[0] / k, b[1] / k)) for (a, b), _ in found)
+    check_coordinates(segments, key, f"{source.name}: layer {layer.name!r}")
+    return segments
 
 
 def _is_box(v: np.ndarray) -> bool:

@@ -36,7 +36,16 @@ from typing import Any
 
 import numpy as np
 
-from fvheat.case.fields import Context, Invalid, join, number, string, table
+from fvheat.case.fields import (
+    Context,
+    Invalid,
+    check_coordinates,
+    coordinate,
+    join,
+    number,
+    string,
+    table,
+)
 from fvheat.case.model import Ground, Material, Region
 
 #: ISO 13370 (from memory): soil conductivity when the soil is not known, W/(m·K)
@@ -113,9 +122,9 @@ def parse_ground(value: Any, ctx: Context) -> Ground | None:
         )
     ground = Ground(
         width=number(tbl, "width", path, gt=0),
-        floor_edge=number(tbl, "floor_edge", path),
-        ground_level=number(tbl, "ground_level", path),
-        wall_outside=number(tbl, "wall_outside", path),
+        floor_edge=_coordinate(tbl, "floor_edge", path),
+        ground_level=_coordinate(tbl, "ground_level", path),
+        wall_outside=_coordinate(tbl, "wall_outside", path),
         soil=soil,
         boundary=names["boundary"],
         floor_boundary=names["floor_boundary"],
@@ -134,6 +143,7 @@ def parse_ground(value: Any, ctx: Context) -> Ground | None:
         )
     x0, x1, y0, y1 = soil_box(ground)
     box = np.array([[x0, y0], [x1, y0], [x1, y1], [x0, y1]], dtype=float)
+    check_coordinates(box, join(path, "width"), "the soil block (2.5 × width around the floor)")
     region = Region(material=soil, vertices=box, is_box=True, name="ground_soil", entry=-1)
     ctx.parsed["regions"] = (region, *ctx.parsed["regions"])
     far = ground.floor_edge - ground.interior * OUTSIDE_EXTENT * ground.width
@@ -143,6 +153,13 @@ def parse_ground(value: Any, ctx: Context) -> Ground | None:
         for b in ctx.parsed["boundaries"]
     )
     return ground
+
+
+def _coordinate(tbl: dict[str, Any], key: str, path: str) -> float:
+    """The required coordinate ``tbl[key]`` (m)."""
+    if key not in tbl:
+        raise Invalid(join(path, key), "required key is missing")
+    return coordinate(tbl[key], join(path, key))
 
 
 def soil_box(g: Ground) -> tuple[float, float, float, float]:

@@ -36,6 +36,7 @@ from typing import Any, cast
 from fvheat.case.fields import (
     Context,
     Invalid,
+    check_length,
     describe,
     join,
     name,
@@ -96,7 +97,8 @@ def parse_junction(value: Any, ctx: Context) -> Junction | None:
         _flanking(t, join(join(path, "flanking"), i), seen, dimensions)
         for i, t in enumerate(tables(tbl.get("flanking", []), join(path, "flanking")))
     )
-    humidity = number(tbl, "indoor_humidity", path, required=False, gt=0, le=100)
+    # below 1 % the dew point leaves the range of the saturation-pressure formulas
+    humidity = number(tbl, "indoor_humidity", path, required=False, ge=1, le=100)
     grid = tbl.get("grid_check", False)
     if not isinstance(grid, bool):
         raise Invalid(join(path, "grid_check"), f"expected true or false, got {describe(grid)}")
@@ -198,6 +200,7 @@ def _flanking(tbl: dict, path: str, seen: dict[str, str], primary: str) -> Flank
                 join(path, "cut"), f"expected a segment [[x0, y0], [x1, y1]], got {describe(c)}"
             )
         cut = (point(c[0], join(join(path, "cut"), 0)), point(c[1], join(join(path, "cut"), 1)))
+        check_length(*cut, join(path, "cut"), "cut")
     if (u is None) == (cut is None):
         raise Invalid(
             path, "give exactly one of u_value (W/(m²·K)) or cut (a segment across the element)"

@@ -22,6 +22,8 @@ import numpy as np
 from fvheat.case.boundaries import parse_boundaries
 from fvheat.case.condensation import parse_condensation
 from fvheat.case.fields import (
+    COORDINATE_LIMIT,
+    SMALLEST_CELL,
     Context,
     Invalid,
     check_keys,
@@ -29,12 +31,14 @@ from fvheat.case.fields import (
     number,
     string,
     table,
+    whole_number,
 )
 from fvheat.case.geometry import parse_geometry
 from fvheat.case.ground import parse_ground
 from fvheat.case.junction import check_junction_side_kinds, parse_junction
 from fvheat.case.materials import parse_materials
 from fvheat.case.model import (
+    DEFAULT_MAX_CELLS,
     Case,
     MeshSettings,
 )
@@ -151,19 +155,23 @@ def _title(value: Any, ctx: Context) -> str:
 def _mesh(value: Any, ctx: Context) -> MeshSettings:
     if value is None:
         raise Invalid("mesh", "required table [mesh] is missing (at least max_cell = ... in m)")
-    tbl = table(
-        value, "mesh", allowed=("max_cell", "min_cell", "growth", "corner_cell", "kind", "file")
-    )
+    keys = ("max_cell", "min_cell", "growth", "corner_cell", "max_cells", "kind", "file")
+    tbl = table(value, "mesh", allowed=keys)
     if "file" in tbl:
         return _mesh_file(tbl, ctx)
-    max_cell = number(tbl, "max_cell", "mesh", gt=0)
-    min_cell = number(tbl, "min_cell", "mesh", required=False, default=max_cell / 5, gt=0)
+    lo, hi = SMALLEST_CELL, COORDINATE_LIMIT  # m, cell edges
+    max_cell = number(tbl, "max_cell", "mesh", ge=lo, le=hi)
+    assert max_cell is not None
+    min_cell = number(tbl, "min_cell", "mesh", required=False, ge=lo, le=hi)
+    if min_cell is None:
+        min_cell = max(max_cell / 5, SMALLEST_CELL)
     if min_cell > max_cell:
         raise Invalid(
             "mesh.min_cell", f"min_cell = {min_cell:g} m must not exceed max_cell = {max_cell:g} m"
         )
     growth = number(tbl, "growth", "mesh", required=False, default=1.3, gt=1, le=3)
-    corner = number(tbl, "corner_cell", "mesh", required=False, gt=0)
+    assert growth is not None
+    corner = number(tbl, "corner_cell", "mesh", required=False, ge=lo, le=hi)
     if corner is not None and corner > min_cell:
         raise Invalid(
             "mesh.corner_cell",
@@ -175,8 +183,17 @@ def _mesh(value: Any, ctx: Context) -> MeshSettings:
         raise Invalid(
             "mesh.kind", f"expected one of {', '.join(map(repr, MESH_KINDS))}, got {describe(kind)}"
         )
+    # a billion cells is about a terabyte of memory: beyond any machine fvheat runs on
+    max_cells = whole_number(
+        tbl, "max_cells", "mesh", default=DEFAULT_MAX_CELLS, least=1, most=1_000_000_000
+    )
     return MeshSettings(
-        max_cell=max_cell, min_cell=min_cell, growth=growth, corner_cell=corner, kind=kind
+        max_cell=max_cell,
+        min_cell=min_cell,
+        growth=growth,
+        corner_cell=corner,
+        kind=kind,
+        max_cells=max_cells,
     )
 
 

@@ -21,6 +21,17 @@ from fvheat.case.model import (
 )
 from fvheat.properties.library import LibraryMaterial, UnknownMaterialError, lookup
 
+#: accepted ranges of material properties (W/(m·K), kg/m³, J/(kg·K), J/kg): wide around
+#: every building material (common practice: vacuum panels about 0.004 W/(m·K), copper
+#: about 400; air 1.2 kg/m³, lead 11 300; specific heats 100 to 5 000 J/(kg·K); water's
+#: latent heat 334 kJ/kg); values outside are typing or unit slips
+RANGES = {
+    "conductivity": (1e-5, 1e4),
+    "density": (1e-2, 3e4),
+    "specific_heat": (1.0, 1e5),
+    "latent_heat": (0.0, 1e7),
+}
+
 _MATERIAL_KEYS = (
     "library",
     "conductivity",
@@ -49,7 +60,7 @@ def _material(key: str, spec: Any, seen: dict[str, str]) -> Material:
     path = join("materials", key)
     name(key, path, seen)
     tbl = table(spec, path, allowed=_MATERIAL_KEYS)
-    latent = number(tbl, "latent_heat", path, required=False, ge=0)
+    latent = _property(tbl, "latent_heat", path)
     phase_change = None
     if "phase_change" in tbl:
         solidus, liquidus = _phase_change(tbl["phase_change"], join(path, "phase_change"))
@@ -72,28 +83,22 @@ def _material(key: str, spec: Any, seen: dict[str, str]) -> Material:
             )
         fpath = join(path, "frozen")
         ftbl = table(tbl["frozen"], fpath, allowed=("conductivity", "density", "specific_heat"))
-        frozen = Phase(**{k: number(ftbl, k, fpath, required=False, gt=0) for k in ftbl})
+        frozen = Phase(**{k: _property(ftbl, k, fpath) for k in ftbl})
     base = _library_entry(tbl["library"], join(path, "library")) if "library" in tbl else None
+    conductivity = _property(
+        tbl,
+        "conductivity",
+        path,
+        required=base is None,
+        default=base.conductivity if base else None,
+    )
+    assert conductivity is not None  # required without a library entry
     return Material(
         name=key,
-        conductivity=number(
-            tbl,
-            "conductivity",
-            path,
-            required=base is None,
-            default=base.conductivity if base else 0.0,  # (unused without a base: required)
-            gt=0,
-        ),
-        density=number(
-            tbl, "density", path, required=False, default=base.density if base else None, gt=0
-        ),
-        specific_heat=number(
-            tbl,
-            "specific_heat",
-            path,
-            required=False,
-            default=base.specific_heat if base else None,
-            gt=0,
+        conductivity=conductivity,
+        density=_property(tbl, "density", path, default=base.density if base else None),
+        specific_heat=_property(
+            tbl, "specific_heat", path, default=base.specific_heat if base else None
         ),
         emissivity=number(
             tbl,
@@ -125,6 +130,19 @@ def _source(tbl: dict[str, Any], base: LibraryMaterial | None) -> str:
     if own:
         text += f"; {', '.join(own)} {GIVEN}"
     return text
+
+
+def _property(
+    tbl: dict[str, Any],
+    key: str,
+    path: str,
+    *,
+    required: bool = False,
+    default: float | None = None,
+) -> float | None:
+    """A material property within its :data:`RANGES` (latent heat may be 0)."""
+    lo, hi = RANGES[key]
+    return number(tbl, key, path, required=required, default=default, ge=lo, le=hi)
 
 
 def _library_entry(value: Any, path: str) -> LibraryMaterial:

@@ -15,13 +15,18 @@ from fvheat.case.signals import Signal
 
 #: default first cell size at re-entrant corners of exchanging surfaces, m (see MeshSettings)
 CORNER_CELL = 0.001
+#: default ``[mesh] max_cells``: about 2 GB for a steady run, 5 GB for a transient one
+#: (fvheat.mesh.size), far above what a junction needs (the demo cases use 2 000 to 66 000
+#: cells) and within an ordinary workstation's memory
+DEFAULT_MAX_CELLS = 2_000_000
 
 
 @dataclass(frozen=True)
 class MeshSettings:
     """Grid controls: largest and smallest cell edge (m), the largest neighbour size ratio,
     and the first cell size (m) at re-entrant corners of exchanging surfaces (where the
-    lowest inside surface temperature sits); None: the smaller of ``min_cell``/2 and 1 mm."""
+    lowest inside surface temperature sits); None: the smaller of ``min_cell``/2 and 1 mm.
+    ``max_cells``: the largest grid (columns × rows) the mesher builds."""
 
     max_cell: float
     min_cell: float
@@ -33,6 +38,7 @@ class MeshSettings:
     #: a mesh file (any format meshio reads; ``[mesh] file``), resolved against the case file
     file: Path | None = None
     file_sha256: str | None = None
+    max_cells: int = DEFAULT_MAX_CELLS
 
     @property
     def corner_size(self) -> float:

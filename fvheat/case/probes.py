@@ -7,6 +7,7 @@ from typing import Any
 from fvheat.case.fields import (
     Context,
     Invalid,
+    check_length,
     join,
     name,
     point,
@@ -50,5 +51,6 @@ def parse_probe_lines(value: Any, ctx: Context) -> tuple[ProbeLine, ...]:
         end = point(tbl["end"], join(path, "end"))
         if start == end:
             raise Invalid(join(path, "end"), "must differ from start (a line needs a length)")
+        check_length(start, end, join(path, "end"), "line")
         lines.append(ProbeLine(name(tbl["name"], join(path, "name"), seen), start, end))
     return tuple(lines)

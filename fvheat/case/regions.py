@@ -9,8 +9,10 @@ from typing import Any, Literal, cast
 import numpy as np
 
 from fvheat.case.fields import (
+    SMALLEST_CELL,
     Context,
     Invalid,
+    coordinate,
     describe,
     join,
     name,
@@ -19,7 +21,6 @@ from fvheat.case.fields import (
     string,
     table,
     tables,
-    to_number,
 )
 from fvheat.case.geometry import LayerShape, check_drawing_scale, layer_shapes
 from fvheat.case.materials import library_material
@@ -142,7 +143,8 @@ def _cavity_material(value: Any, path: str, vertices: np.ndarray) -> Material:
     section = string(
         tbl, "section", path, required=False, default="vertical", choices=("vertical", "plan")
     )
-    eps = number(tbl, "emissivity", path, required=False, default=0.9, gt=0, le=1)
+    # polished metal and low-e coatings reach about 0.02 (common practice)
+    eps = number(tbl, "emissivity", path, required=False, default=0.9, ge=0.01, le=1)
     vent = string(
         tbl, "ventilation", path, required=False, default="none", choices=("none", "slight")
     )
@@ -208,10 +210,16 @@ def _box_vertices(x0: float, y0: float, x1: float, y1: float) -> np.ndarray:
 def _box(value: Any, path: str) -> np.ndarray:
     if not isinstance(value, list) or len(value) != 4:
         raise Invalid(path, f"expected [x0, y0, x1, y1] (m), got {describe(value)}")
-    x0, y0, x1, y1 = (to_number(v, join(path, i)) for i, v in enumerate(value))
+    x0, y0, x1, y1 = (coordinate(v, join(path, i)) for i, v in enumerate(value))
     if not (x1 > x0 and y1 > y0):
         raise Invalid(
             path, f"needs x1 > x0 and y1 > y0 (box = [x0, y0, x1, y1]), got {[x0, y0, x1, y1]}"
+        )
+    if min(x1 - x0, y1 - y0) < SMALLEST_CELL:
+        raise Invalid(
+            path,
+            f"the box is {x1 - x0:g} m × {y1 - y0:g} m: thinner than {SMALLEST_CELL:g} m "
+            "(round-off in a coordinate?)",
         )
     return _box_vertices(x0, y0, x1, y1)
 
@@ -230,6 +238,13 @@ def _polygon(value: Any, path: str) -> tuple[np.ndarray, bool]:
         raise Invalid(path, f"a polygon needs at least 3 vertices, got {len(pts)}")
     p = np.array(pts, dtype=float)
     n = len(p)
+    extent = np.ptp(p, axis=0)
+    if float(extent.min()) < SMALLEST_CELL:
+        raise Invalid(
+            path,
+            f"the polygon spans {extent[0]:g} m × {extent[1]:g} m: thinner than "
+            f"{SMALLEST_CELL:g} m (round-off in a coordinate?)",
+        )
     edge = np.roll(p, -1, axis=0) - p
     scale = float(np.ptp(p, axis=0).max())
     short = np.flatnonzero(np.hypot(edge[:, 0], edge[:, 1]) <= 1e-12 * scale)

@@ -26,6 +26,9 @@ SCHEMES = ("backward_euler", "crank_nicolson")
 #: of the step giving at most this many (every saved state is a field kept in memory and a
 #: VTU file)
 DEFAULT_SAVES = 100
+#: the most time steps a run may take: a year at 30 s steps (about 1 000 000 steps); more
+#: is a slip in ``duration`` or ``step`` (and would run for days)
+MAX_STEPS = 1_000_000
 
 
 def parse_time(value: Any, ctx: Context) -> TimeSettings | None:
@@ -56,6 +59,12 @@ def parse_time(value: Any, ctx: Context) -> TimeSettings | None:
             "time.step", f"step = {step:g} s is longer than the duration = {duration:g} s"
         )
     n_steps = duration / step
+    if n_steps > MAX_STEPS:
+        raise Invalid(
+            "time.step",
+            f"duration = {duration:g} s in steps of {step:g} s makes {n_steps:.4g} time steps, "
+            f"more than {MAX_STEPS:,}: give a longer step or a shorter duration",
+        )
     if abs(n_steps - round(n_steps)) > 1e-9 * n_steps:
         raise Invalid(
             "time.duration",
@@ -90,6 +99,13 @@ def parse_time(value: Any, ctx: Context) -> TimeSettings | None:
     max_cycles = number(tbl, "max_cycles", path, required=False, default=200, ge=1)
     if max_cycles != int(max_cycles):
         raise Invalid("time.max_cycles", f"expected a whole number, got {max_cycles:g}")
+    if periodic and round(n_steps) * max_cycles > MAX_STEPS:
+        raise Invalid(
+            "time.step",
+            f"a periodic run of up to max_cycles = {max_cycles:g} cycles of {round(n_steps):,} "
+            f"steps may take {round(n_steps) * max_cycles:.4g} time steps, more than "
+            f"{MAX_STEPS:,}: give a longer step or a smaller max_cycles",
+        )
     return TimeSettings(
         duration=duration,
         step=step,

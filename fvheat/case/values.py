@@ -5,12 +5,15 @@ from __future__ import annotations
 
 import csv
 import io
+import math
 from pathlib import Path
 from typing import Any
 
 import numpy as np
 
 from fvheat.case.fields import (
+    ABSOLUTE_ZERO,
+    HIGHEST_TEMPERATURE,
     Context,
     Invalid,
     describe,
@@ -22,6 +25,10 @@ from fvheat.case.fields import (
     to_number,
 )
 from fvheat.case.signals import Constant, Cosine, Series, Signal
+
+#: s: the shortest period of a cosine boundary value (1 ms; a building's conditions change
+#: over minutes to years, and shorter periods are typing slips)
+SHORTEST_PERIOD = 1e-3
 
 
 def read_signal(value: Any, path: str, ctx: Context, *, is_temperature: bool) -> Signal:
@@ -41,7 +48,7 @@ def read_signal(value: Any, path: str, ctx: Context, *, is_temperature: bool) ->
     cosine = Cosine(
         mean=number(tbl, "mean", path),
         amplitude=number(tbl, "amplitude", path, required=False, default=0.0),
-        period=number(tbl, "period", path, gt=0),
+        period=number(tbl, "period", path, ge=SHORTEST_PERIOD),
         phase=number(tbl, "phase", path, required=False, default=0.0),
     )
     lowest = cosine.mean - abs(cosine.amplitude)
@@ -50,6 +57,14 @@ def read_signal(value: Any, path: str, ctx: Context, *, is_temperature: bool) ->
             path,
             f"falls to {lowest:g} °C (mean - |amplitude|), not above absolute zero (-273.15 °C)",
         )
+    highest = cosine.mean + abs(cosine.amplitude)
+    if is_temperature and highest > HIGHEST_TEMPERATURE:
+        raise Invalid(
+            path,
+            f"rises to {highest:g} °C (mean + |amplitude|), above {HIGHEST_TEMPERATURE:g} °C",
+        )
+    if not math.isfinite(highest):
+        raise Invalid(path, "mean + |amplitude| is not a finite number")
     return cosine
 
 
@@ -82,19 +97,26 @@ def _series(value: dict, path: str, ctx: Context, *, is_temperature: bool) -> Se
                 f"{fname} line {line}: time {times[k]:g} s is not after the previous row's "
                 f"{times[k - 1]:g} s; times must increase strictly",
             )
-        if is_temperature and values[k] <= -273.15:
-            raise Invalid(
-                path,
-                f"{fname} line {line}: {values[k]:g} °C in column {column!r} is not above "
-                "absolute zero (-273.15 °C)",
-            )
     if period is not None and period <= times[-1] - times[0]:
         raise Invalid(
             join(path, "period"),
             f"period = {period:g} s must exceed the table's span ({times[-1] - times[0]:g} s): "
             "the last row is followed by the first row of the next period",
         )
-    values = values * scale
+    with np.errstate(over="ignore"):  # a huge scale gives inf, refused just below
+        values = values * scale
+    if is_temperature:  # after the scale, which may turn a sane column into an absurd one
+        bad = (values <= ABSOLUTE_ZERO) | (values > HIGHEST_TEMPERATURE)
+        if bad.any():
+            k = int(np.argmax(bad))
+            raise Invalid(
+                path,
+                f"{fname} line {rows[k][0]}: {values[k]:g} °C in column {column!r}"
+                f"{'' if scale == 1.0 else f' (× scale {scale:g})'} is not above absolute "
+                f"zero ({ABSOLUTE_ZERO} °C) and at most {HIGHEST_TEMPERATURE:g} °C",
+            )
+    if not np.isfinite(values).all():
+        raise Invalid(join(path, "scale"), "the scaled values are not all finite numbers")
     times.flags.writeable = False
     values.flags.writeable = False
     return Series(times=times, values=values, source=str(csv_path), column=column, period=period)

@@ -9,7 +9,7 @@ from scipy.sparse.csgraph import connected_components
 
 from fvheat.case.model import Case
 from fvheat.mesh.mesh import Mesh, face_ends
-from fvheat.mesh.rectilinear import face_reach, segment_faces
+from fvheat.mesh.segments import FaceLocator, segment_faces
 
 #: a grid-aligned segment is exact; a sloped one is stepped, so its faces cover it only
 #: approximately
@@ -18,11 +18,11 @@ ALIGNED_COVERAGE, SLOPED_COVERAGE = 0.99, 0.9
 
 def coverage_warnings(case: Case, mesh: Mesh) -> list[str]:
     """One warning per segment lying on the body's outline for only part of its length."""
-    reach = face_reach(mesh)
+    locator = FaceLocator(mesh)
     out = []
     for k, b in enumerate(case.boundaries):
         for e, seg in enumerate(b.edges):
-            _, _, covered = segment_faces(mesh, seg, reach)
+            _, _, covered = segment_faces(locator, seg)
             (x0, y0), (x1, y1) = seg
             aligned = x0 == x1 or y0 == y1
             if covered < (ALIGNED_COVERAGE if aligned else SLOPED_COVERAGE):

@@ -8,7 +8,9 @@ from fvheat.case.load import load_case
 from fvheat.checks import check_model
 from fvheat.cli.console import print_warnings
 from fvheat.errors import CaseError
+from fvheat.mesh.rectilinear import check_refined_size
 from fvheat.mesh.select import build_mesh
+from fvheat.study import GRID_CHECK_REFINE
 
 
 def check_case(
@@ -29,6 +31,8 @@ def check_case(
         raise CaseError("draws the grid into the preview: give --plot FILE.png too", key="--mesh")
     case = load_case(case_file, overrides)
     mesh = build_mesh(case)
+    if case.junction is not None and case.junction.grid_check:
+        check_refined_size(case, mesh, GRID_CHECK_REFINE)
     warnings = check_model(case, mesh)
     stats = mesh.stats()
     print(f"{case_file}: valid ({'transient' if case.transient else 'steady'}) — {case.title}")

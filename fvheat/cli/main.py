@@ -12,6 +12,7 @@ import sys
 from pathlib import Path
 from typing import Annotated
 
+import numpy as np
 import typer
 
 from fvheat.errors import CaseError, FvheatError
@@ -393,6 +394,9 @@ def main(argv: list[str] | None = None) -> int:
     every typer version.
     """
     if argv is None:
+        # a numerical failure is reported in one line (NaN / inf results are refused by
+        # fvheat.run); numpy's floating-point warnings on the way would add lines of their own
+        np.seterr(all="ignore")
         args = sys.argv[1:]
         if os.name == "nt":  # Windows shells leave wildcards to the program (typer's main did too)
             args = expand_wildcards(args)

@@ -46,7 +46,10 @@ def run_case(
             sensitivities=sensitivities,
         )
 
-    study, summary = _with_progress(job) if show else job(None)
+    # the bar only on a terminal: on a pipe or a log file it would leave control
+    # characters and an empty line before any message
+    bar = show and sys.stderr.isatty()
+    study, summary = _with_progress(job) if bar else job(None)
     if as_json:
         sys.stdout.write(json.dumps(summary, indent=2) + "\n")
     elif not quiet:

@@ -99,10 +99,16 @@ class Drawing:
     sagitta: float
 
 
+#: bytes: the largest drawing read (a junction detail's DXF is well under 10 MB; a whole
+#: building's may be hundreds, and would take minutes and gigabytes to read)
+MAX_DRAWING_BYTES = 200 * 1024**2
+
+
 def read_drawing(path: str | Path, sagitta: float) -> Drawing:
     """Read the DXF file at ``path``, flattening curves to ``sagitta`` (drawing units).
 
     Raises :class:`~fvheat.errors.DrawingError` (naming the file) when the file is missing,
+    not a regular file (a device, a pipe), larger than :data:`MAX_DRAWING_BYTES`,
     unreadable, not DXF (a DWG file is recognised and named) or damaged.
     """
     import ezdxf
@@ -111,6 +117,16 @@ def read_drawing(path: str | Path, sagitta: float) -> Drawing:
     path = Path(path)
     file = str(path)
     try:
+        if path.exists() and not path.is_dir() and not path.is_file():
+            # a device (/dev/zero) or a pipe would be read for ever
+            raise DrawingError("is not a regular file (a device or pipe)", file=file)
+        size = path.stat().st_size
+        if size > MAX_DRAWING_BYTES:
+            raise DrawingError(
+                f"is {size / 1024**2:.0f} MB; drawings up to {MAX_DRAWING_BYTES // 1024**2} MB "
+                "are read (export only the detail's layers)",
+                file=file,
+            )
         raw = path.read_bytes()
     except FileNotFoundError:
         raise DrawingError("drawing file not found", file=file) from None

@@ -125,6 +125,8 @@ def _read(
     ):
         raise CutError("both ends of the cut must lie on the body's surfaces")
     idx = g.cell_index[row, first:last] if along == 0 else g.cell_index[first:last, row]
+    if idx.size == 0:
+        raise CutError("the cut is shorter than one cell: it must cross the element")
     if np.any(idx < 0):
         raise CutError("the cut crosses a part outside the body")
     k = conductivity(case, mesh)[idx]

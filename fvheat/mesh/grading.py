@@ -2,6 +2,9 @@
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+from typing import Any
+
 import numpy as np
 
 _SAMPLES = 200  # samples from each end of an interval for the size-function integral
@@ -36,8 +39,76 @@ def size_function(
     # With h = a + s·t and unit steps in ∫ dt/h, consecutive cells differ by exp(s) = growth;
     # a = h0·s/(exp(s) − 1) makes the first cell h0.
     a = start * s / np.expm1(s)
-    h = np.min(a[None, :] + s * np.abs(t[:, None] - keys[None, :]), axis=1)
+    # keys farther than max_cell/s from every t give sizes above max_cell: leave them out
+    # (the same result; thousands of key lines would otherwise cost keys² work per line)
+    reach = max_cell / s
+    lo, hi = np.searchsorted(keys, [float(np.min(t)) - reach, float(np.max(t)) + reach])
+    lo = min(int(lo), keys.size - 1)
+    hi = max(int(hi), lo + 1)  # at least one key (then every size is max_cell)
+    h = np.min(a[None, lo:hi] + s * np.abs(t[:, None] - keys[None, lo:hi]), axis=1)
     return np.minimum(h, max_cell)
+
+
+@dataclass(frozen=True)
+class LinePlan:
+    """The graded grid lines through ``keys``, planned but not yet placed: ``cells`` is the
+    number of cells they make, known before any coordinate array of that size exists (so
+    a mesh too large for the machine is refused before it is allocated)."""
+
+    keys: np.ndarray
+    pieces: tuple[tuple[Any, ...], ...]  # per key interval: how to fill it
+    cells: int
+
+    def coordinates(self) -> np.ndarray:
+        """Grid-line coordinates (m) containing every key coordinate."""
+        out = [self.keys[:1]]
+        for k, piece in enumerate(self.pieces):
+            kind = piece[0]
+            if kind == "uniform":
+                out.append(np.linspace(self.keys[k], self.keys[k + 1], piece[1] + 1)[1:])
+                continue
+            if kind == "graded":
+                _, n, t, h, cum = piece
+                targets = np.linspace(0.0, cum[-1], n + 1)[1:-1]
+                out.append(self.keys[k] + _invert(targets, t, h, cum))
+            out.append(self.keys[k + 1 : k + 2])
+        return np.concatenate(out)
+
+
+def plan_lines(
+    keys: np.ndarray,
+    max_cell: float,
+    min_cell: float,
+    growth: float,
+    first: np.ndarray | None = None,
+) -> LinePlan:
+    """Plan the grid lines of :func:`graded_lines` (same arguments): the cell count of
+    every key interval from the integral of the size function, without placing them."""
+    keys = np.asarray(keys, dtype=float)
+    lengths = np.diff(keys)
+    smallest = min_cell if first is None else float(np.min(first, initial=min_cell))
+    ends = np.full(keys.size, min_cell) if first is None else np.minimum(first, min_cell)
+    pieces: list[tuple[Any, ...]] = []
+    cells = 0
+    for k, length in enumerate(lengths):
+        end_cell = min(ends[k], ends[k + 1])
+        if length <= end_cell:
+            pieces.append(("one",))
+            cells += 1
+            continue
+        if min_cell >= max_cell and end_cell >= min_cell:  # uniform grid asked for
+            n = int(np.ceil(length / max_cell - 1e-9))
+            pieces.append(("uniform", n))
+            cells += n
+            continue
+        g = np.geomspace(1e-3 * smallest, length, _SAMPLES)
+        t = np.unique(np.concatenate([[0.0], g, length - g, [length]]).clip(0.0, length))
+        h = size_function(keys, keys[k] + t, max_cell, min_cell, growth, first)
+        cum = np.concatenate([[0.0], np.cumsum(_piece_integral(np.diff(t), h[:-1], h[1:]))])
+        n = max(1, int(np.ceil(cum[-1] - 1e-6)), int(np.ceil(length / max_cell - 1e-9)))
+        pieces.append(("graded", n, t, h, cum))
+        cells += n
+    return LinePlan(keys, tuple(pieces), cells)
 
 
 def graded_lines(
@@ -54,29 +125,7 @@ def graded_lines(
     towards the interval ends, where h is smallest), which makes neighbour ratios at most
     about ``growth`` and no cell larger than ``max_cell``.
     """
-    keys = np.asarray(keys, dtype=float)
-    lengths = np.diff(keys)
-    smallest = min_cell if first is None else float(np.min(first, initial=min_cell))
-    pieces = [keys[:1]]
-    ends = np.full(keys.size, min_cell) if first is None else np.minimum(first, min_cell)
-    for k, length in enumerate(lengths):
-        end_cell = min(ends[k], ends[k + 1])
-        if length <= end_cell:
-            pieces.append(keys[k + 1 : k + 2])
-            continue
-        if min_cell >= max_cell and end_cell >= min_cell:  # uniform grid asked for
-            n = int(np.ceil(length / max_cell - 1e-9))
-            pieces.append(np.linspace(keys[k], keys[k + 1], n + 1)[1:])
-            continue
-        g = np.geomspace(1e-3 * smallest, length, _SAMPLES)
-        t = np.unique(np.concatenate([[0.0], g, length - g, [length]]).clip(0.0, length))
-        h = size_function(keys, keys[k] + t, max_cell, min_cell, growth, first)
-        cum = np.concatenate([[0.0], np.cumsum(_piece_integral(np.diff(t), h[:-1], h[1:]))])
-        n = max(1, int(np.ceil(cum[-1] - 1e-6)), int(np.ceil(length / max_cell - 1e-9)))
-        targets = np.linspace(0.0, cum[-1], n + 1)[1:-1]
-        pieces.append(keys[k] + _invert(targets, t, h, cum))
-        pieces.append(keys[k + 1 : k + 2])
-    return np.concatenate(pieces)
+    return plan_lines(keys, max_cell, min_cell, growth, first).coordinates()
 
 
 def _piece_integral(dt: np.ndarray, h0: np.ndarray, h1: np.ndarray) -> np.ndarray:

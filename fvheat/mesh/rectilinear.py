@@ -16,9 +16,11 @@ import numpy as np
 
 from fvheat.case.model import Case
 from fvheat.errors import CaseError
-from fvheat.mesh.geometry import points_in_polygon, segment_frame
-from fvheat.mesh.grading import graded_lines, merge_close
+from fvheat.mesh.geometry import grid_in_polygon, points_in_polygon, points_on_segments
+from fvheat.mesh.grading import LinePlan, merge_close, plan_lines
 from fvheat.mesh.mesh import Mesh, RectGrid
+from fvheat.mesh.segments import FaceLocator, segment_faces
+from fvheat.mesh.size import check_grid_size, check_node_count
 
 
 def build_mesh(case: Case, refine: float = 1.0) -> Mesh:
@@ -32,11 +34,11 @@ def build_mesh(case: Case, refine: float = 1.0) -> Mesh:
     the body.
     """
     names = tuple(case.materials)
-    x, y = grid_lines(case, refine)
+    x, y = _checked_lines(case, refine, None)
     owner = paint_regions(case, x, y)
     corners = reentrant_corners(case, x, y, owner)
     if corners.size:
-        x, y = grid_lines(case, refine, corners)
+        x, y = _checked_lines(case, refine, corners)
         owner = paint_regions(case, x, y)
     material = np.array([names.index(r.material) for r in case.regions], dtype=np.int32)
     mat = np.where(owner >= 0, material[owner], -1).astype(np.int32)
@@ -116,21 +118,28 @@ def on_body(case: Case, points: np.ndarray) -> np.ndarray:
     return inside
 
 
-def grid_lines(
-    case: Case, refine: float = 1.0, corners: np.ndarray | None = None
-) -> tuple[np.ndarray, np.ndarray]:
-    """x and y grid lines (m) through all region vertices and boundary-segment ends, the
-    first cells at the key lines through ``corners`` ((k, 2) m) of size ``corner_size``."""
+def grid_plans(
+    case: Case,
+    refine: float = 1.0,
+    corners: np.ndarray | None = None,
+    *,
+    corners_everywhere: bool = False,
+) -> tuple[LinePlan, LinePlan]:
+    """The x and y grid lines (m) of :func:`grid_lines`, planned (cell counts known) but
+    not yet placed; ``corners_everywhere``: as if every key line ran through a re-entrant
+    corner (the most cells the corner refinement can add)."""
     keys, tol = key_lines(case)
     s = case.mesh
-    lines = []
+    plans = []
     for axis in (0, 1):
         first = np.full(keys[axis].size, s.min_cell / refine)
-        if corners is not None and corners.size:
+        if corners_everywhere:
+            first[:] = min(s.corner_size, s.min_cell) / refine
+        elif corners is not None and corners.size:
             near = np.abs(keys[axis][:, None] - corners[None, :, axis]).min(axis=1) <= tol
             first[near] = min(s.corner_size, s.min_cell) / refine
-        lines.append(
-            graded_lines(
+        plans.append(
+            plan_lines(
                 keys[axis],
                 s.max_cell / refine,
                 s.min_cell / refine,
@@ -138,7 +147,45 @@ def grid_lines(
                 first,
             )
         )
-    return lines[0], lines[1]
+    return plans[0], plans[1]
+
+
+def grid_lines(
+    case: Case, refine: float = 1.0, corners: np.ndarray | None = None
+) -> tuple[np.ndarray, np.ndarray]:
+    """x and y grid lines (m) through all region vertices and boundary-segment ends, the
+    first cells at the key lines through ``corners`` ((k, 2) m) of size ``corner_size``."""
+    px, py = grid_plans(case, refine, corners)
+    return px.coordinates(), py.coordinates()
+
+
+def _checked_lines(
+    case: Case, refine: float, corners: np.ndarray | None
+) -> tuple[np.ndarray, np.ndarray]:
+    """:func:`grid_lines`, after checking the grid's size against ``[mesh] max_cells``."""
+    px, py = grid_plans(case, refine, corners)
+    at_most = None
+    if corners is None and px.cells * py.cells > case.mesh.max_cells:
+        wx, wy = grid_plans(case, refine, corners_everywhere=True)
+        at_most = wx.cells * wy.cells
+    check_grid_size(case, px.cells, py.cells, refined=refine > 1.0, at_most=at_most)
+    return px.coordinates(), py.coordinates()
+
+
+def check_refined_size(case: Case, mesh: Mesh, refine: float) -> None:
+    """Raise :class:`CaseError` when the mesh refined by ``refine`` (a grid check) would
+    exceed ``[mesh] max_cells``: estimated from ``mesh``'s own re-entrant corners, before
+    anything is solved or allocated. A triangle mesh (no grid) refined by the grid check
+    has about four nodes for each of its own."""
+    g = mesh.grid
+    if mesh.triangles is not None:
+        check_node_count(case, mesh.n_cells * round(refine) ** 2, refined=True)
+        return
+    if g is None:
+        px, py = grid_plans(case, refine, corners_everywhere=True)
+    else:
+        px, py = grid_plans(case, refine, reentrant_corners(case, g.x, g.y, g.cell_index))
+    check_grid_size(case, px.cells, py.cells, refined=True)
 
 
 def reentrant_corners(case: Case, x: np.ndarray, y: np.ndarray, mat: np.ndarray) -> np.ndarray:
@@ -161,12 +208,7 @@ def reentrant_corners(case: Case, x: np.ndarray, y: np.ndarray, mat: np.ndarray)
     segs = [e for b in case.boundaries if b.kind != "flux" for e in b.edges]
     if not segs or pts.size == 0:
         return np.zeros((0, 2))
-    a = np.array([s[0] for s in segs], float)
-    d = np.array([s[1] for s in segs], float) - a
-    rel = pts[:, None, :] - a[None, :, :]
-    u = np.clip(np.einsum("psk,sk->ps", rel, d) / np.einsum("sk,sk->s", d, d), 0.0, 1.0)
-    gap = np.hypot(*(rel - u[..., None] * d[None]).transpose(2, 0, 1))
-    return pts[(gap <= tol).any(axis=1)]
+    return pts[points_on_segments(pts, segs, tol)]
 
 
 def _near_any(values: np.ndarray, keys: np.ndarray, tol: float) -> np.ndarray:
@@ -191,13 +233,13 @@ def paint_regions(case: Case, x: np.ndarray, y: np.ndarray) -> np.ndarray:
         if region.is_box and not region.holes:
             owner[j0:j1, i0:i1] = k
             continue
-        px, py = np.meshgrid(xc[i0:i1], yc[j0:j1])
+        xs, ys = xc[i0:i1], yc[j0:j1]
         if region.is_box:
-            inside = np.ones(px.shape, dtype=bool)
+            inside = np.ones((ys.size, xs.size), dtype=bool)
         else:
-            inside = points_in_polygon(px, py, region.vertices)
+            inside = grid_in_polygon(xs, ys, region.vertices)
         for hole in region.holes:  # cells centred in a hole keep what was painted before
-            inside &= ~points_in_polygon(px, py, hole)
+            inside &= ~grid_in_polygon(xs, ys, hole)
         owner[j0:j1, i0:i1][inside] = k
     return owner
 
@@ -320,10 +362,10 @@ def attach_boundaries(case: Case, mesh: Mesh) -> Mesh:
     """
     bid = mesh.b_boundary.copy()
     exch = mesh.b_exchange.copy()
-    reach = face_reach(mesh)
+    locator = FaceLocator(mesh)
     for k, b in enumerate(case.boundaries):
         for e, seg in enumerate(b.edges):
-            on, exch_e, _ = segment_faces(mesh, seg, reach)
+            on, exch_e, _ = segment_faces(locator, seg)
             key = f"boundaries.{k}.edges.{e}"
             if not on.any():
                 raise CaseError(
@@ -354,70 +396,50 @@ def _seg_text(seg) -> str:
     return f"({x0:.6g}, {y0:.6g})–({x1:.6g}, {y1:.6g}) m"
 
 
-def face_reach(mesh: Mesh) -> np.ndarray:
-    """Half the diagonal (m) of each boundary face's grid cell: how far a stepped face may
-    lie from the sloped segment it belongs to."""
-    if mesh.grid is None:
-        return np.sqrt(mesh.volumes[mesh.b_cell])
-    dx = np.diff(mesh.grid.x)
-    dy = np.diff(mesh.grid.y)
-    cols = np.searchsorted(mesh.grid.x, mesh.centres[mesh.b_cell, 0]) - 1
-    rows = np.searchsorted(mesh.grid.y, mesh.centres[mesh.b_cell, 1]) - 1
-    return 0.5 * np.hypot(dx[cols], dy[rows])
-
-
-def segment_faces(
-    mesh: Mesh, seg: tuple[tuple[float, float], tuple[float, float]], reach: np.ndarray
-) -> tuple[np.ndarray, np.ndarray, float]:
-    """The exterior faces on segment ``seg`` ((x0, y0), (x1, y1)) m, their exchange
-    fractions, and the fraction of the segment's length they cover (1 when the segment
-    lies on the body's outline over its whole length).
-
-    On a grid-aligned segment a face belongs to it when its centre lies on the segment and
-    it is parallel to it. On a sloped segment the body's edge is stepped: exterior faces
-    whose centre lies within ``reach`` of the segment and that look out on the segment's
-    outer side belong to it, with exchange fractions their projections |n_face · n_segment|
-    scaled so the stepped faces sum to the segment's true length.
-    """
-    if mesh.vertex_centred:  # the mesh follows the geometry: faces lie on the segment
-        from fvheat.mesh.triangles import exact_segment_faces
-
-        return exact_segment_faces(mesh, seg)
-    p0, p1 = np.asarray(seg[0], float), np.asarray(seg[1], float)
-    c, nrm = mesh.b_centre, mesh.b_normal
-    tol = 1e-9 * max(float(np.ptp(mesh.centres)), 1.0)
-    t, n, length = segment_frame(p0, p1)
-    rel = c - p0
-    along = rel @ t
-    off = np.abs(rel @ n)
-    proj = np.abs(nrm @ n)
-    if abs(t[0]) < 1e-12 or abs(t[1]) < 1e-12:
-        on = (off <= tol) & (along > tol) & (along < length - tol) & (proj > 0.5)
-        return on, np.ones_like(proj), float(np.sum(mesh.b_area[on])) / length
-    near = (off <= reach) & (along > -tol) & (along < length + tol)
-    # keep the faces looking out on the side the staircase faces mostly look to (not those
-    # of a neighbouring straight edge at a shared corner); a full staircase's projections
-    # sum to the segment's length
-    side = nrm @ n
-    outward = np.sign(np.sum(mesh.b_area[near] * side[near]))
-    on = near & (side * outward > 0.0)
-    total = float(np.sum(mesh.b_area[on] * proj[on]))
-    return on, proj * (length / total if total > 0 else 1.0), total / length
+#: points per probe line checked to lie in the body: 5 × 400 + 1, a superset of the
+#: 401 equally spaced points fvheat.evaluate.fronts samples along a line
+LINE_CHECK_POINTS = 2001
 
 
 def check_probes(case: Case, mesh: Mesh) -> None:
-    """Raise :class:`CaseError` for a probe that lies outside every cell of the body."""
+    """Raise :class:`CaseError` for a probe that lies outside every cell of the body, and
+    for a probe line that leaves the body anywhere along its length."""
     g = mesh.grid
     if g is None:
         return
     tol = 1e-12 * max(float(np.ptp(g.x)), float(np.ptp(g.y)), 1.0)
     for k, p in enumerate(case.probes):
-        px, py = p.at
-        cols = np.flatnonzero((g.x[:-1] <= px + tol) & (g.x[1:] >= px - tol))
-        rows = np.flatnonzero((g.y[:-1] <= py + tol) & (g.y[1:] >= py - tol))
-        if not (g.cell_index[np.ix_(rows, cols)] >= 0).any():
+        if not _in_body(g, np.array([p.at]), tol)[0]:
             raise CaseError(
                 f"point {list(p.at)} is outside the body (no region covers it)",
                 file=str(case.source),
                 key=f"probes.{k}.at",
             )
+    s = np.linspace(0.0, 1.0, LINE_CHECK_POINTS)[:, None]
+    for k, line in enumerate(case.probe_lines):
+        a, b = np.asarray(line.start, float), np.asarray(line.end, float)
+        pts = a + s * (b - a)
+        inside = _in_body(g, pts, tol)
+        if not inside.all():
+            x, y = pts[int(np.argmin(inside))]
+            raise CaseError(
+                f"the line from {list(line.start)} to {list(line.end)} leaves the body at "
+                f"({x:.6g}, {y:.6g}) m (no region covers it): a probe line must run "
+                "through the body over its whole length",
+                file=str(case.source),
+                key=f"probe_lines.{k}",
+            )
+
+
+def _in_body(g: RectGrid, pts: np.ndarray, tol: float) -> np.ndarray:
+    """Whether each point (n, 2) m lies in, or within ``tol`` of, a cell of the body."""
+    nx, ny = g.x.size - 1, g.y.size - 1
+    out = np.zeros(len(pts), dtype=bool)
+    for dx in (-tol, tol):
+        for dy in (-tol, tol):
+            i = np.searchsorted(g.x, pts[:, 0] + dx, side="right") - 1
+            j = np.searchsorted(g.y, pts[:, 1] + dy, side="right") - 1
+            ok = (i >= 0) & (i < nx) & (j >= 0) & (j < ny)
+            cell = g.cell_index[np.clip(j, 0, ny - 1), np.clip(i, 0, nx - 1)]
+            out |= ok & (cell >= 0)
+    return out

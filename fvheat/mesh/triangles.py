@@ -26,6 +26,7 @@ from fvheat.errors import CaseError
 from fvheat.mesh.geometry import points_in_polygon, segment_frame
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.rectilinear import CORNER_TURN_DEG, on_body
+from fvheat.mesh.size import check_node_count
 
 log = logging.getLogger(__name__)
 
@@ -55,6 +56,9 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
         pslg["holes"] = outside
     flags = f"pq{MIN_ANGLE_DEG:g}Q"
     # triangle reads the area bound as a plain decimal (no exponent)
+    # the body at the largest size alone: about one node per two triangles, before any is made
+    body = float(_triangle_areas(rough["vertices"], rough["triangles"][region >= 0]).sum())
+    check_node_count(case, int(body / float(_area(size.largest)) / 2), refined=refine > 1.0)
     largest = np.format_float_positional(float(_area(size.largest)), trim="-")
     tri = triangle.triangulate(pslg, flags + f"a{largest}")
     for _ in range(PASSES if size.graded else 0):
@@ -62,6 +66,9 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
         target = _area(size(v[t].mean(axis=1)))
         if np.all(_triangle_areas(v, t) <= 1.3 * target):
             break  # every triangle within 1.3 × its target area
+        # the triangles this pass will make (each at most its target area), before it runs
+        planned = float((_triangle_areas(v, t) / target).clip(1.0).sum())
+        check_node_count(case, int(planned / 2), refined=refine > 1.0)
         tri = triangle.triangulate(dict(tri, triangle_max_area=target), "r" + flags + "a")
     v, t = tri["vertices"], tri["triangles"].astype(np.int64)
     return finish_mesh(case, v, t, paint_triangles(case, v, t))

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import hashlib
 import json
+import math
 from pathlib import Path
 from typing import Any
 
@@ -73,6 +74,22 @@ def build_summary(study: Study, overrides: tuple[str, ...] = ()) -> dict[str, An
     if study.sensitivities is not None:
         summary["sensitivities"] = study.sensitivities.as_dict()
     return summary
+
+
+def non_finite_keys(value: Any, path: str = "") -> list[str]:
+    """Dotted keys of the NaN or infinite numbers in a summary (empty when all are finite):
+    such a summary is not valid JSON, and a result that cannot be trusted."""
+    if isinstance(value, float):
+        return [] if math.isfinite(value) else [path or "(value)"]
+    if isinstance(value, dict):
+        items: Any = value.items()
+    elif isinstance(value, list | tuple):
+        items = enumerate(value)
+    else:
+        return []
+    return [
+        k for key, v in items for k in non_finite_keys(v, f"{path}.{key}" if path else str(key))
+    ]
 
 
 def write_summary(path: str | Path, summary: dict[str, Any]) -> Path:

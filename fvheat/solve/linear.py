@@ -93,9 +93,15 @@ class DirectSolver:
     kind: Kind = "direct"
 
     def __init__(self, a: sp.csr_matrix):
-        self._lu = spla.splu(
-            sp.csc_matrix(a), permc_spec="MMD_AT_PLUS_A", options={"SymmetricMode": True}
-        )
+        try:
+            self._lu = spla.splu(
+                sp.csc_matrix(a), permc_spec="MMD_AT_PLUS_A", options={"SymmetricMode": True}
+            )
+        except RuntimeError as err:  # SuperLU: "Factor is exactly singular"
+            raise ConvergenceError(
+                f"the system matrix cannot be factorised ({err}): a part of the model has no "
+                "temperature reference, or conductivities differ by too many orders of magnitude"
+            ) from None
 
     def solve(self, b: np.ndarray) -> np.ndarray:
         """x for the right-hand side ``b`` from the factorisation."""

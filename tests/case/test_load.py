@@ -348,7 +348,7 @@ ERRORS = [
         [],
         ["materials.concrete.conductivity=0"],
         "materials.concrete.conductivity",
-        "greater than 0",
+        "at least 1e-05",
     ),
     ("k missing", [("conductivity = 2.3\n", "")], [], "materials.concrete.conductivity", "missing"),
     (
@@ -395,7 +395,7 @@ ERRORS = [
             "materials.concrete.frozen={conductivity = -2}",
         ],
         "materials.concrete.frozen.conductivity",
-        "greater than 0",
+        "at least 1e-05",
     ),
     (
         "unknown material",
@@ -525,7 +525,7 @@ ERRORS = [
         [],
         ["boundaries.2.edges.1=[[0.2, 0.0], [0.2, 0.0]]"],
         "boundaries.2.edges.1",
-        "zero length",
+        "0 m long",
     ),
     (
         "bad coordinate",
@@ -547,7 +547,7 @@ ERRORS = [
         [],
         ["boundaries.1.air_temperature.period=0"],
         "boundaries.1.air_temperature.period",
-        "greater than 0",
+        "at least 0.001",
     ),
     (
         "cosine without mean",

@@ -250,3 +250,26 @@ at = [0.1, {y!r}]
     assert mesh.piece_volume.sum() == pytest.approx(total, rel=1e-12)
     sol = simulate(case, mesh=mesh)
     assert sol.balance.relative < 1e-10
+
+
+def test_max_cells_bounds_the_triangle_mesh(tmp_path):
+    """[mesh] max_cells counts the triangle mesh's nodes (one control volume each): a mesh
+    beyond it is one line naming mesh.max_cells before it is made, and the grid check's
+    refined mesh (about four nodes per node) is refused before any solve."""
+    nodes = build_mesh(_case(tmp_path)).n_cells
+    small = load(
+        tmp_path, SLOPED.format(kind="triangles", latent=""), [f"mesh.max_cells={nodes // 3}"]
+    )
+    with pytest.raises(CaseError) as err:
+        build_mesh(small)
+    assert err.value.key == "mesh.max_cells" and "nodes" in str(err.value)
+    assert "\n" not in str(err.value)
+    fits = load(
+        tmp_path, SLOPED.format(kind="triangles", latent=""), [f"mesh.max_cells={2 * nodes}"]
+    )
+    from fvheat.mesh.rectilinear import check_refined_size
+
+    mesh = build_mesh(fits)  # fits itself ...
+    with pytest.raises(CaseError) as err:  # ... but not split in four
+        check_refined_size(fits, mesh, 2.0)
+    assert "grid check" in str(err.value)

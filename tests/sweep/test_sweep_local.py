@@ -99,7 +99,7 @@ def test_failed_variant_is_recorded_and_the_others_complete(tmp_path, capsys):
     rows = stored(out)
     assert [r.status for r in rows] == ["done", "failed", "done"]
     failed = rows[1]
-    assert f"{SLAB}: must be greater than 0" in failed.message
+    assert f"{SLAB}: must be at least 1e-05" in failed.message
     assert failed.results == {} and failed.attempts == 1
     # --retry-failed runs it again (and fails again); the done ones are left alone
     assert main([*args, "-q", "--retry-failed"]) == 1

@@ -1,0 +1,51 @@
+"""The progress bar only on a terminal: with standard error captured (a pipe, a log
+file) a run prints nothing there but warnings and its one error line. Before, the bar's
+last refresh left an empty line in front of the error (found by tests/cli/test_fuzz.py)."""
+
+from __future__ import annotations
+
+from casefiles import write_case
+
+from fvheat.cli.main import main
+
+WALL = """
+[mesh]
+max_cell = 0.05
+[materials.w]
+conductivity = 1.0
+density = 1000
+specific_heat = 1000
+[[regions]]
+material = "w"
+box = [0, 0, 0.2, 0.2]
+[[boundaries]]
+name = "in"
+edges = [[[0, 0], [0, 0.2]]]
+air_temperature = 20
+resistance = 0.13
+[[boundaries]]
+name = "out"
+edges = [[[0.2, 0], [0.2, 0.2]]]
+air_temperature = -5
+resistance = 0.04
+[time]
+duration = 3600
+step = 600
+initial_temperature = 10
+"""
+
+
+def test_no_bar_on_captured_stderr(tmp_path, capsys):
+    case = write_case(tmp_path, WALL)
+    assert main(["run", str(case), "-o", str(tmp_path / "ok"), "--no-plots"]) == 0
+    captured = capsys.readouterr()
+    assert captured.err == ""
+    assert "cells" in captured.out  # the results table still goes to standard output
+    bad = ["run", str(case), "-o", str(tmp_path / "bad"), "--set", "probes.0.at=[1, 1]"]
+    bad_case = write_case(
+        tmp_path, WALL + '[[probes]]\nname = "p"\nat = [0.1, 0.1]\n', name="probe.toml"
+    )
+    bad[1] = str(bad_case)
+    assert main(bad) == 2
+    err = capsys.readouterr().err
+    assert err.count("\n") == 1 and err.startswith("fvheat: error: "), repr(err)
