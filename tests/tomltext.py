@@ -1,9 +1,9 @@
 """TOML text from Python values, for tests that build or mutate case files as data.
 
 Written here, not taken from a library, so that it can write what a fuzzer needs: nan and
-inf, huge integers, any unicode, arrays mixing types, dates and times. Tables become ``[a.b]`` sections,
-arrays whose items are all tables ``[[a.b]]`` entries, and tables inside arrays inline
-tables.
+inf, huge integers, any unicode, arrays mixing types, dates and times. Tables become
+``[a.b]`` sections, arrays whose items are all tables ``[[a.b]]`` entries, and tables
+inside arrays inline tables.
 """
 
 from __future__ import annotations
