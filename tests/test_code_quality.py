@@ -89,3 +89,17 @@ def test_api_coverage_counts_what_is_missing(tmp_path: Path) -> None:
     assert found["good"].typed and found["C.static"].typed and found["over"].typed
     assert rep.typed == pytest.approx(100 * 5 / 7)
     assert rep.documented == pytest.approx(100 * 6 / 7)
+
+
+#: the contributor guide's rule: small modules with one job each (common practice)
+MOST_LINES = 500
+
+
+def test_no_module_exceeds_the_line_limit() -> None:
+    """Every module of the package holds at most MOST_LINES lines."""
+    lines = {
+        str(p.relative_to(ROOT)): len(p.read_text(encoding="utf-8").splitlines())
+        for p in sorted((ROOT / "fvheat").rglob("*.py"))
+    }
+    long = {name: n for name, n in lines.items() if n > MOST_LINES}
+    assert long == {}, f"split these modules (at most {MOST_LINES} lines): {long}"

@@ -28,7 +28,7 @@ from matplotlib.image import imread
 from fvheat.case.load import load_case
 from fvheat.errors import CaseError
 from fvheat.mesh.rectilinear import build_mesh
-from fvheat.output.plots import preview, style
+from fvheat.output.plots import preview, preview_text, style
 from fvheat.output.view import geometry_view
 
 from .conftest import CASES
@@ -218,7 +218,7 @@ resistance = 0.04
 heat_flux = 2.5
 """,
     )
-    words = {b.name: preview.boundary_condition(b) for b in case.boundaries}
+    words = {b.name: preview_text.boundary_condition(b) for b in case.boundaries}
     assert words == {
         "room": "20 °C, R = 0.13 m²K/W",
         "sky": "−5 °C, h_c = 8 W/(m²K), ε 0.9 → −10 °C",
@@ -236,7 +236,7 @@ def test_boundary_from_a_csv_column_is_named_by_file_and_column(tmp_path):
             "air_temperature = -5.0", 'air_temperature = { file = "weather.csv", column = "t_out" }'
         ),
     )
-    assert preview.boundary_condition(case.boundary("sky")).startswith(
+    assert preview_text.boundary_condition(case.boundary("sky")).startswith(
         "t_out from weather.csv (°C), h_c = 8"
     )
 

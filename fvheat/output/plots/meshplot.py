@@ -37,7 +37,8 @@ def mesh_figure(
         x, y = view.grid.x, view.grid.y
         layers.draw_cells(ax, view, view.material, window=window, cmap=cmap, norm=norm)
         # (shared with the preview, which imports this module)
-        from fvheat.output.plots.preview import _ordinal, mesh_step
+        from fvheat.output.plots.preview import mesh_step
+        from fvheat.output.plots.preview_text import ordinal
 
         step = mesh_step(view, style.axes_size(x1 - x0, y1 - y0, extra_width=0.4))
         width = min(0.45, edge_width(fig, view, window) * step)
@@ -63,7 +64,7 @@ def mesh_figure(
             + (
                 ""
                 if step == 1
-                else f"; every {_ordinal(step)} grid line drawn (too fine to show all)"
+                else f"; every {ordinal(step)} grid line drawn (too fine to show all)"
             ),
         )
         fig.legend(

@@ -17,14 +17,19 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from fvheat.case.model import Boundary, Case, Material
-from fvheat.case.signals import Constant, Cosine, Series, Signal
+from fvheat.case.model import Case
+from fvheat.drawing.polygons import signed_area
 from fvheat.errors import CaseError
 from fvheat.mesh.geometry import points_in_polygon
 from fvheat.mesh.mesh import Mesh
 from fvheat.output.files import atomic_write
 from fvheat.output.plots import layers, style
 from fvheat.output.plots.meshplot import edge_width
+from fvheat.output.plots.preview_text import (
+    boundary_label,
+    material_label,
+    ordinal,
+)
 from fvheat.output.view import GeometryView, geometry_view
 
 if TYPE_CHECKING:
@@ -135,22 +140,6 @@ def preview_figure(case: Case, mesh: Mesh, *, show_mesh: bool = False) -> Figure
 # --- materials -------------------------------------------------------------------------
 
 
-def material_label(material: Material, cells: int, *, used: bool = True) -> str:
-    """Legend text of a material: name, λ (W/(m·K)) or the cavity's λ_eq; "0 cells" when
-    the mesher painted none (``used``: some region names it)."""
-    k = _num(material.conductivity)
-    if material.cavity:
-        text = f"{material.name}: cavity, λ_eq {k} W/(m·K)"
-    else:
-        text = f"{material.name}: λ {k} W/(m·K)"
-        frozen = material.frozen.conductivity if material.frozen is not None else None
-        if frozen is not None:
-            text += f" (frozen {_num(frozen)})"
-    if cells == 0:
-        text += " — 0 cells" if used else " — used by no region"
-    return text
-
-
 def material_colours(case: Case, counts: np.ndarray) -> list[str | None]:
     """Fill colour per material of ``case`` (in the order of ``case.materials``): solids
     take the style's material colours, cavities pale cool ones, each in order of use; None
@@ -215,7 +204,7 @@ def _draw_mesh(fig, ax, geom: GeometryView, window: layers.Window) -> str:
     nx, ny = geom.grid.x.size, geom.grid.y.size
     if step == 1:
         return f"mesh: all {nx} × {ny} grid lines"
-    return f"mesh: every {_ordinal(step)} of {nx} × {ny} grid lines drawn (too fine to show all)"
+    return f"mesh: every {ordinal(step)} of {nx} × {ny} grid lines drawn (too fine to show all)"
 
 
 def _draw_region_outlines(ax, case: Case):
@@ -242,7 +231,7 @@ def _label_regions(ax, case: Case) -> None:
     for r in case.regions:
         if not r.name:
             continue
-        area = _ring_area(r.vertices) - sum(_ring_area(h) for h in r.holes)
+        area = abs(signed_area(r.vertices)) - sum(abs(signed_area(h)) for h in r.holes)
         if r.name not in best or area > best[r.name][0]:
             best[r.name] = (area, _label_point(r.vertices, r.holes))
     for name, (_, (x, y)) in best.items():
@@ -261,70 +250,6 @@ def _label_regions(ax, case: Case) -> None:
 
 
 # --- boundaries ----------------------------------------------------------------------------
-
-
-def signal_text(signal: Signal, unit: str) -> str:
-    """A short description of a boundary value: "20 °C", "4 ± 7 °C, period 24 h",
-    "t_out from weather.csv (°C)"."""
-    if isinstance(signal, Constant):
-        return f"{_num(signal.value)} {unit}"
-    if isinstance(signal, Cosine):
-        if signal.amplitude == 0.0:
-            return f"{_num(signal.mean)} {unit}"
-        text = (
-            f"{_num(signal.mean)} ± {_num(abs(signal.amplitude))} {unit}, "
-            f"period {_duration(signal.period)}"
-        )
-        peak = signal.phase if signal.amplitude > 0 else signal.phase + 0.5 * signal.period
-        peak %= signal.period
-        return text + (f", peak at {_duration(peak)}" if peak else "")
-    if isinstance(signal, Series):
-        return f"{signal.column} from {Path(signal.source).name} ({unit})"
-    raise TypeError(f"unknown signal {signal!r}")
-
-
-def boundary_condition(b: Boundary) -> str:
-    """The boundary's condition in words, e.g. "20 °C, R = 0.13 m²K/W", "fixed 10 °C",
-    "q = 15 W/m²", "−5 °C, h_c = 8 W/(m²K), ε 0.9 → −10 °C"."""
-    if b.kind == "temperature":
-        assert b.temperature is not None
-        return f"fixed {signal_text(b.temperature, '°C')}"
-    if b.kind == "flux":
-        assert b.heat_flux is not None
-        return f"q = {signal_text(b.heat_flux, 'W/m²')}"
-    assert b.air_temperature is not None
-    parts = [signal_text(b.air_temperature, "°C")]
-    if b.resistance is not None:
-        parts.append(f"R = {_num(b.resistance)} m²K/W")
-    elif b.convection > 0.0:
-        parts.append(f"h_c = {_num(b.convection)} W/(m²K)")
-    if b.emissivity > 0.0 and b.radiant_temperature is not None:
-        parts.append(f"ε {_num(b.emissivity)} → {signal_text(b.radiant_temperature, '°C')}")
-    if b.heat_flux is not None:
-        parts.append(f"q = {signal_text(b.heat_flux, 'W/m²')}")
-    return ", ".join(parts)
-
-
-def _side(case: Case, name: str) -> str:
-    j = case.junction
-    if j is None:
-        return ""
-    if name in j.inside:
-        return "warm side"
-    if name in j.outside:
-        return "cold side"
-    return ""
-
-
-def boundary_label(case: Case, b: Boundary, faces: int) -> str:
-    """Legend text of a boundary: name, condition, the junction side, "no faces"."""
-    text = f"{b.name}: {boundary_condition(b)}"
-    side = _side(case, b.name)
-    if side:
-        text += f" ({side})"
-    if faces == 0:
-        text += " — no faces on the mesh"
-    return text
 
 
 def _draw_boundaries(ax, case: Case, geom: GeometryView) -> list:
@@ -548,32 +473,6 @@ def _legend_inches(fig, handles: list, ncols: int) -> tuple[float, float]:
     box = leg.get_window_extent(fig.canvas.get_renderer())
     leg.remove()
     return box.width / fig.dpi, box.height / fig.dpi
-
-
-# --- small helpers --------------------------------------------------------------------------
-
-
-def _num(v: float) -> str:
-    """A number for a label: up to four significant digits, a proper minus sign."""
-    return f"{v:.4g}".replace("-", "−")
-
-
-def _duration(seconds: float) -> str:
-    if seconds % 86400 == 0 and seconds >= 86400 * 2:
-        return f"{seconds / 86400:g} d"
-    if seconds >= 3600:
-        return f"{seconds / 3600:.4g} h"
-    return f"{seconds:.4g} s"
-
-
-def _ordinal(k: int) -> str:
-    suffix = "th" if 10 <= k % 100 <= 20 else {1: "st", 2: "nd", 3: "rd"}.get(k % 10, "th")
-    return f"{k}{suffix}"
-
-
-def _ring_area(ring: np.ndarray) -> float:
-    x, y = ring[:, 0], ring[:, 1]
-    return 0.5 * abs(float(np.sum(x * np.roll(y, -1) - np.roll(x, -1) * y)))
 
 
 def _label_point(vertices: np.ndarray, holes: tuple[np.ndarray, ...]) -> np.ndarray:
