@@ -59,8 +59,8 @@ def layer_cut(case: Case, mesh: Mesh, cut: Segment) -> LayerCut:
     if x0 != x1 and y0 != y1:  # sloped: read on the geometry itself
         from fvheat.evaluate.sloped_cut import sloped_layers
 
-        layers, r_start, r_end = sloped_layers(case, cut)
-        return LayerCut(tuple(layers), r_start, r_end)
+        layers, r_start, r_end, ends = sloped_layers(case, cut)
+        return LayerCut(tuple(layers), r_start, r_end, ends)
     if mesh.grid is None:
         # the layers are the case's geometry: read them on the case's rectilinear grid
         from fvheat.mesh.rectilinear import build_mesh

@@ -21,10 +21,11 @@ PERPENDICULAR_DEG = 1.0
 
 def sloped_layers(
     case: Case, cut: tuple[tuple[float, float], tuple[float, float]]
-) -> tuple[list[tuple[str, float, float]], float, float]:
+) -> tuple[list[tuple[str, float, float]], float, float, tuple[str, str]]:
     """(material, thickness m, conductivity W/(m·K)) from the cut's first point to its
-    second, and the surface resistances (m²·K/W) there. Raises the junction's
-    :class:`~fvheat.evaluate.layers.CutError` for a cut off the body or not across it."""
+    second, the surface resistances (m²·K/W) there and the boundaries they come from.
+    Raises the junction's :class:`~fvheat.evaluate.layers.CutError` for a cut off the body
+    or not across it."""
     from fvheat.evaluate.layers import CutError
 
     p0, p1 = np.asarray(cut[0], float), np.asarray(cut[1], float)
@@ -57,12 +58,13 @@ def sloped_layers(
         else:
             layers.append((m, float(d), case.materials[m].conductivity))
     t = (p1 - p0) / length
-    return layers, _end_resistance(case, p0, t), _end_resistance(case, p1, t)
+    (r0, b0), (r1, b1) = _end_resistance(case, p0, t), _end_resistance(case, p1, t)
+    return layers, r0, r1, (b0, b1)
 
 
-def _end_resistance(case: Case, p: np.ndarray, t: np.ndarray) -> float:
-    """Surface resistance (m²·K/W) of the boundary the cut's end ``p`` lies on; the cut
-    (direction ``t``) must cross that surface perpendicularly."""
+def _end_resistance(case: Case, p: np.ndarray, t: np.ndarray) -> tuple[float, str]:
+    """Surface resistance (m²·K/W) of the boundary the cut's end ``p`` lies on, and its
+    name; the cut (direction ``t``) must cross that surface perpendicularly."""
     from fvheat.evaluate.layers import CutError
 
     tol = 1e-9 * max(float(np.max(np.abs(p))), 1.0)
@@ -83,10 +85,10 @@ def _end_resistance(case: Case, p: np.ndarray, t: np.ndarray) -> float:
     if found is None:
         raise CutError("each end of the cut must be on a boundary with a surface resistance")
     if found.kind == "temperature":
-        return 0.0
+        return 0.0, found.name
     if found.kind != "surface" or found.radiative or found.convection <= 0.0:
         raise CutError(
             f"boundary {found.name!r} at the end of the cut has no surface resistance "
             "(give it `resistance` or `convection` without radiation)"
         )
-    return 1.0 / found.convection
+    return 1.0 / found.convection, found.name

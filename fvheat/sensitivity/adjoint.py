@@ -27,6 +27,7 @@ import scipy.sparse as sp
 from scipy.constants import Stefan_Boltzmann as SIGMA
 from scipy.constants import zero_Celsius as KELVIN
 
+from fvheat.assembly.boundary import PENALTY
 from fvheat.assembly.system import System
 from fvheat.solve.linear import DirectSolver, LinearSolver, SolverChoice, make_solver
 
@@ -58,13 +59,23 @@ def face_partials(system: System, temp: np.ndarray, t: float = 0.0) -> FaceParti
     safe = np.where(fixed, 1.0, d)
     dts_dgc = np.where(fixed, 0.0, (tc - ts) / safe)
     dts_dh = np.where(fixed, 0.0, (ref - ts) / safe)
+    dts_dtc = dflux / (area * gc) + 1.0
+    dflux_dgc = area * ((ts - tc) + gc * dts_dgc)
+    dflux_dh = area * gc * dts_dh
+    # the unknown on the surface (box method): T_s = T_c, Φ = A·(h (T_a − T_c) + radiation + q)
+    # with no cell-to-face conductance in it (a fixed node keeps its penalty form above)
+    node = s.at_node & ~fixed
+    if node.any():
+        dts_dtc[node], dts_dgc[node], dts_dh[node] = 1.0, 0.0, 0.0
+        dflux_dgc[node] = 0.0
+        dflux_dh[node] = area[node] * (ref[node] - tc[node])
     return FacePartials(
         ts=ts,
         flux=flux,
         dflux_dtc=dflux,
-        dts_dtc=dflux / (area * gc) + 1.0,
-        dflux_dgc=area * ((ts - tc) + gc * dts_dgc),
-        dflux_dh=area * gc * dts_dh,
+        dts_dtc=dts_dtc,
+        dflux_dgc=dflux_dgc,
+        dflux_dh=dflux_dh,
         dts_dgc=dts_dgc,
         dts_dh=dts_dh,
     )
@@ -144,7 +155,12 @@ def derivatives(
     # interior faces: −Σ ∂G/∂p (a_o − a_n)(T_o − T_n)
     o, nb = mesh.owner, mesh.neighbour
     g = system.g
-    core = -(adj[o] - adj[nb]) * (temp[o] - temp[nb])[:, None] * (g * g / mesh.face_area)[:, None]
+    drop = -(adj[o] - adj[nb]) * (temp[o] - temp[nb])[:, None]
+    if mesh.face_weight is not None:  # box method: G = w·k[face material], ∂G/∂k = w
+        assert mesh.face_material is not None
+        _scatter(out, material_param[mesh.face_material], drop * mesh.face_weight[:, None])
+        return values, out
+    core = drop * (g * g / mesh.face_area)[:, None]
     _scatter(out, pm[o], core * (mesh.d_owner / k[o] ** 2)[:, None])
     _scatter(out, pm[nb], core * (mesh.d_neighbour / k[nb] ** 2)[:, None])
     return values, out
@@ -154,8 +170,14 @@ def _check_conductance_forms(system: System) -> None:
     """The derivatives above assume G = A/(d_o/k_o + d_n/k_n) and g_c = k/d, the forms
     :mod:`fvheat.assembly` uses; fail loudly rather than differentiate another form."""
     mesh, k, s = system.mesh, system.k, system.surface
-    g = mesh.face_area / (mesh.d_owner / k[mesh.owner] + mesh.d_neighbour / k[mesh.neighbour])
-    gc = k[s.cell] / mesh.b_dist[s.face]
+    if mesh.face_weight is not None:  # box method: G = w·k[face material]
+        assert mesh.face_material is not None and system.k_material is not None
+        g = mesh.face_weight * system.k_material[mesh.face_material]
+        # g_c: k over the face length (times the penalty at fixed nodes), as assembled
+        gc = s.conductance_scale * np.where(s.at_node & s.fixed, PENALTY, 1.0)
+    else:
+        g = mesh.face_area / (mesh.d_owner / k[mesh.owner] + mesh.d_neighbour / k[mesh.neighbour])
+        gc = k[s.cell] / mesh.b_dist[s.face]
     if not (np.allclose(system.g, g, rtol=1e-12, atol=0) and np.allclose(s.gc, gc, rtol=1e-12)):
         raise NotImplementedError(
             "the adjoint assumes harmonic-mean face conductances and g_c = k/d; the assembly "

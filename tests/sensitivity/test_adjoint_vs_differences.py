@@ -44,6 +44,13 @@ def test_demo_case(name: str) -> None:
 
 
 @pytest.mark.slow
+def test_triangle_mesh_demo() -> None:
+    """The pitched-roof eaves run on the triangle mesh (box method: G = w·k per triangle,
+    the unknown on the surface): the same differences, the mesh identical in both runs."""
+    assert _check_every_derivative(CASES / "eaves_pitched_roof.toml") > 20
+
+
+@pytest.mark.slow
 def test_radiating_boundary(tmp_path: Path) -> None:
     """The ceiling radiates: the adjoint runs on the Newton Jacobian at the solution."""
     path = radiating_balcony(tmp_path)

@@ -28,7 +28,11 @@ def _euler_sum(sens: Sensitivities, quantity: str) -> float:
 
 @pytest.mark.parametrize(
     ("name", "junction"),
-    [("balcony_slab.toml", ["L2D", "psi"]), ("wall_window_junction.toml", ["L2D"])],
+    [
+        ("balcony_slab.toml", ["L2D", "psi"]),
+        ("wall_window_junction.toml", ["L2D"]),
+        ("eaves_pitched_roof.toml", ["L2D", "psi"]),  # the triangle mesh (box method)
+    ],
 )
 def test_sum_rule(name: str, junction: list[str]) -> None:
     sens = adjoint(CASES / name)
