@@ -23,6 +23,7 @@ exterior faces as line cells. Cell data (SI units, temperatures in °C):
 from __future__ import annotations
 
 import csv
+import io
 import json
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
@@ -257,26 +258,38 @@ def read_surface_field(out: str | Path, meta: dict[str, Any] | None = None) -> F
 
 
 def write_cells_csv(path: str | Path, view: FieldView) -> Path:
-    """Write ``cells.csv``: cell centre (m), material, temperature (°C), heat flux (W/m²)."""
-    names = np.asarray(view.material_names, dtype=object)[view.material]
-    rows = zip(
-        view.centres[:, 0],
-        view.centres[:, 1],
+    """Write ``cells.csv``: cell centre (m), material, temperature (°C), heat flux (W/m²).
+
+    Numbers are written as Python's shortest round-trip form (``repr``), material names as
+    the ``csv`` module quotes them, rows ended by CRLF (the ``csv`` default): each column is
+    converted once (``tolist``, one ``repr`` per value) and the rows joined, about twice as
+    fast as a ``csv.writer`` row by row."""
+    header = ["x_m", "y_m", "material", "temperature_C", "heat_flux_x_W_m2", "heat_flux_y_W_m2"]
+    quoted = [_csv_field(name) for name in view.material_names]
+    names = [quoted[m] for m in view.material.tolist()]
+    columns = [
+        map(repr, view.centres[:, 0].tolist()),
+        map(repr, view.centres[:, 1].tolist()),
         names,
-        view.temperature,
-        view.flux[:, 0],
-        view.flux[:, 1],
-        strict=True,
-    )
+        map(repr, view.temperature.tolist()),
+        map(repr, view.flux[:, 0].tolist()),
+        map(repr, view.flux[:, 1].tolist()),
+    ]
 
     def write(fh) -> None:
-        w = csv.writer(fh)
-        w.writerow(
-            ["x_m", "y_m", "material", "temperature_C", "heat_flux_x_W_m2", "heat_flux_y_W_m2"]
-        )
-        w.writerows(
-            [repr(float(a)), repr(float(b)), m, repr(float(t)), repr(float(qx)), repr(float(qy))]
-            for a, b, m, t, qx, qy in rows
-        )
+        fh.write(",".join(header) + CSV_END)
+        if names:
+            fh.write(CSV_END.join(map(",".join, zip(*columns, strict=True))) + CSV_END)
 
     return atomic_write(path, write)
+
+
+#: the csv module's line ending
+CSV_END = "\r\n"
+
+
+def _csv_field(text: str) -> str:
+    """``text`` as one field of a ``csv.writer`` row (quoted when the csv module would)."""
+    buf = io.StringIO()
+    csv.writer(buf, lineterminator="").writerow([text])
+    return buf.getvalue()

@@ -105,3 +105,38 @@ def test_mesh_figure_of_a_fine_grid_draws_every_kth_line_and_says_so(tmp_path):
     segs = lines.get_segments()
     xs = {round(float(s[0][0]), 9) for s in segs if abs(s[0][0] - s[1][0]) < 1e-12}
     assert len(xs) == len(range(0, 251, k))
+
+
+def test_an_image_is_resampled_once_per_file_and_still_drawn(tmp_path):
+    """The layout pass before saving skips the image (no resampling for nothing), the
+    drawing of each file does not: the PNG shows the image's colours (a skip in the real
+    drawing would leave the axes white) and the SVG embeds it."""
+    import io
+
+    from matplotlib.colors import Normalize
+    from PIL import Image
+
+    from fvheat.output.plots import style
+    from fvheat.output.plots.raster import draw_image
+
+    fig = style.new_figure(3.0, 2.0)
+    ax = fig.add_subplot()
+    cells = np.zeros((40, 60), dtype=np.int64)  # every pixel the one cell
+    image = draw_image(
+        ax, cells, np.array([0.0]), (0.0, 0.0, 0.6, 0.4), cmap="viridis", norm=Normalize(0, 1)
+    )
+    fig.colorbar(image, ax=ax)
+    calls = []
+    make_image = image.make_image
+
+    def counted(*args, **kwargs):
+        calls.append(1)
+        return make_image(*args, **kwargs)
+
+    image.make_image = counted
+    png, svg = style.save(fig, tmp_path / "map")
+    assert len(calls) == 2  # one per file, none in the layout pass
+    pixels = np.asarray(Image.open(io.BytesIO(png.read_bytes())).convert("RGB"))
+    viridis_low = np.array([68, 1, 84])  # viridis at 0 (matplotlib's table)
+    assert (np.abs(pixels.astype(int) - viridis_low).sum(axis=2) < 6).sum() > 1000
+    assert "<image" in svg.read_text(encoding="utf-8")

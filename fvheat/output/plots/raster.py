@@ -10,6 +10,7 @@ face-array mesh can be drawn the same way.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from typing import TYPE_CHECKING, Any, cast
 
 import numpy as np
@@ -122,7 +123,25 @@ def draw_image(
     from matplotlib.cm import ScalarMappable
 
     setattr(image, SCALE_ATTR, ScalarMappable(norm=norm, cmap=cm))  # see colour_scale
+    image.draw = _unless_layout_pass(image.draw)  # type: ignore[method-assign,assignment]
     return image
+
+
+def _unless_layout_pass(draw: Callable[[Any], None]) -> Callable[[Any], None]:
+    """``draw`` (an image's), skipped in the pass matplotlib runs with drawing switched off
+    before saving a figure with a layout engine: that pass only places the axes (an image
+    inside them does not move them) but would resample the whole image for nothing. The
+    pass is recognised by the renderer's ``draw_image`` being the no-op matplotlib puts in
+    its place (a wrapper of ``RendererBase.draw_image``); otherwise the image is drawn."""
+    from matplotlib.backend_bases import RendererBase
+
+    def draw_unless_layout_pass(renderer: Any) -> None:
+        disabled = getattr(renderer, "draw_image", None)
+        if getattr(disabled, "__wrapped__", None) is RendererBase.draw_image:
+            return
+        draw(renderer)
+
+    return draw_unless_layout_pass
 
 
 #: attribute of a drawn image holding the colour scale its pixels were coloured with

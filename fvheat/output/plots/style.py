@@ -224,7 +224,27 @@ def save(fig: Figure, path: str | Path, *, vector: bool = True) -> list[Path]:
                 break
             fig.set_layout_engine("none")
         buf = io.BytesIO()
-        with style():  # the same settings when drawing (e.g. the SVG's fixed id salt)
+        with style(), _no_layout_draw(fig, suffix == ".svg"):  # style: e.g. the SVG's id salt
             fig.savefig(buf, format=suffix[1:], **opts)
         out.append(atomic_write_bytes(path.with_suffix(suffix), buf.getvalue()))
     return out
+
+
+@contextmanager
+def _no_layout_draw(fig: Figure, fixed: bool) -> Iterator[None]:
+    """With ``fixed`` (the layout already computed and switched off): hide the figure's
+    placeholder layout engine while saving. matplotlib draws the whole figure once more
+    (drawing switched off, images resampled all the same) before saving any figure that
+    has a layout engine, only to place the axes; with the layout fixed that draw changes
+    nothing and costs about 40 % of an SVG of a map."""
+    from matplotlib.layout_engine import PlaceHolderLayoutEngine
+
+    engine = getattr(fig, "_layout_engine", None)
+    if not fixed or not isinstance(engine, PlaceHolderLayoutEngine):
+        yield
+        return
+    fig._layout_engine = None  # type: ignore[attr-defined]  # private: restored below
+    try:
+        yield
+    finally:
+        fig._layout_engine = engine  # type: ignore[attr-defined]
