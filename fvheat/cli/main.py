@@ -9,10 +9,10 @@ from __future__ import annotations
 import glob
 import os
 import sys
+import warnings
 from pathlib import Path
 from typing import Annotated
 
-import numpy as np
 import typer
 
 from fvheat.errors import CaseError, FvheatError
@@ -396,7 +396,12 @@ def main(argv: list[str] | None = None) -> int:
     if argv is None:
         # a numerical failure is reported in one line (NaN / inf results are refused by
         # fvheat.run); numpy's floating-point warnings on the way would add lines of their own
-        np.seterr(all="ignore")
+        # (a filter, not numpy.seterr: `fvheat --help` does not import numpy)
+        warnings.filterwarnings(
+            "ignore",
+            r"(invalid value|divide by zero|overflow|underflow) encountered",
+            RuntimeWarning,
+        )
         args = sys.argv[1:]
         if os.name == "nt":  # Windows shells leave wildcards to the program (typer's main did too)
             args = expand_wildcards(args)

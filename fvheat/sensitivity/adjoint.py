@@ -24,11 +24,11 @@ from dataclasses import dataclass
 
 import numpy as np
 import scipy.sparse as sp
-from scipy.constants import Stefan_Boltzmann as SIGMA
-from scipy.constants import zero_Celsius as KELVIN
 
 from fvheat.assembly.boundary import PENALTY
 from fvheat.assembly.system import System
+from fvheat.constants import STEFAN_BOLTZMANN as SIGMA
+from fvheat.constants import ZERO_CELSIUS as KELVIN
 from fvheat.solve.linear import DirectSolver, LinearSolver, SolverChoice, make_solver
 
 
