@@ -89,19 +89,28 @@ def finish_mesh(case: Case, v: np.ndarray, t: np.ndarray, region: np.ndarray) ->
     attached and its probes checked."""
     from dataclasses import replace
 
+    from fvheat.mesh.ordering import spatial_order
+
     keep = region >= 0
     used, t = np.unique(t[keep], return_inverse=True)
-    t = t.reshape(-1, 3)
+    # nodes along a Z-order curve, triangles by their first node: memory locality for
+    # assembly, the AMG hierarchy and every matrix product (see mesh/ordering.py)
+    order = spatial_order(v[used])
+    used = used[order]
+    rank = np.empty_like(order)
+    rank[order] = np.arange(order.size)
+    t = rank[t.reshape(-1, 3)]
+    by_node = np.argsort(t.min(axis=1), kind="stable")
+    t = t[by_node]
+    tri_region = region[keep][by_node]
     names = tuple(case.materials)
     material = np.array([names.index(r.material) for r in case.regions], dtype=np.int32)
-    mesh = box_mesh(
-        v[used], t, material[region[keep]], names, tuple(b.name for b in case.boundaries)
-    )
+    mesh = box_mesh(v[used], t, material[tri_region], names, tuple(b.name for b in case.boundaries))
     mesh = replace(
         mesh,
-        triangle_region=region[keep],
-        piece_region=np.repeat(region[keep], 3),
-        region=_dominant(mesh, np.repeat(region[keep], 3)),
+        triangle_region=tri_region,
+        piece_region=np.repeat(tri_region, 3),
+        region=_dominant(mesh, np.repeat(tri_region, 3)),
     )
     mesh = attach_boundaries(case, mesh)
     check_probes(case, mesh)
@@ -120,6 +129,10 @@ def _triangle_areas(v: np.ndarray, t: np.ndarray) -> np.ndarray:
     )
 
 
+#: corner groups up to this many points are measured point by point, larger ones by a tree
+FEW_CORNERS = 4
+
+
 class SizeFunction:
     """Target edge length h(x) = min(max_cell, min over corners c of s_c + (g − 1)·|x − c|)
     (m), with s_c the corner's first size and g the growth ratio."""
@@ -127,18 +140,29 @@ class SizeFunction:
     def __init__(self, largest: float, groups: list[tuple[np.ndarray, float]], growth: float):
         self.largest = largest
         self.growth = growth
-        self.groups = [(cKDTree(p), s) for p, s in groups if len(p)]
+        # a group whose size is not below the largest cannot lower h anywhere
+        self.groups = [(np.asarray(p, float), s) for p, s in groups if len(p) and s < largest]
+        self.trees = [cKDTree(p) if len(p) > FEW_CORNERS else None for p, _ in self.groups]
 
     @property
     def graded(self) -> bool:
         """Whether any corner asks for edges shorter than the largest."""
-        return any(s < self.largest for _, s in self.groups)
+        return bool(self.groups)
 
     def __call__(self, x: np.ndarray) -> np.ndarray:
         h = np.full(len(x), self.largest)
-        for tree, s in self.groups:
-            d, _ = tree.query(x)
-            h = np.minimum(h, s + (self.growth - 1.0) * d)
+        slope = self.growth - 1.0
+        for (p, s), tree in zip(self.groups, self.trees, strict=True):
+            # beyond (largest − s)/slope of every corner the group cannot lower h: the
+            # tree stops searching there (distance inf), most points of a large mesh
+            reach = (self.largest - s) / slope if slope > 0.0 else np.inf
+            if tree is not None:
+                d, _ = tree.query(x, distance_upper_bound=reach * (1.0 + 1e-9))
+            else:  # a few corners: all distances, vectorised, cheaper than the tree
+                d = np.full(len(x), np.inf)
+                for c in p:
+                    d = np.minimum(d, np.hypot(x[:, 0] - c[0], x[:, 1] - c[1]))
+            h = np.minimum(h, s + slope * d)
         return h
 
 
@@ -342,7 +366,9 @@ def _dominant(mesh: Mesh, piece_value: np.ndarray) -> np.ndarray:
     """Per cell, the value of its largest piece (for drawing and summaries only): pieces
     written in order of increasing volume, the last write wins."""
     assert mesh.piece_cell is not None and mesh.piece_volume is not None
-    order = np.argsort(mesh.piece_volume, kind="stable")
+    # pieces 3i, 3i + 1, 3i + 2 are triangle i's thirds: sorting the triangles is enough
+    by_tri = np.argsort(mesh.piece_volume[::3], kind="stable")
+    order = (3 * by_tri[:, None] + np.arange(3)).ravel()
     out = np.zeros(mesh.n_cells, dtype=np.int64)
     out[mesh.piece_cell[order]] = piece_value[order]
     return out
