@@ -8,6 +8,14 @@ linearly with the cell count (a factorisation's grow faster). ``"auto"`` picks A
 large steady grids and the factorisation otherwise (limits in
 :class:`~fvheat.case.model.SolverSettings`, the case's ``[solver]`` table).
 
+Ruge–Stüben on both meshes: on the triangle mesh's P1 matrix (200 000 nodes, 7 entries a
+row) it needs 27 CG iterations to 1e-10 where the grid's 5-point matrix needs 11 (with
+pyamg's default smoothers; see :data:`PRESMOOTHER`).
+Smoothed aggregation (``pyamg.smoothed_aggregation_solver``, symmetric Gauss–Seidel) was
+measured on the same matrix: 22 iterations with the default strength (θ = 0), 12–13 with
+θ = 0.05–0.08, but its set-up is slower, so set-up plus solve was only 0–10 % faster, and
+θ = 0.2 took 200 iterations (on the grid's matrix too): too fragile to choose by mesh kind.
+
 Every AMG-CG solve ends with a Galerkin correction along the constant vector: for a
 symmetric positive-definite A this never increases the error in the energy norm, and it
 makes the residual sum to zero, so the energy balance of the solution (which equals that
@@ -108,6 +116,15 @@ class DirectSolver:
         return self._lu.solve(b)
 
 
+#: one forward Gauss–Seidel sweep before the coarse correction and one backward after it:
+#: the V-cycle stays a symmetric preconditioner (as CG needs) at half the smoothing work of
+#: pyamg's default (a symmetric sweep on each side). Measured at 200 000 unknowns (set-up
+#: plus solve to 1e-10): triangle mesh 1.11 → 0.93 s (27 → 31 iterations), grid
+#: 0.42 → 0.40 s (11 → 13 iterations).
+PRESMOOTHER = ("gauss_seidel", {"sweep": "forward"})
+POSTSMOOTHER = ("gauss_seidel", {"sweep": "backward"})
+
+
 class AmgSolver:
     """CG preconditioned by a Ruge–Stüben AMG hierarchy built once for ``a``.
 
@@ -127,7 +144,9 @@ class AmgSolver:
         self.max_iterations = max_iterations
         self.iterations = 0  # CG iterations over all solves
         with single_thread():
-            self._ml = pyamg.ruge_stuben_solver(self.a)
+            self._ml = pyamg.ruge_stuben_solver(
+                self.a, presmoother=PRESMOOTHER, postsmoother=POSTSMOOTHER
+            )
         log.debug("AMG hierarchy: %d levels", len(self._ml.levels))
         self._precond = v_cycle(self._ml)
         self._op: sp.csr_matrix | spla.LinearOperator = self.a
