@@ -19,7 +19,7 @@ from fvheat.errors import CaseError
 from fvheat.mesh.geometry import grid_in_polygon, points_in_polygon, points_on_segments
 from fvheat.mesh.grading import LinePlan, merge_close, plan_lines
 from fvheat.mesh.mesh import Mesh, RectGrid
-from fvheat.mesh.segments import FaceLocator, segment_faces
+from fvheat.mesh.segments import attach_boundaries
 from fvheat.mesh.size import check_grid_size, check_node_count
 
 
@@ -352,48 +352,6 @@ def _axis_faces(padded: np.ndarray, axis: int) -> tuple[tuple[np.ndarray, ...], 
         j, i = np.nonzero(mask)
         out.append((j, i, *(c[j, i] for c in cells)))
     return tuple(out)
-
-
-def attach_boundaries(case: Case, mesh: Mesh) -> Mesh:
-    """Mark the exterior faces lying on each boundary's segments (:func:`segment_faces`).
-
-    Raises :class:`CaseError` for a segment that lies on no exterior face and for a face
-    that two boundaries claim.
-    """
-    bid = mesh.b_boundary.copy()
-    exch = mesh.b_exchange.copy()
-    locator = FaceLocator(mesh)
-    for k, b in enumerate(case.boundaries):
-        for e, seg in enumerate(b.edges):
-            on, exch_e, _ = segment_faces(locator, seg)
-            key = f"boundaries.{k}.edges.{e}"
-            if not on.any():
-                raise CaseError(
-                    f"segment {_seg_text(seg)} lies on no exterior edge of the body "
-                    "(check its coordinates against the regions)",
-                    file=str(case.source),
-                    key=key,
-                )
-            taken = on & (bid >= 0) & (bid != k)
-            if taken.any():
-                f = int(np.flatnonzero(taken)[0])
-                other = case.boundaries[bid[f]].name
-                x, y = mesh.b_centre[f]
-                raise CaseError(
-                    f"boundary {b.name!r} and boundary {other!r} both claim the exterior "
-                    f"edge at ({x:.4g}, {y:.4g}) m ({int(taken.sum())} faces); a face can "
-                    "have one condition only: shorten one of the segments",
-                    file=str(case.source),
-                    key=key,
-                )
-            bid[on] = k
-            exch = np.where(on, exch_e, exch)
-    return replace(mesh, b_boundary=bid, b_exchange=exch)
-
-
-def _seg_text(seg) -> str:
-    (x0, y0), (x1, y1) = seg
-    return f"({x0:.6g}, {y0:.6g})–({x1:.6g}, {y1:.6g}) m"
 
 
 #: points per probe line checked to lie in the body: 5 × 400 + 1, a superset of the

@@ -7,8 +7,12 @@ costs about one pass over the boundary faces, not one pass per segment.
 
 from __future__ import annotations
 
+from dataclasses import replace
+
 import numpy as np
 
+from fvheat.case.model import Case
+from fvheat.errors import CaseError
 from fvheat.mesh.geometry import segment_frame
 from fvheat.mesh.mesh import Mesh
 
@@ -94,3 +98,46 @@ def segment_faces(locator: FaceLocator, seg: Segment) -> tuple[np.ndarray, np.nd
     on_all[cand] = on
     exch_all[cand] = proj * (length / total if total > 0 else 1.0)
     return on_all, exch_all, total / length
+
+
+def attach_boundaries(case: Case, mesh: Mesh) -> Mesh:
+    """Mark the exterior faces lying on each boundary's segments (:func:`segment_faces`),
+    on either mesh.
+
+    Raises :class:`CaseError` for a segment that lies on no exterior face and for a face
+    that two boundaries claim.
+    """
+    bid = mesh.b_boundary.copy()
+    exch = mesh.b_exchange.copy()
+    locator = FaceLocator(mesh)
+    for k, b in enumerate(case.boundaries):
+        for e, seg in enumerate(b.edges):
+            on, exch_e, _ = segment_faces(locator, seg)
+            key = f"boundaries.{k}.edges.{e}"
+            if not on.any():
+                raise CaseError(
+                    f"segment {_seg_text(seg)} lies on no exterior edge of the body "
+                    "(check its coordinates against the regions)",
+                    file=str(case.source),
+                    key=key,
+                )
+            taken = on & (bid >= 0) & (bid != k)
+            if taken.any():
+                f = int(np.flatnonzero(taken)[0])
+                other = case.boundaries[bid[f]].name
+                x, y = mesh.b_centre[f]
+                raise CaseError(
+                    f"boundary {b.name!r} and boundary {other!r} both claim the exterior "
+                    f"edge at ({x:.4g}, {y:.4g}) m ({int(taken.sum())} faces); a face can "
+                    "have one condition only: shorten one of the segments",
+                    file=str(case.source),
+                    key=key,
+                )
+            bid[on] = k
+            exch = np.where(on, exch_e, exch)
+    return replace(mesh, b_boundary=bid, b_exchange=exch)
+
+
+def _seg_text(seg: Segment) -> str:
+    (x0, y0), (x1, y1) = seg
+    return f"({x0:.6g}, {y0:.6g})–({x1:.6g}, {y1:.6g}) m"

@@ -27,6 +27,7 @@ from fvheat.errors import CaseError
 from fvheat.mesh.geometry import points_in_polygon, segment_frame
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.rectilinear import CORNER_TURN_DEG, on_body
+from fvheat.mesh.segments import attach_boundaries
 from fvheat.mesh.size import check_node_count
 
 log = logging.getLogger(__name__)
@@ -392,39 +393,6 @@ def exact_segment_faces(
         & (np.abs(mesh.b_normal @ n) > 1.0 - 1e-6)
     )
     return on, np.ones(mesh.n_boundary_faces), float(np.sum(mesh.b_area[on])) / length
-
-
-def attach_boundaries(case: Case, mesh: Mesh) -> Mesh:
-    """Mark the exterior faces on each boundary's segments; the same errors as the grid's."""
-    from dataclasses import replace
-
-    from fvheat.mesh.rectilinear import _seg_text
-
-    bid = mesh.b_boundary.copy()
-    for k, b in enumerate(case.boundaries):
-        for e, seg in enumerate(b.edges):
-            on, _, _ = exact_segment_faces(mesh, seg)
-            key = f"boundaries.{k}.edges.{e}"
-            if not on.any():
-                raise CaseError(
-                    f"segment {_seg_text(seg)} lies on no exterior edge of the body "
-                    "(check its coordinates against the regions)",
-                    file=str(case.source),
-                    key=key,
-                )
-            taken = on & (bid >= 0) & (bid != k)
-            if taken.any():
-                f = int(np.flatnonzero(taken)[0])
-                x, y = mesh.b_centre[f]
-                raise CaseError(
-                    f"boundary {b.name!r} and boundary {case.boundaries[bid[f]].name!r} both "
-                    f"claim the exterior edge at ({x:.4g}, {y:.4g}) m; a face can have one "
-                    "condition only: shorten one of the segments",
-                    file=str(case.source),
-                    key=key,
-                )
-            bid[on] = k
-    return replace(mesh, b_boundary=bid)
 
 
 #: up to this many points are located by testing every triangle
