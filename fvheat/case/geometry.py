@@ -68,14 +68,12 @@ def parse_geometry(value: Any, ctx: Context) -> Geometry | None:
         return None
     tbl = table(value, "geometry", allowed=("drawing", "units"))
     units = string(tbl, "units", "geometry", required=False, default="m", choices=tuple(UNITS))
-    assert units is not None
     if "drawing" not in tbl:
         return Geometry(units=units)
     from fvheat.drawing.dxf import read_drawing
     from fvheat.drawing.outlines import Snapper
 
     name = string(tbl, "drawing", "geometry")
-    assert name is not None
     path = ctx.folder / name
     per_metre = UNITS[units]
     try:

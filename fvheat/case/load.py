@@ -161,7 +161,6 @@ def _mesh(value: Any, ctx: Context) -> MeshSettings:
         return _mesh_file(tbl, ctx)
     lo, hi = SMALLEST_CELL, COORDINATE_LIMIT  # m, cell edges
     max_cell = number(tbl, "max_cell", "mesh", ge=lo, le=hi)
-    assert max_cell is not None
     min_cell = number(tbl, "min_cell", "mesh", required=False, ge=lo, le=hi)
     if min_cell is None:
         min_cell = max(max_cell / 5, SMALLEST_CELL)
@@ -170,7 +169,6 @@ def _mesh(value: Any, ctx: Context) -> MeshSettings:
             "mesh.min_cell", f"min_cell = {min_cell:g} m must not exceed max_cell = {max_cell:g} m"
         )
     growth = number(tbl, "growth", "mesh", required=False, default=1.3, gt=1, le=3)
-    assert growth is not None
     corner = number(tbl, "corner_cell", "mesh", required=False, ge=lo, le=hi)
     if corner is not None and corner > min_cell:
         raise Invalid(
@@ -203,7 +201,6 @@ def _mesh_file(tbl: dict, ctx: Context) -> MeshSettings:
     from fvheat.mesh.meshfile import MESH_FILE, MeshFileError, read_mesh_file
 
     name = string(tbl, "file", "mesh")
-    assert name is not None
     extra = [k for k in ("max_cell", "min_cell", "growth", "corner_cell") if k in tbl]
     if extra:
         raise Invalid(f"mesh.{extra[0]}", "not used with mesh.file (the file gives the mesh)")

@@ -105,7 +105,6 @@ def _regions(
             regions.append(_region(cavity.name, shape, rname))
         return regions
     material = string(tbl, "material", path)
-    assert material is not None
     if material not in materials:
         try:
             materials[material] = library_material(lookup(material))

@@ -35,6 +35,26 @@ def default_sweep_out(case_file: Path) -> Path:
     return Path(f"{case_file.stem}_sweep")
 
 
+@contextlib.contextmanager
+def _terminate_as_interrupt() -> Iterator[None]:
+    """Treat SIGTERM like Ctrl-C while the sweep command runs, so workers are stopped
+    cleanly."""
+
+    def handler(signum: int, frame: object) -> None:
+        raise KeyboardInterrupt
+
+    try:
+        old = signal.signal(signal.SIGTERM, handler)
+    except ValueError:  # not the main thread: leave signals alone
+        yield
+        return
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGTERM, old)
+
+
+@_terminate_as_interrupt()
 def sweep_case(
     case_file: Path,
     vary: Sequence[str],
@@ -56,40 +76,6 @@ def sweep_case(
 
     SIGTERM is treated like Ctrl-C (KeyboardInterrupt) from the start, so a sweep stopped
     while its workers start stops them cleanly too."""
-    with _terminate_as_interrupt():
-        return _sweep(
-            case_file,
-            vary,
-            variants_file,
-            zipped=zipped,
-            fixed=fixed,
-            jobs=jobs,
-            out=out,
-            table=table,
-            retry_failed=retry_failed,
-            plots=plots,
-            fields=fields,
-            scheduler=scheduler,
-            quiet=quiet,
-        )
-
-
-def _sweep(
-    case_file: Path,
-    vary: Sequence[str],
-    variants_file: Path | None,
-    *,
-    zipped: bool,
-    fixed: tuple[str, ...],
-    jobs: int | None,
-    out: Path | None,
-    table: Path | None,
-    retry_failed: bool,
-    plots: bool,
-    scheduler: str | None,
-    fields: str = "all",
-    quiet: bool,
-) -> int:
     from fvheat.sweep.variants import vary_variants
     from fvheat.sweep.variants_file import read_variants_file
 
@@ -169,25 +155,6 @@ def _executor(scheduler: str | None, jobs: int | None) -> LocalExecutor | DaskEx
 
         return DaskExecutor(scheduler, in_flight=jobs)
     return LocalExecutor(jobs)
-
-
-@contextlib.contextmanager
-def _terminate_as_interrupt() -> Iterator[None]:
-    """Treat SIGTERM like Ctrl-C while the sweep command runs, so workers are stopped
-    cleanly."""
-
-    def handler(signum: int, frame: object) -> None:
-        raise KeyboardInterrupt
-
-    try:
-        old = signal.signal(signal.SIGTERM, handler)
-    except ValueError:  # not the main thread: leave signals alone
-        yield
-        return
-    try:
-        yield
-    finally:
-        signal.signal(signal.SIGTERM, old)
 
 
 class _Bar:

@@ -198,6 +198,12 @@ def flanking_results(case: Case, mesh: Mesh) -> list[FlankingResult]:
     """U-values and lengths of the flanking elements (layer cuts read from the mesh)."""
     j = case.junction
     assert j is not None
+    aligned = [f.cut for f in j.flanking if f.cut is not None and _axis_aligned(f.cut)]
+    if mesh.grid is None and (aligned or case.ground is not None):
+        # layers and floors are read on the case's own grid: build it once, not per cut
+        from fvheat.mesh.rectilinear import build_mesh
+
+        mesh = build_mesh(case)
     out = []
     for k, f in enumerate(j.flanking):
         if f.cut is None:
@@ -217,6 +223,12 @@ def flanking_results(case: Case, mesh: Mesh) -> list[FlankingResult]:
             FlankingResult(FLOOR_FLANKING, g.u_value, g.length, None, g.lengths(), "ISO 13370")
         )
     return out
+
+
+def _axis_aligned(cut: tuple[tuple[float, float], tuple[float, float]]) -> bool:
+    """Whether a cut runs along x or y (read on a grid; a sloped one on the geometry)."""
+    (x0, y0), (x1, y1) = cut
+    return x0 == x1 or y0 == y1
 
 
 def evaluate_junction(

@@ -60,7 +60,7 @@ class Mesh:
     piece lies in) instead of the harmonic mean of the two cells; ``piece_cell``,
     ``piece_material``, ``piece_volume`` (m²), ``piece_region``: the parts of the control
     volumes (one per cell and triangle); ``triangles`` (t, 3) cell (= vertex) indices and
-    ``triangle_material``/``triangle_region`` per triangle. Boundary faces of such a mesh
+    ``triangle_material`` per triangle. Boundary faces of such a mesh
     have ``b_dist`` = 0: the unknown sits on the surface, the surface temperature is the
     cell's own.
     """
@@ -95,7 +95,6 @@ class Mesh:
     piece_region: np.ndarray | None = field(default=None, repr=False)
     triangles: np.ndarray | None = field(default=None, repr=False)
     triangle_material: np.ndarray | None = field(default=None, repr=False)
-    triangle_region: np.ndarray | None = field(default=None, repr=False)
 
     @property
     def n_cells(self) -> int:

@@ -181,10 +181,8 @@ def check_refined_size(case: Case, mesh: Mesh, refine: float) -> None:
     if mesh.triangles is not None:
         check_node_count(case, mesh.n_cells * round(refine) ** 2, refined=True)
         return
-    if g is None:
-        px, py = grid_plans(case, refine, corners_everywhere=True)
-    else:
-        px, py = grid_plans(case, refine, reentrant_corners(case, g.x, g.y, g.cell_index))
+    assert g is not None  # every mesh is a grid or triangles
+    px, py = grid_plans(case, refine, reentrant_corners(case, g.x, g.y, g.cell_index))
     check_grid_size(case, px.cells, py.cells, refined=True)
 
 

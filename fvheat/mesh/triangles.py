@@ -109,7 +109,6 @@ def finish_mesh(case: Case, v: np.ndarray, t: np.ndarray, region: np.ndarray) ->
     mesh = box_mesh(v[used], t, material[tri_region], names, tuple(b.name for b in case.boundaries))
     mesh = replace(
         mesh,
-        triangle_region=tri_region,
         piece_region=np.repeat(tri_region, 3),
         region=_dominant(mesh, np.repeat(tri_region, 3)),
     )

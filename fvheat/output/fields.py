@@ -25,6 +25,7 @@ from __future__ import annotations
 import csv
 import io
 import json
+from collections.abc import Sequence
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 from xml.sax.saxutils import quoteattr
@@ -258,6 +259,20 @@ def read_surface_field(out: str | Path, meta: dict[str, Any] | None = None) -> F
 
 
 def write_cells_csv(path: str | Path, view: FieldView) -> Path:
+    """Write ``cells.csv`` of a view (:func:`write_cells_table`)."""
+    return write_cells_table(
+        path, view.centres, view.material_names, view.material, view.temperature, view.flux
+    )
+
+
+def write_cells_table(
+    path: str | Path,
+    centres: np.ndarray,
+    material_names: Sequence[str],
+    material: np.ndarray,
+    temperature: np.ndarray,
+    flux: np.ndarray,
+) -> Path:
     """Write ``cells.csv``: cell centre (m), material, temperature (°C), heat flux (W/m²).
 
     Numbers are written as Python's shortest round-trip form (``repr``), material names as
@@ -265,15 +280,15 @@ def write_cells_csv(path: str | Path, view: FieldView) -> Path:
     converted once (``tolist``, one ``repr`` per value) and the rows joined, about twice as
     fast as a ``csv.writer`` row by row."""
     header = ["x_m", "y_m", "material", "temperature_C", "heat_flux_x_W_m2", "heat_flux_y_W_m2"]
-    quoted = [_csv_field(name) for name in view.material_names]
-    names = [quoted[m] for m in view.material.tolist()]
+    quoted = [_csv_field(name) for name in material_names]
+    names = [quoted[m] for m in material.tolist()]
     columns = [
-        map(repr, view.centres[:, 0].tolist()),
-        map(repr, view.centres[:, 1].tolist()),
+        map(repr, centres[:, 0].tolist()),
+        map(repr, centres[:, 1].tolist()),
         names,
-        map(repr, view.temperature.tolist()),
-        map(repr, view.flux[:, 0].tolist()),
-        map(repr, view.flux[:, 1].tolist()),
+        map(repr, temperature.tolist()),
+        map(repr, flux[:, 0].tolist()),
+        map(repr, flux[:, 1].tolist()),
     ]
 
     def write(fh) -> None:

@@ -82,10 +82,10 @@ def write_outputs(
 
             for r in draw_triangle_figures(sol, out, folder.summary, study.surface_solution):
                 written += [out / r.png] + ([out / r.svg] if r.svg else [])
+        else:
+            _drop_stale_index(out)
         return [*written, *write_report(folder)]
-    if sol.mesh.grid is None:  # field files and figures need the rectilinear grid
-        log.warning("no rectilinear grid: field files and figures are not written")
-        return [*written, *write_report(ResultsFolder.open(out))]
+    assert sol.mesh.grid is not None  # every mesh is a grid or triangles
     memory = SolvedFields(sol, study.surface_solution)
     writer = _Background(lambda: _write_field_files(study, out, memory, fields))
     writer.start()
@@ -97,19 +97,24 @@ def write_outputs(
             for r in draw_figures(folder, fields=memory):
                 written += [out / r.png] + ([out / r.svg] if r.svg else [])
         else:
-            # figures left by an earlier run in this folder must not appear in the new report
-            from fvheat.output.plots.figures import INDEX_FILE
-
-            stale = out / FIGURES_DIR / INDEX_FILE
-            if stale.is_file():
-                log.info("removing %s: figures of an earlier run", stale)
-                stale.unlink()
+            _drop_stale_index(out)
     except BaseException:
         writer.wait()  # the field files finish (or fail) before the error goes up
         raise
     written += writer.join()
     written += write_report(folder)
     return written
+
+
+def _drop_stale_index(out: Path) -> None:
+    """Remove a figure index left by an earlier run (``--no-plots``): its figures must not
+    appear in the new report."""
+    from fvheat.output.plots.figures import INDEX_FILE
+
+    stale = out / FIGURES_DIR / INDEX_FILE
+    if stale.is_file():
+        log.info("removing %s: figures of an earlier run", stale)
+        stale.unlink()
 
 
 def _write_field_files(study: Study, out: Path, memory, which: str) -> list[Path]:

@@ -63,6 +63,9 @@ def folder_lock(folder: Path) -> Iterator[None]:
                 f"another --out (if no run is going on, delete {LOCK_FILE})",
                 file=str(folder),
             )
+        if holder is None and _young(lock):  # being written (no hard links): not stale yet
+            time.sleep(0.5)
+            continue
         lock.unlink(missing_ok=True)  # stale: its run no longer exists
     else:
         raise CaseError(f"cannot take the lock {LOCK_FILE} of this folder", file=str(folder))
@@ -71,6 +74,18 @@ def folder_lock(folder: Path) -> Iterator[None]:
     finally:
         if (_holder(lock) or {}).get("pid") == me["pid"]:
             lock.unlink(missing_ok=True)
+
+
+#: a lock younger than this (s) with no readable owner may still be being written
+YOUNG_LOCK_SECONDS = 5.0
+
+
+def _young(lock: Path) -> bool:
+    """Whether ``lock`` exists and was modified less than YOUNG_LOCK_SECONDS ago."""
+    try:
+        return time.time() - lock.stat().st_mtime < YOUNG_LOCK_SECONDS
+    except FileNotFoundError:
+        return False
 
 
 def _create(lock: Path, text: str) -> bool:

@@ -48,9 +48,6 @@ class SolvedFields:
         self._surface_view: FieldView | None = None
         self._lock = threading.Lock()
 
-    def __len__(self) -> int:
-        return len(self._states)
-
     def field_times(self) -> list[float]:
         """Times (s) of the saved states."""
         return [t for t, _ in self._states]

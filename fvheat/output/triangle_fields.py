@@ -93,26 +93,11 @@ def write_node_csv(path: Path, solution: Solution) -> Path:
     """``cells.csv`` of a triangle-mesh run: one row per node (control volume) with the
     columns of the grid's file: position (m), material (of its largest piece), temperature
     (°C), heat flux (W/m², :func:`node_flux`)."""
-    import csv
+    from fvheat.output.fields import write_cells_table
 
-    from fvheat.output.files import atomic_write
-
-    mesh = solution.mesh
-    temp = solution.temperature
+    mesh, temp = solution.mesh, solution.temperature
     q = node_flux(solution, temp)
-    names = np.asarray(mesh.material_names, dtype=object)[mesh.material]
-
-    def write(fh) -> None:
-        w = csv.writer(fh)
-        w.writerow(
-            ["x_m", "y_m", "material", "temperature_C", "heat_flux_x_W_m2", "heat_flux_y_W_m2"]
-        )
-        w.writerows(
-            [repr(float(x)), repr(float(y)), m, repr(float(t)), repr(float(a)), repr(float(b))]
-            for (x, y), m, t, (a, b) in zip(mesh.centres, names, temp, q, strict=True)
-        )
-
-    return atomic_write(path, write)
+    return write_cells_table(path, mesh.centres, mesh.material_names, mesh.material, temp, q)
 
 
 def write_vtu(path: Path, solution: Solution, temperature: np.ndarray) -> Path:

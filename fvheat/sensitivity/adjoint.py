@@ -173,8 +173,9 @@ def _check_conductance_forms(system: System) -> None:
     if mesh.face_weight is not None:  # box method: G = w·k[face material]
         assert mesh.face_material is not None and system.k_material is not None
         g = mesh.face_weight * system.k_material[mesh.face_material]
-        # g_c: k over the face length (times the penalty at fixed nodes), as assembled
-        gc = s.conductance_scale * np.where(s.at_node & s.fixed, PENALTY, 1.0)
+        # g_c: k over the face length at surface nodes (times the penalty where fixed)
+        length = np.where(s.at_node, mesh.b_area[s.face], mesh.b_dist[s.face])
+        gc = k[s.cell] / length * np.where(s.at_node & s.fixed, PENALTY, 1.0)
     else:
         g = mesh.face_area / (mesh.d_owner / k[mesh.owner] + mesh.d_neighbour / k[mesh.neighbour])
         gc = k[s.cell] / mesh.b_dist[s.face]

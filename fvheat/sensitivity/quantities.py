@@ -218,11 +218,15 @@ def _flanking_derivative(
 
 def _ground_derivative(case: Case, study: Study, params: list[Parameter]) -> np.ndarray:
     """d(U·l)/dp of the ISO 13370 ground-floor term by central differences of its
-    closed-form expression (relative step 1e-6; no solve)."""
+    closed-form expression (relative step 1e-6, absolute at 0; no solve)."""
     mesh = study.solution.mesh
+    if mesh.grid is None:  # the floor layers are read on the case's grid: build it once
+        from fvheat.mesh.rectilinear import build_mesh
+
+        mesh = build_mesh(case)
     out = np.zeros(len(params))
     for i, p in enumerate(params):
-        step = 1e-6 * p.value
+        step = 1e-6 * abs(p.value) or 1e-6  # a convection coefficient may be 0
         vals = []
         for v in (p.value + step, p.value - step):
             g = ground_floor(with_parameter(case, p, v), mesh)

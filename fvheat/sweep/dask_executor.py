@@ -16,7 +16,7 @@ from typing import Any
 
 from fvheat.errors import CaseError
 from fvheat.sweep.signals import signals_deferred
-from fvheat.sweep.worker import Outcome, Task, run_task
+from fvheat.sweep.worker import Outcome, Task, one_line, run_task
 
 log = logging.getLogger(__name__)
 
@@ -45,7 +45,7 @@ class DaskExecutor:
         try:
             self.client = Client(self.address, timeout=CONNECT_TIMEOUT, set_as_default=False)
         except Exception as err:  # the checks passed, yet the client could not start
-            reason = _one_line(err)
+            reason = one_line(err)
             raise CaseError(f"cannot reach the Dask scheduler: {reason}", key=where) from err
         try:
             self.client.wait_for_workers(1, timeout=CONNECT_TIMEOUT)
@@ -131,7 +131,7 @@ def check_scheduler(address: str) -> None:
         host_port = parse_host_port(location) if scheme in ("tcp", "tls") else None
     except ValueError as err:
         raise CaseError(
-            f"not a scheduler address ({_one_line(err)}); expected e.g. tcp://10.0.0.5:8786",
+            f"not a scheduler address ({one_line(err)}); expected e.g. tcp://10.0.0.5:8786",
             key=where,
         ) from None
     if host_port is not None:
@@ -143,7 +143,7 @@ def check_scheduler(address: str) -> None:
                 key=where,
             ) from None
         except OSError as err:
-            reason = err.strerror or _one_line(err)
+            reason = err.strerror or one_line(err)
             raise CaseError(f"cannot reach the Dask scheduler: {reason}", key=where) from None
     if scheme == "tls" or _loop_running():
         return
@@ -154,7 +154,7 @@ def check_scheduler(address: str) -> None:
             f"no answer from a Dask scheduler within {CONNECT_TIMEOUT} s", key=where
         ) from None
     except Exception as err:  # garbage from a server that is not a scheduler, a bad scheme
-        detail = "" if host_port is not None else f" ({type(err).__name__}: {_one_line(err)})"
+        detail = "" if host_port is not None else f" ({type(err).__name__}: {one_line(err)})"
         raise CaseError(f"no Dask scheduler answers there{detail}", key=where) from None
     if not isinstance(reply, dict) or reply.get("type") != "Scheduler":
         raise CaseError("the server there is not a Dask scheduler", key=where)
@@ -181,15 +181,11 @@ def _loop_running() -> bool:
     return True
 
 
-def _one_line(err: object) -> str:
-    return " ".join(str(err).split())
-
-
 def _outcome(fut: Any) -> Outcome:
     try:
         return fut.result()
     except Exception as err:  # e.g. KilledWorker: the task took its worker down
-        return Outcome("failed", f"{type(err).__name__}: {' '.join(str(err).split())}")
+        return Outcome("failed", f"{type(err).__name__}: {one_line(err)}")
 
 
 def _sees(case_file: str, out: str) -> bool:

@@ -163,11 +163,6 @@ def _check_key(
             raise CaseError(detail, file=str(case_file), key=f"{origin} {key}") from None
 
 
-def case_sha256(path: Path) -> str:
-    """SHA-256 of the case file's bytes."""
-    return file_sha256(path)
-
-
 def run_sweep(
     plan: SweepPlan,
     executor: Executor,
@@ -189,7 +184,7 @@ def run_sweep(
     plan.out.mkdir(parents=True, exist_ok=True)
     case = str(plan.case_file)
     with _exclusive(plan.out / LOCK_NAME), SweepStore(plan.database) as store:
-        store.claim(case, case_sha256(plan.case_file), plan.fixed, plan.title, dict(plan.inputs))
+        store.claim(case, file_sha256(plan.case_file), plan.fixed, plan.title, dict(plan.inputs))
         inputs = InputCheck(plan.case_file)
         _refuse_changed_inputs(store, inputs)
         rows = store.add(plan.variants)

@@ -34,7 +34,7 @@ from typing import Any, ParamSpec, TypeVar
 from fvheat import __version__
 from fvheat.errors import CaseError
 from fvheat.sweep.variants import Variant
-from fvheat.sweep.worker import Outcome
+from fvheat.sweep.worker import Outcome, one_line
 
 DB_NAME = "sweep.sqlite"
 STATUSES = ("pending", "done", "failed")
@@ -87,7 +87,7 @@ def _database_error(path: Path, err: sqlite3.DatabaseError) -> CaseError:
     """The one-line error for an SQLite error on the database at ``path``: damage (the
     file is not a database, or a page is malformed) with the way out; anything else (locked,
     disk full, no permission) as SQLite words it."""
-    text = " ".join(str(err).split()) or type(err).__name__
+    text = one_line(err) or type(err).__name__
     if isinstance(err, sqlite3.OperationalError) and "malformed" not in text:
         return CaseError(f"sweep database error: {text}", file=str(path))
     return CaseError(f"damaged sweep database ({text}); {DAMAGED_HINT}", file=str(path))

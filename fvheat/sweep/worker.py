@@ -64,13 +64,14 @@ def run_task(task: Task) -> Outcome:
         outcome = Outcome("done", None, results, time.perf_counter() - t0, inputs)
         write_marker(out, task.overrides, summary.get("case_sha256"), outcome)
     except FvheatError as err:
-        return Outcome("failed", _one_line(str(err)), seconds=time.perf_counter() - t0)
+        return Outcome("failed", one_line(err), seconds=time.perf_counter() - t0)
     except Exception as err:  # a bug or a resource problem: record it, keep sweeping
         log.debug("variant %d failed:\n%s", task.id, traceback.format_exc())
-        message = f"{type(err).__name__}: {_one_line(str(err))}"
+        message = f"{type(err).__name__}: {one_line(err)}"
         return Outcome("failed", message, seconds=time.perf_counter() - t0)
     return outcome
 
 
-def _one_line(text: str) -> str:
-    return " ".join(text.split())
+def one_line(err: object) -> str:
+    """``str(err)`` on one line (runs of white space as one space)."""
+    return " ".join(str(err).split())

@@ -17,9 +17,6 @@ from dataclasses import dataclass, field
 
 from fvheat.target.goal import Goal
 
-#: q(v): one full run at value v of the key
-Evaluate = Callable[[float], float]
-
 
 @dataclass(frozen=True)
 class Step:

@@ -5,6 +5,7 @@ run's outputs had been cleared)."""
 from __future__ import annotations
 
 import math
+from pathlib import Path
 
 import fvheat.output.summary as summary_module
 from fvheat.cli.main import main
@@ -17,6 +18,9 @@ def test_non_finite_keys():
     assert non_finite_keys({"a": [1, 2.5, {"b": -0.0}]}) == []
 
 
+CASES = Path(__file__).resolve().parents[2] / "cases"
+
+
 def test_nan_in_summary_exits_1(tmp_path, capsys, monkeypatch):
     build = summary_module.build_summary
 
@@ -27,7 +31,7 @@ def test_nan_in_summary_exits_1(tmp_path, capsys, monkeypatch):
 
     monkeypatch.setattr(summary_module, "build_summary", with_nan)
     out = tmp_path / "out"
-    code = main(["run", "cases/pcm_wall.toml", "-o", str(out), "-q", "--no-plots",
+    code = main(["run", str(CASES / "pcm_wall.toml"), "-o", str(out), "-q", "--no-plots",
                  "--set", "time.periodic=false", "--set", "time.duration=1200",
                  "--set", "time.save_every=600"])  # fmt: skip
     err = capsys.readouterr().err.strip().splitlines()

@@ -29,8 +29,8 @@ def test_plot_labels_and_title(sweep_2x3, tmp_path, monkeypatch):
     args = ["sweep-plot", str(folder), "--x", INSULATION, "--y", "psi", "--series", SLAB]
     assert main([*args, "--out", str(tmp_path / "p.png"), "-q"]) == 0
     (ax,) = figures[-1].axes
-    assert ax.get_xlabel() == with_unit(INSULATION, key_unit(INSULATION))
-    assert "(" in ax.get_xlabel()
+    # a conductivity key carries its SI unit (written out, not built by the code under test)
+    assert ax.get_xlabel() == f"{INSULATION} (W/(m·K))"
     assert ax.get_ylabel() == "psi (W/(m·K))"
     title = " ".join(ax.get_title(loc="left").split())
     assert title.startswith(f"psi against {INSULATION}, one line per {SLAB}")

@@ -103,6 +103,8 @@ def test_unreachable_goal_exits_1_with_both_ends(tmp_path: Path, capsys) -> None
     assert code == 1
     err = capsys.readouterr().err
     assert "not reachable" in err
+    # regression pins of cases/balcony_slab.toml (the tool's own ψ at these slab
+    # conductivities, as in tests/evaluate/test_demo_cases.py), printed to 2 decimals
     assert "materials.slab.conductivity = 1 gives psi = 0.59" in err
     assert "materials.slab.conductivity = 3 gives psi = 1.29" in err
     assert not (tmp_path / "u").exists()

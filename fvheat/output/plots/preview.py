@@ -148,8 +148,8 @@ def material_colours(case: Case, counts: np.ndarray) -> list[str | None]:
     n_solid = sum(1 for m, used in drawn if used and not m.cavity)
     n_cavity = sum(1 for m, used in drawn if used and m.cavity)
     # no colour repeats within the figure: cavities never share a solid's colour
-    solids = iter(style.distinct_colours(n_solid))
     solid_set = style.distinct_colours(n_solid)
+    solids = iter(solid_set)
     cavities = iter(style.distinct_colours(n_cavity, first=CAVITY_COLOURS, avoid=solid_set))
     return [None if not used else next(cavities) if m.cavity else next(solids) for m, used in drawn]
 

@@ -146,10 +146,7 @@ def mesh_map(mesh: Mesh, title: str) -> Figure:
     assert mesh.triangle_material is not None
     with style.style():
         fig, ax = _frame(mesh)
-        colours = [
-            style.MATERIAL_COLOURS[k % len(style.MATERIAL_COLOURS)]
-            for k in range(len(mesh.material_names))
-        ]
+        colours = style.distinct_colours(len(mesh.material_names))  # none repeats
         ax.tripcolor(
             _triangulation(mesh),
             facecolors=mesh.triangle_material.astype(float),
@@ -228,6 +225,10 @@ def draw_triangle_figures(
             "heat_flows",
             "Heat flow through each boundary (W/m, positive into the body) at every saved time.",
         )
+    from fvheat.output.plots.sensitivities import sensitivity_figure
+
+    if (drawn := sensitivity_figure(summary, title)) is not None:  # as on the grid
+        save(drawn[0], "sensitivities", drawn[1])
     atomic_write_text(
         out / FIGURES_DIR / INDEX_FILE,
         json.dumps([asdict(r) for r in records], indent=2, ensure_ascii=False) + "\n",

@@ -6,7 +6,8 @@ from __future__ import annotations
 from pathlib import Path
 
 from fvheat.output.files import atomic_write_text
-from fvheat.output.report.document import Table, build_document
+from fvheat.output.report.blocks import Table
+from fvheat.output.report.document import build_document
 from fvheat.output.report.html import render_html
 from fvheat.output.report.markdown import render_markdown
 from fvheat.output.results import ResultsFolder

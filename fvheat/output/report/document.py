@@ -18,37 +18,14 @@ from fvheat.output.report.appendix import (
     software_section,
     validation_section,
 )
-from fvheat.output.report.blocks import (
-    Block,
-    Code,
-    Document,
-    Figure,
-    Para,
-    Section,
-    Table,
-    num,
-    point,
-)
+from fvheat.output.report.blocks import Document, Figure, Para, Section, Table
 from fvheat.output.report.inputs_sections import input_sections
-from fvheat.output.report.results_sections import KNOWN_KEYS, result_sections
+from fvheat.output.report.results_sections import result_sections
 from fvheat.output.report.sensitivities import sensitivity_sections
 from fvheat.output.report.summary_page import map_figure, summary_section
 from fvheat.output.results import ResultsFolder
 
-__all__ = [
-    "KNOWN_KEYS",
-    "SECTION_IDS",
-    "Block",
-    "Code",
-    "Document",
-    "Figure",
-    "Para",
-    "Section",
-    "Table",
-    "build_document",
-    "num",
-    "point",
-]
+__all__ = ["SECTION_IDS", "build_document"]
 
 log = logging.getLogger(__name__)
 

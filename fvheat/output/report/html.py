@@ -8,7 +8,7 @@ from html import escape
 from pathlib import Path
 
 from fvheat.cautions import CAUTION
-from fvheat.output.report.document import Code, Document, Figure, Para, Table
+from fvheat.output.report.blocks import Code, Document, Figure, Para, Table
 
 CSS = """
 :root { --ink: #1f2328; --muted: #5c6370; --rule: #d7dbe0; --accent: #1d7874;

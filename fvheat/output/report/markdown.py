@@ -6,7 +6,7 @@ from __future__ import annotations
 import re
 
 from fvheat.cautions import CAUTION
-from fvheat.output.report.document import Code, Document, Figure, Para, Table
+from fvheat.output.report.blocks import Code, Document, Figure, Para, Table
 
 #: characters that Markdown (and renderers with HTML or maths) would read as markup
 _SPECIAL = re.compile(r"([\\`*_{}\[\]<>|$~!#])")
