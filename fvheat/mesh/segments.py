@@ -72,7 +72,7 @@ def segment_faces(locator: FaceLocator, seg: Segment) -> tuple[np.ndarray, np.nd
     if mesh.vertex_centred:  # the mesh follows the geometry: faces lie on the segment
         from fvheat.mesh.triangles import exact_segment_faces
 
-        return exact_segment_faces(mesh, seg)
+        return exact_segment_faces(mesh, seg, locator.near(seg), tol)
     nb = mesh.b_centre.shape[0]
     on_all, exch_all = np.zeros(nb, dtype=bool), np.ones(nb)
     cand = locator.near(seg)

@@ -375,22 +375,27 @@ def _dominant(mesh: Mesh, piece_value: np.ndarray) -> np.ndarray:
 
 
 def exact_segment_faces(
-    mesh: Mesh, seg: tuple[tuple[float, float], tuple[float, float]]
+    mesh: Mesh,
+    seg: tuple[tuple[float, float], tuple[float, float]],
+    cand: np.ndarray,
+    tol: float,
 ) -> tuple[np.ndarray, np.ndarray, float]:
     """The exterior faces lying on segment ``seg`` of a mesh that follows the geometry
-    exactly (centre on the segment, normal across it), their exchange fractions (1) and
-    the fraction of the segment's length they cover."""
+    exactly (centre within ``tol`` m of the segment, normal across it), looked for among
+    the boundary faces ``cand`` (those near the segment); a mask over all boundary faces,
+    their exchange fractions (1) and the fraction of the segment's length they cover."""
     p0, p1 = np.asarray(seg[0], float), np.asarray(seg[1], float)
-    tol = 1e-9 * max(float(np.ptp(mesh.centres)), 1.0)
     t, n, length = segment_frame(p0, p1)
-    rel = mesh.b_centre - p0
+    rel = mesh.b_centre[cand] - p0
     along = rel @ t
-    on = (
+    near = (
         (np.abs(rel @ n) <= tol)
         & (along > tol)
         & (along < length - tol)
-        & (np.abs(mesh.b_normal @ n) > 1.0 - 1e-6)
+        & (np.abs(mesh.b_normal[cand] @ n) > 1.0 - 1e-6)
     )
+    on = np.zeros(mesh.n_boundary_faces, dtype=bool)
+    on[cand[near]] = True
     return on, np.ones(mesh.n_boundary_faces), float(np.sum(mesh.b_area[on])) / length
 
 
