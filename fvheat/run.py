@@ -5,7 +5,7 @@ from __future__ import annotations
 
 import time
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from fvheat.case.load import load_case
 from fvheat.checks import check_model
@@ -18,6 +18,9 @@ from fvheat.sensitivity.quantities import case_for_sensitivities, check_sensitiv
 from fvheat.simulate import Progress
 from fvheat.study import Study, run_study
 
+if TYPE_CHECKING:
+    from fvheat.output.workers import FigureWorkers
+
 
 def run_to_folder(
     case_file: Path,
@@ -29,6 +32,7 @@ def run_to_folder(
     fields: str = "all",
     progress: Progress | None = None,
     sensitivities: bool | None = None,
+    workers: FigureWorkers | None = None,
 ) -> tuple[Study, dict[str, Any]]:
     """Validate, mesh and check the model and the output folder (before anything is
     written), take the folder's lock, solve, clear the outputs of an earlier run, then
@@ -37,7 +41,8 @@ def run_to_folder(
     :func:`fvheat.output.folder.write_outputs`). Returns the study and the summary
     dictionary (with ``solve_seconds``, the wall time of the solves). ``sensitivities``
     overrides the case's ``[sensitivities] enabled`` (adjoint sensitivities, plus finite
-    differences for ``[parameters]``). A folder this run created is removed again if the
+    differences for ``[parameters]``); ``workers`` (started before this call) draw the
+    figures. A folder this run created is removed again if the
     run fails before writing anything into it."""
     from fvheat.output.folder import clear_outputs
     from fvheat.output.summary import build_summary, non_finite_keys, write_summary
@@ -80,7 +85,7 @@ def run_to_folder(
                 write_timeseries(out / "timeseries.csv", study.solution)
             from fvheat.output.folder import write_outputs  # imported once the summary is out
 
-            write_outputs(study, out, plots=plots, fields=fields)
+            write_outputs(study, out, plots=plots, fields=fields, workers=workers)
     except BaseException:
         if created and out.is_dir() and not any(out.iterdir()):
             out.rmdir()

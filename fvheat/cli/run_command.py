@@ -8,6 +8,7 @@ from pathlib import Path
 
 from fvheat.cautions import CAUTION
 from fvheat.cli.console import print_warnings
+from fvheat.output.workers import RUN_WORKERS, FigureWorkers
 from fvheat.run import run_to_folder
 from fvheat.simulate import Progress
 from fvheat.study import Study
@@ -34,7 +35,7 @@ def run_case(
     out = out if out is not None else default_out(case_file)
     show = not quiet and not as_json
 
-    def job(progress: Progress | None) -> tuple[Study, dict]:
+    def job(progress: Progress | None, workers: FigureWorkers) -> tuple[Study, dict]:
         return run_to_folder(
             case_file,
             out,
@@ -44,12 +45,15 @@ def run_case(
             fields=fields,
             progress=progress,
             sensitivities=sensitivities,
+            workers=workers,
         )
 
     # the bar only on a terminal: on a pipe or a log file it would leave control
     # characters and an empty line before any message
     bar = show and sys.stderr.isatty()
-    study, summary = _with_progress(job) if bar else job(None)
+    # figure workers are forked first, before any thread (the bar's) or solve exists
+    with FigureWorkers(RUN_WORKERS if plots else 0) as workers:
+        study, summary = _with_progress(job, workers) if bar else job(None, workers)
     if as_json:
         sys.stdout.write(json.dumps(summary, indent=2) + "\n")
     elif not quiet:
@@ -58,7 +62,7 @@ def run_case(
     return study
 
 
-def _with_progress(job):
+def _with_progress(job, workers: FigureWorkers):
     from rich.console import Console
     from rich.progress import BarColumn, Progress, TextColumn, TimeRemainingColumn
 
@@ -75,7 +79,7 @@ def _with_progress(job):
         def update(t: float, duration: float) -> None:
             bar.update(task, completed=t / duration)
 
-        return job(update)
+        return job(update, workers)
 
 
 def _print_results(study: Study, out: Path, elapsed: float) -> None:

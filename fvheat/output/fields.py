@@ -64,13 +64,16 @@ def vtu_topology(view: GeometryView) -> Topology:
     every saved time of a run, so computed once."""
     g = view.grid
     nx = g.x.size
-    rows, cols = np.nonzero(g.cell_index >= 0)  # row-major: the solver's cell order
-    order = np.argsort(g.cell_index[rows, cols])
-    rows, cols = rows[order], cols[order]
-    n0 = rows * nx + cols
+    rows, cols = np.nonzero(g.cell_index >= 0)
+    n0 = np.empty(rows.size, np.int64)  # lower-left node of each cell, in the solver's order
+    n0[g.cell_index[rows, cols]] = rows * nx + cols
     quads = np.column_stack([n0, n0 + 1, n0 + nx + 1, n0 + nx])
     lines = _node_ids(g, view.face_ends)
-    used, inverse = np.unique(np.concatenate([quads.ravel(), lines.ravel()]), return_inverse=True)
+    ids = np.concatenate([quads.ravel(), lines.ravel()])
+    taken = np.zeros(nx * g.y.size, bool)
+    taken[ids] = True
+    used = np.flatnonzero(taken)  # the nodes in use, renumbered in order (no sort)
+    inverse = (np.cumsum(taken) - 1)[ids]
     quads = inverse[: quads.size].reshape(-1, 4)
     lines = inverse[quads.size :].reshape(-1, 2)
     points = np.column_stack([g.x[used % nx], g.y[used // nx], np.zeros(used.size)])
@@ -82,6 +85,16 @@ def to_meshio(view: FieldView, topology: Topology | None = None) -> meshio.Mesh:
     (``topology`` from :func:`vtu_topology`, computed when not given)."""
     import meshio
 
+    points, blocks, cell_data = vtu_arrays(view, topology)
+    return meshio.Mesh(points, blocks, cell_data=cell_data)
+
+
+VtuArrays = tuple[np.ndarray, list[tuple[str, np.ndarray]], dict[str, list[np.ndarray]]]
+
+
+def vtu_arrays(view: FieldView, topology: Topology | None = None) -> VtuArrays:
+    """Points (k, 3) m, cell blocks [("quad", …), ("line", …)] and cell data per block of
+    the VTU of ``view`` (see the module text)."""
     points, quads, lines = topology if topology is not None else vtu_topology(view)
     n_faces = view.face_boundary.size
     normal = outward_normals(view.face_ends)
@@ -97,7 +110,7 @@ def to_meshio(view: FieldView, topology: Topology | None = None) -> meshio.Mesh:
         ],
         "surface_heat_flux": [np.full(view.n_cells, np.nan), view.face_flux],
     }
-    return meshio.Mesh(points, [("quad", quads), ("line", lines)], cell_data=cell_data)
+    return points, [("quad", quads), ("line", lines)], cell_data
 
 
 def outward_normals(ends: np.ndarray) -> np.ndarray:
@@ -146,13 +159,17 @@ COMPRESS_BUDGET = 2_500_000
 def write_vtu(
     path: str | Path, view: FieldView, *, compress: bool = True, topology: Topology | None = None
 ) -> Path:
-    """Write one field as binary VTU (zlib-compressed when ``compress``), atomically."""
+    """Write one field as binary VTU, atomically: zlib-compressed through meshio when
+    ``compress``, else with raw appended arrays (:mod:`fvheat.output.vtu`)."""
+    if not compress:
+        from fvheat.output.vtu import write_raw_vtu
+
+        return write_raw_vtu(path, *vtu_arrays(view, topology))
     import meshio
 
     m = to_meshio(view, topology)
-    compression = "zlib" if compress else None
     return atomic_write_file(
-        path, lambda tmp: meshio.vtu.write(tmp, m, binary=True, compression=compression)
+        path, lambda tmp: meshio.vtu.write(tmp, m, binary=True, compression="zlib")
     )
 
 

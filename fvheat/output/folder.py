@@ -8,12 +8,18 @@ import shutil
 import threading
 from collections.abc import Callable
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from fvheat.output.fields import FIELDS_DIR, write_cells_csv, write_fields
 from fvheat.output.inputs import INPUTS_FILE, write_inputs
 from fvheat.output.report import write_report
 from fvheat.output.results import FIGURES_DIR, ResultsFolder
 from fvheat.study import Study
+
+if TYPE_CHECKING:
+    from fvheat.output.memory import FieldSource, SolvedFields
+    from fvheat.output.plots.figures import FigureRecord
+    from fvheat.output.workers import FigureWorkers
 
 log = logging.getLogger(__name__)
 
@@ -55,13 +61,20 @@ CELLS_CSV_LIMIT = 250_000
 
 
 def write_outputs(
-    study: Study, out: str | Path, *, plots: bool = True, fields: str = "all"
+    study: Study,
+    out: str | Path,
+    *,
+    plots: bool = True,
+    fields: str = "all",
+    workers: FigureWorkers | None = None,
 ) -> list[Path]:
     """Write inputs.json, fields/ (``fields``: "all" saved states, the "last" one, or
     "none"), cells.csv (up to ``CELLS_CSV_LIMIT`` cells; not with "none"), figures/ (unless
     ``plots`` is False) and report.html / report.md into ``out``, which must already hold
-    summary.json. The field files and cells.csv are written in a background thread while
-    the figures are drawn from the fields in memory (each file atomically)."""
+    summary.json. The figures are drawn from the fields in memory by ``workers`` (started
+    before the solve, see :mod:`fvheat.output.workers`) while this process writes the field
+    files and cells.csv; without workers the field files are written in a background thread
+    while this process draws (each file atomically)."""
     from fvheat.output.memory import SolvedFields
 
     out = Path(out)
@@ -87,6 +100,9 @@ def write_outputs(
         return [*written, *write_report(folder)]
     assert sol.mesh.grid is not None  # every mesh is a grid or triangles
     memory = SolvedFields(sol, study.surface_solution)
+    if plots and workers is not None and len(workers):
+        written += _draw_in_workers(study, out, memory, fields, workers)
+        return [*written, *write_report(ResultsFolder.open(out))]
     writer = _Background(lambda: _write_field_files(study, out, memory, fields))
     writer.start()
     try:
@@ -104,6 +120,39 @@ def write_outputs(
     written += writer.join()
     written += write_report(folder)
     return written
+
+
+def _draw_in_workers(
+    study: Study, out: Path, memory: SolvedFields, fields: str, workers: FigureWorkers
+) -> list[Path]:
+    """The figures drawn by ``workers`` while this process writes the field files; the
+    files written, figures last."""
+    from fvheat.output.plots.figures import (
+        planned_figures,
+        split_figures,
+        states_needed,
+        write_index,
+    )
+
+    folder = ResultsFolder.open(out)
+    frozen = memory.freeze(states_needed(len(memory.field_times())))
+    groups = split_figures(planned_figures(folder, frozen), len(workers))
+    workers.submit(_draw_some, [(out, frozen, names) for names in groups])
+    try:
+        written = _write_field_files(study, out, memory, fields)
+    finally:  # the figures finish (or fail) before an error of the field files goes up
+        records = [r for group in workers.results() for r in group]
+    write_index(out, records)
+    for r in records:
+        written += [out / r.png] + ([out / r.svg] if r.svg else [])
+    return written
+
+
+def _draw_some(out: Path, source: FieldSource, names: list[str]) -> list[FigureRecord]:
+    """The figures ``names`` of ``out`` (a figure worker's job)."""
+    from fvheat.output.plots.figures import draw_figures
+
+    return draw_figures(out, fields=source, only=names)
 
 
 def _drop_stale_index(out: Path) -> None:

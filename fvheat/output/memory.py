@@ -10,6 +10,8 @@ and shared by both).
 from __future__ import annotations
 
 import threading
+from collections.abc import Iterable
+from dataclasses import dataclass
 from typing import Protocol
 
 from fvheat.output.view import FieldView, field_view
@@ -70,7 +72,36 @@ class SolvedFields:
                 self._surface_view = field_view(self.surface)
             return self._surface_view
 
+    def freeze(self, indices: Iterable[int]) -> FrozenFields:
+        """The views of the saved states ``indices`` and of the surface solve, without the
+        solution: small enough to send to another process (pickled)."""
+        n = len(self._states)
+        views = {range(n)[i]: self.field(i) for i in indices}
+        return FrozenFields(self.field_times(), views, self.surface_field())
+
     def forget(self, index: int) -> None:
         """Drop the cached view of state ``index`` (memory of long transient runs)."""
         with self._lock:
             self._views.pop(range(len(self._states))[index], None)
+
+
+@dataclass(frozen=True)
+class FrozenFields:
+    """Views of some saved states (``views`` by state index, of ``times`` s in all) and of a
+    surface solve, answering like :class:`SolvedFields` for those states."""
+
+    times: list[float]
+    views: dict[int, FieldView]
+    surface: FieldView | None = None
+
+    def field_times(self) -> list[float]:
+        """Times (s) of all saved states."""
+        return list(self.times)
+
+    def field(self, index: int = -1) -> FieldView:
+        """Saved state ``index``; a :class:`KeyError` for a state not kept."""
+        return self.views[range(len(self.times))[index]]
+
+    def surface_field(self) -> FieldView | None:
+        """The surface-temperature field, None when there is none."""
+        return self.surface

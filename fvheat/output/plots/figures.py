@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import json
 import logging
+from collections.abc import Callable, Collection
 from dataclasses import asdict, dataclass
 from pathlib import Path
 from typing import Any
@@ -32,6 +33,18 @@ from fvheat.output.results import FIGURES_DIR, ResultsFolder
 log = logging.getLogger(__name__)
 
 INDEX_FILE = "figures.json"
+#: every figure :func:`draw_figures` may draw, in the order of the index
+FIGURE_NAMES = (
+    "temperature",
+    "temperature_surface",
+    "heat_flux",
+    "mesh",
+    "probes",
+    "heat_flows",
+    "fronts",
+    "snapshots",
+    "sensitivities",
+)
 SCREENING = "Screening result: to be checked by a competent person."
 
 
@@ -63,11 +76,16 @@ def draw_figures(
     vrange: tuple[float, float] | None = None,
     zoom: layers.Window | None = None,
     fields: FieldSource | None = None,
+    only: Collection[str] | None = None,
 ) -> list[FigureRecord]:
     """Draw all figures of ``folder`` (colour range ``vrange`` °C and window ``zoom``
     (x0, y0, x1, y1) m apply to the temperature maps; ``zoom`` also to flux and mesh).
     The fields come from ``fields`` (e.g. a run's :class:`fvheat.output.memory.SolvedFields`)
-    or, by default, from the folder's field files: both give the same figures."""
+    or, by default, from the folder's field files: both give the same figures.
+
+    ``only`` (names of :data:`FIGURE_NAMES`) draws those of them that apply and writes no
+    index: the caller draws the rest elsewhere and writes the index
+    (:func:`write_index`)."""
     folder = folder if isinstance(folder, ResultsFolder) else ResultsFolder.open(folder)
     source: FieldSource = fields if fields is not None else folder
     s = folder.summary
@@ -76,24 +94,28 @@ def draw_figures(
     when = _when(folder, view.time)
     notes = _view_notes(vrange, zoom)
     window_note = _view_notes(None, zoom)  # the colour range is of temperature maps only
-    records = []
+    records: list[FigureRecord] = []
+
+    def want(name: str) -> bool:
+        return only is None or name in only
 
     marked = coldest_point(s)
     surface = source.surface_field()
     # θ_si,min is marked on the map of the solve it comes from
     on_main = marked if surface is None else None
-    fig = temperature_figure(
-        view,
-        title=title,
-        subtitle=when if surface is None else f"heat-loss solve, {when}",
-        marked=on_main,
-        vrange=vrange,
-        zoom=zoom,
-        caption=SCREENING,
-    )
-    caption = _temperature_caption(s, when, on_main, separate=surface is not None)
-    records.append(_save(fig, folder, "temperature", caption + notes))
-    if surface is not None:
+    if want("temperature"):
+        fig = temperature_figure(
+            view,
+            title=title,
+            subtitle=when if surface is None else f"heat-loss solve, {when}",
+            marked=on_main,
+            vrange=vrange,
+            zoom=zoom,
+            caption=SCREENING,
+        )
+        caption = _temperature_caption(s, when, on_main, separate=surface is not None)
+        records.append(_save(fig, folder, "temperature", caption + notes))
+    if surface is not None and want("temperature_surface"):
         fig = temperature_figure(
             surface,
             title=title,
@@ -106,44 +128,95 @@ def draw_figures(
         caption = _surface_caption(s, marked)
         records.append(_save(fig, folder, "temperature_surface", caption + notes))
 
-    fig = heat_flux_figure(view, title=title, subtitle=when, zoom=zoom)
-    records.append(
-        _save(
-            fig,
-            folder,
-            "heat_flux",
+    if want("heat_flux"):
+        fig = heat_flux_figure(view, title=title, subtitle=when, zoom=zoom)
+        caption = (
             f"Heat-flux density |q| (W/m², log scale), {when}, reconstructed from the solver's "
             "face heat flows. Lines are heat paths starting where heat enters the body, at "
             "equal steps of the entering heat flow; in a steady field each band between two "
-            "lines carries the same heat flow." + window_note,
+            "lines carries the same heat flow."
         )
-    )
+        records.append(_save(fig, folder, "heat_flux", caption + window_note))
 
-    fig = mesh_figure(view, title=title, zoom=zoom)
-    records.append(
-        _save(
-            fig,
-            folder,
-            "mesh",
+    if want("mesh"):
+        fig = mesh_figure(view, title=title, zoom=zoom)
+        caption = (
             f"Computational mesh: {view.n_cells} cells coloured by material, boundaries "
-            "coloured and named; unmarked exterior edges are adiabatic." + window_note,
-            vector=False,
+            "coloured and named; unmarked exterior edges are adiabatic."
         )
-    )
+        records.append(_save(fig, folder, "mesh", caption + window_note, vector=False))
 
     if folder.transient:
-        records += _transient(folder, source, title, vrange, zoom, notes)
-    from fvheat.output.plots.sensitivities import sensitivity_figure
+        records += _transient(folder, source, title, vrange, zoom, notes, want)
+    if want("sensitivities"):
+        from fvheat.output.plots.sensitivities import sensitivity_figure
 
-    if (drawn := sensitivity_figure(s, title)) is not None:
-        records.append(_save(drawn[0], folder, "sensitivities", drawn[1]))
-    index = [asdict(r) for r in records]
-    atomic_write_text(
-        folder.path / FIGURES_DIR / INDEX_FILE,
-        json.dumps(index, indent=2, ensure_ascii=False) + "\n",
-    )
-    log.info("drew %d figures in %s", len(records), folder.path / FIGURES_DIR)
+        if (drawn := sensitivity_figure(s, title)) is not None:
+            records.append(_save(drawn[0], folder, "sensitivities", drawn[1]))
+    if only is None:
+        write_index(folder.path, records)
     return records
+
+
+def write_index(out: Path, records: list[FigureRecord]) -> None:
+    """Write ``out/figures/figures.json``: ``records`` in the order of
+    :data:`FIGURE_NAMES` (the report shows them in this order)."""
+    order = {name: i for i, name in enumerate(FIGURE_NAMES)}
+    ranked = sorted(records, key=lambda r: order.get(r.name, len(order)))
+    atomic_write_text(
+        out / FIGURES_DIR / INDEX_FILE,
+        json.dumps([asdict(r) for r in ranked], indent=2, ensure_ascii=False) + "\n",
+    )
+    log.info("drew %d figures in %s", len(records), out / FIGURES_DIR)
+
+
+#: relative cost of drawing each figure (CPU time, measured at 1 M cells steady and at
+#: 90 000 cells transient), to share the figures out between figure workers
+FIGURE_COST = {
+    "temperature": 3.5,
+    "temperature_surface": 3.5,
+    "heat_flux": 3.0,
+    "mesh": 2.0,
+    "snapshots": 2.0,
+    "probes": 0.6,
+    "heat_flows": 0.6,
+    "fronts": 0.6,
+    "sensitivities": 0.6,
+}
+
+
+def planned_figures(folder: ResultsFolder, source: FieldSource) -> list[str]:
+    """Names of the figures :func:`draw_figures` may draw for ``folder`` (a superset:
+    e.g. "probes" of a transient run without probes)."""
+    names = ["temperature", "heat_flux", "mesh"]
+    if source.surface_field() is not None:
+        names.append("temperature_surface")
+    if folder.transient:
+        names += ["probes", "heat_flows", "fronts", "snapshots"]
+    if folder.summary.get("sensitivities"):
+        names.append("sensitivities")
+    return names
+
+
+def split_figures(names: list[str], n: int) -> list[list[str]]:
+    """``names`` in ``n`` groups of about equal drawing cost (largest first, each to the
+    cheapest group so far); empty groups left out."""
+    groups: list[list[str]] = [[] for _ in range(max(n, 1))]
+    cost = [0.0] * len(groups)
+    for name in sorted(names, key=lambda k: -FIGURE_COST.get(k, 1.0)):
+        i = cost.index(min(cost))
+        groups[i].append(name)
+        cost[i] += FIGURE_COST.get(name, 1.0)
+    return [g for g in groups if g]
+
+
+def states_needed(n_states: int) -> list[int]:
+    """Indices of the saved states :func:`draw_figures` reads of ``n_states``: the last
+    one and, when there are several, those of the snapshot figure."""
+    wanted = {n_states - 1}
+    if n_states > 1:
+        wanted.update(int(i) for i in snapshot_indices(n_states))
+    return sorted(wanted)
 
 
 def _view_notes(vrange: tuple[float, float] | None, zoom: layers.Window | None) -> str:
@@ -195,25 +268,28 @@ def _marked_text(marked) -> str:
 
 
 def _transient(
-    folder: ResultsFolder, source: FieldSource, title: str, vrange, zoom, notes: str
+    folder: ResultsFolder,
+    source: FieldSource,
+    title: str,
+    vrange,
+    zoom,
+    notes: str,
+    want: Callable[[str], bool],
 ) -> list[FigureRecord]:
     out = []
-    ts = folder.timeseries()
+    ts = folder.timeseries() if any(map(want, ("probes", "heat_flows", "fronts"))) else None
     if ts is not None:
-        if ts.probes:
+        if ts.probes and want("probes"):
             fig = probe_figure(ts.times, ts.probes, title=title)
             out.append(_save(fig, folder, "probes", "Probe temperatures (°C) at every saved time."))
-        fig = flow_figure(ts.times, ts.flows, title=title)
-        out.append(
-            _save(
-                fig,
-                folder,
-                "heat_flows",
+        if want("heat_flows"):
+            fig = flow_figure(ts.times, ts.flows, title=title)
+            caption = (
                 "Heat flow through each boundary (W/m per metre of junction, positive into "
-                "the body) at every saved time.",
+                "the body) at every saved time."
             )
-        )
-        if ts.fronts or ts.frozen_area is not None:
+            out.append(_save(fig, folder, "heat_flows", caption))
+        if (ts.fronts or ts.frozen_area is not None) and want("fronts"):
             fig = front_figure(ts.times, ts.fronts, ts.frozen_area, title=title)
             out.append(
                 _save(
@@ -226,7 +302,7 @@ def _transient(
                 )
             )
     times = source.field_times()
-    if len(times) > 1:
+    if len(times) > 1 and want("snapshots"):
         idx = snapshot_indices(len(times))
         views = [source.field(int(i)) for i in idx]
         fig = snapshot_figure(views, title=title, vrange=vrange, zoom=zoom)

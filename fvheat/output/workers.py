@@ -1,0 +1,155 @@
+"""Figure workers: processes that draw a run's figures next to the process that solves.
+
+``fvheat run`` starts them before it loads the case: each imports matplotlib and warms its
+font cache on the core the solver leaves idle (the sparse solves run on one core). Once
+``summary.json`` is written the run sends each worker the fields its figures need (views
+of the saved states, pickled: about 50 MB and 0.03 s at 1 M cells) and a group of figure
+names; the workers draw in parallel while the run itself writes the field files. Each
+figure file is written atomically, as when drawn in the run's own process, and the run
+writes the figure index from the workers' records.
+
+Workers are forked, so they start in milliseconds and share the parent's imports; where
+``fork`` is not available (or only one core is), the run draws its figures itself. A
+worker ignores Ctrl-C (the run stops it) and never prints: an error while drawing is sent
+back and raised in the run.
+"""
+
+from __future__ import annotations
+
+import multiprocessing
+import os
+import signal
+import traceback
+from collections.abc import Callable, Sequence
+from multiprocessing.connection import Connection
+from typing import Any
+
+#: how long (s) closing waits for a worker to leave before stopping it
+CLOSE_WAIT = 5.0
+#: figure workers ``fvheat run`` starts (at most one per core)
+RUN_WORKERS = 2
+
+
+def available_cores() -> int:
+    """Cores this process may run on."""
+    try:
+        return len(os.sched_getaffinity(0))
+    except AttributeError:  # not on every platform
+        return os.cpu_count() or 1
+
+
+def worker_count(requested: int) -> int:
+    """Workers to start for ``requested``: none without ``fork`` or with a single core."""
+    if requested <= 0 or "fork" not in multiprocessing.get_all_start_methods():
+        return 0
+    return min(requested, available_cores()) if available_cores() > 1 else 0
+
+
+class FigureWorkers:
+    """Up to ``n`` forked worker processes, started at once (see the module text); use as a
+    context manager, or call :meth:`close`."""
+
+    def __init__(self, n: int = 2) -> None:
+        self._conns: list[Connection] = []
+        self._procs: list[Any] = []
+        self._busy = 0  # jobs submitted and not collected
+        ctx = multiprocessing.get_context("fork") if worker_count(n) else None
+        for _ in range(worker_count(n)):
+            assert ctx is not None
+            ours, theirs = ctx.Pipe()
+            proc = ctx.Process(target=_serve, args=(theirs, ours), daemon=True)
+            proc.start()
+            theirs.close()
+            self._conns.append(ours)
+            self._procs.append(proc)
+
+    def __len__(self) -> int:
+        return len(self._procs)
+
+    def __enter__(self) -> FigureWorkers:
+        return self
+
+    def __exit__(self, kind: type[BaseException] | None, *exc: object) -> None:
+        self.close(wait=kind is None)
+
+    def submit(self, fn: Callable[..., Any], jobs: Sequence[tuple[Any, ...]]) -> None:
+        """Start ``fn(*job)`` for every job, job ``i`` in worker ``i`` (one job per worker
+        at most); :meth:`results` collects them."""
+        if self._busy:
+            raise RuntimeError("the figure workers' earlier jobs are not collected yet")
+        if len(jobs) > len(self._conns):
+            raise ValueError(f"{len(jobs)} jobs for {len(self._conns)} workers")
+        for conn, job in zip(self._conns, jobs, strict=False):
+            conn.send((fn, job))
+        self._busy = len(jobs)
+
+    def results(self) -> list[Any]:
+        """The results of the submitted jobs, in order, once every one has ended. The error
+        of a failed job is raised; a worker that died is a :class:`RuntimeError`."""
+        replies = []
+        for conn, proc in zip(self._conns, self._procs[: self._busy], strict=False):
+            try:
+                replies.append(conn.recv())
+            except (EOFError, OSError):
+                replies.append(("died", f"figure worker {proc.pid} ended without an answer"))
+        self._busy = 0
+        for kind, value in replies:
+            if kind == "error":
+                raise value
+            if kind == "died":
+                raise RuntimeError(value)
+        return [value for _, value in replies]
+
+    def close(self, *, wait: bool = True) -> None:
+        """Ask every worker to leave and stop those that do not within ``CLOSE_WAIT`` s
+        (at once unless ``wait``: a run that failed does not wait for their warm-up)."""
+        for conn in self._conns:
+            try:
+                conn.send(None)
+            except (OSError, ValueError):  # already gone
+                pass
+            conn.close()
+        for proc in self._procs:
+            proc.join(CLOSE_WAIT if wait else 0.0)
+            if proc.is_alive():
+                proc.terminate()
+                proc.join()
+        self._conns, self._procs = [], []
+
+
+def _serve(conn: Connection, parents_end: Connection) -> None:
+    """A worker's life: warm up, then run jobs until told to leave (None or a closed pipe)."""
+    parents_end.close()  # so that the pipe reads as closed when the run goes away
+    signal.signal(signal.SIGINT, signal.SIG_IGN)  # the run decides; no traceback here
+    try:
+        _warm_up()
+    except Exception:  # the first job will fail with the real error
+        pass
+    while True:
+        try:
+            msg = conn.recv()
+        except (EOFError, OSError):
+            return
+        if msg is None:
+            return
+        fn, args = msg
+        try:
+            reply: tuple[str, Any] = ("ok", fn(*args))
+        except BaseException as err:  # sent to the run, which raises it
+            try:
+                conn.send(("error", err))
+            except Exception:  # an error that does not pickle
+                conn.send(("error", RuntimeError(traceback.format_exc(limit=3))))
+            continue
+        conn.send(reply)
+
+
+def _warm_up() -> None:
+    """Import the figure code and draw one small figure (fonts and the Agg renderer)."""
+    import io
+
+    from fvheat.output.plots import figures, style  # noqa: F401  (the import is the point)
+
+    fig = style.new_figure(2.0, 1.0)
+    fig.text(0.5, 0.5, "θ 20 °C", ha="center")
+    fig.savefig(io.BytesIO(), format="png")
