@@ -10,7 +10,7 @@ zlib-compressed through meshio (:mod:`fvheat.output.fields`).
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from pathlib import Path
 from typing import BinaryIO
 
@@ -33,7 +33,7 @@ def write_raw_vtu(
     path: str | Path,
     points: np.ndarray,
     blocks: Sequence[tuple[str, np.ndarray]],
-    cell_data: dict[str, Sequence[np.ndarray]],
+    cell_data: Mapping[str, Sequence[np.ndarray]],
 ) -> Path:
     """Write ``points`` (k, 3) m, cell ``blocks`` [(type, connectivity (n, p))] with types
     of :data:`VTK_TYPES`, and ``cell_data`` {name: [array per block, (n,) or (n, c)]}
@@ -102,5 +102,5 @@ def _write_body(f: BinaryIO, header: str, arrays: list[tuple[str, str, np.ndarra
     f.write(header.encode("ascii"))
     for _, _, a in arrays:
         f.write(np.uint64(a.nbytes).astype("<u8").tobytes())
-        f.write(memoryview(a).cast("B"))
+        f.write(a.data.cast("B"))
     f.write(b"\n  </AppendedData>\n</VTKFile>\n")

@@ -1,0 +1,93 @@
+"""Figure workers (fvheat.output.workers): ``fvheat run`` draws its figures in forked
+processes while it writes the field files. The pictures and the figure index must be those
+the run draws itself, an error in a worker must reach the run, and a run that fails must
+leave no worker behind."""
+
+from __future__ import annotations
+
+import json
+import multiprocessing
+import os
+import time
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from fvheat.output.workers import FigureWorkers, worker_count
+
+from .conftest import CASES, coarse_overrides, run_cli
+
+pytestmark = pytest.mark.skipif(worker_count(2) == 0, reason="needs fork and two cores")
+
+
+def _run(stem: str, out: Path, workers: FigureWorkers | None) -> None:
+    from fvheat.run import run_to_folder
+
+    (path,) = [c for c in CASES if c.stem == stem]
+    run_to_folder(path, out, tuple(coarse_overrides(path)), workers=workers)
+
+
+@pytest.mark.parametrize("stem", ["balcony_slab", "wall_daily_cycle"])
+def test_workers_draw_the_figures_the_run_draws_itself(tmp_path, stem):
+    from matplotlib.image import imread
+
+    here, there = tmp_path / "here", tmp_path / "there"
+    _run(stem, here, None)
+    with FigureWorkers(2) as workers:
+        assert len(workers) == 2
+        _run(stem, there, workers)
+    index = json.loads((here / "figures" / "figures.json").read_text(encoding="utf-8"))
+    assert json.loads((there / "figures" / "figures.json").read_text(encoding="utf-8")) == index
+    assert len(index) >= 4
+    for entry in index:
+        a, b = imread(here / entry["png"]), imread(there / entry["png"])
+        assert a.shape == b.shape and np.array_equal(a, b), entry["name"]
+    assert (there / "report.html").read_text(encoding="utf-8").count("<img") == len(index)
+
+
+def _fails(message: str) -> None:
+    raise ValueError(message)
+
+
+def _dies() -> None:
+    os._exit(3)
+
+
+def _pid() -> int:
+    return os.getpid()
+
+
+def test_an_error_in_a_worker_is_raised_in_the_run():
+    with FigureWorkers(2) as workers:
+        workers.submit(_fails, [("bad figure",), ("bad figure",)])
+        with pytest.raises(ValueError, match="bad figure"):
+            workers.results()
+        # the workers stay usable, each in its own process
+        workers.submit(_pid, [(), ()])
+        pids = workers.results()
+        assert len(set(pids)) == 2 and os.getpid() not in pids
+
+
+def test_a_worker_that_dies_is_an_error_not_a_hang():
+    with FigureWorkers(1) as workers:
+        workers.submit(_dies, [()])
+        with pytest.raises(RuntimeError, match="ended without an answer"):
+            workers.results()
+
+
+def test_a_failed_run_stops_its_workers_at_once(tmp_path, capsys):
+    bad = tmp_path / "bad.toml"
+    bad.write_text("[mesh]\nmax_cell = -1\n", encoding="utf-8")
+    t0 = time.perf_counter()
+    assert run_cli(["run", bad, "-o", tmp_path / "out", "-q"]) == 2
+    assert time.perf_counter() - t0 < 5.0  # CLOSE_WAIT: the run did not wait for them
+    assert multiprocessing.active_children() == []
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "Traceback" not in err[0]
+
+
+def test_no_workers_without_a_request():
+    assert worker_count(0) == 0
+    with FigureWorkers(0) as workers:
+        assert len(workers) == 0
