@@ -28,31 +28,49 @@ RUN_MUST_NOT = ("matplotlib", "meshio", "dask", "distributed", "ezdxf", "scipy.c
 # --- figures --------------------------------------------------------------------------------
 
 
-def figure_seconds(case: Path, work: Path, repeat: int = 1) -> tuple[float, float, int]:
+def figure_seconds(case: Path, work: Path, repeat: int = 1) -> tuple[float, float, float, int]:
     """Solve ``case`` in this process, then time drawing every figure of its results
-    folder from the fields in memory (what ``fvheat run`` does after the solve); median
-    wall time and CPU time (s) of ``repeat`` drawings, and the cell count."""
+    folder from the fields in memory: in this process one after the other (median wall and
+    CPU time, s, of ``repeat`` drawings), and as ``fvheat run`` draws them, in its figure
+    workers (warm, from the moment the run hands them the fields to the last figure
+    written: median wall time, s); and the cell count."""
     from fvheat.case.load import load_case
     from fvheat.output.memory import SolvedFields
-    from fvheat.output.plots.figures import draw_figures
+    from fvheat.output.plots.figures import (
+        draw_figures,
+        draw_group,
+        planned_figures,
+        split_figures,
+        states_needed,
+    )
+    from fvheat.output.results import ResultsFolder
     from fvheat.output.summary import build_summary, write_summary
+    from fvheat.output.workers import RUN_WORKERS, FigureWorkers
     from fvheat.study import run_study
 
-    study = run_study(load_case(case))
-    out = work / f"figures_{case.stem}"
-    shutil.rmtree(out, ignore_errors=True)
-    out.mkdir(parents=True)
-    write_summary(out / "summary.json", build_summary(study, ()))
-    memory = SolvedFields(study.solution, study.surface_solution)
-    memory.field()  # the view is built once per run anyway (fields and figures share it)
-    draw_figures(out, fields=memory)  # warm: matplotlib imported, fonts cached
-    times, cpu = [], []
-    for _ in range(repeat):
-        t0, c0 = time.perf_counter(), time.process_time()
-        draw_figures(out, fields=memory)
-        times.append(time.perf_counter() - t0)
-        cpu.append(time.process_time() - c0)
-    return statistics.median(times), statistics.median(cpu), study.solution.mesh.n_cells
+    with FigureWorkers(RUN_WORKERS) as workers:  # forked before the solve, as in a run
+        study = run_study(load_case(case))
+        out = work / f"figures_{case.stem}"
+        shutil.rmtree(out, ignore_errors=True)
+        out.mkdir(parents=True)
+        write_summary(out / "summary.json", build_summary(study, ()))
+        memory = SolvedFields(study.solution, study.surface_solution)
+        memory.field()  # the view is built once per run anyway (fields and figures share it)
+        draw_figures(out, fields=memory)  # warm: matplotlib imported, fonts cached
+        times, cpu, parallel = [], [], []
+        for _ in range(repeat):
+            t0, c0 = time.perf_counter(), time.process_time()
+            draw_figures(out, fields=memory)
+            times.append(time.perf_counter() - t0)
+            cpu.append(time.process_time() - c0)
+            t0 = time.perf_counter()
+            frozen = memory.freeze(states_needed(len(memory.field_times())))
+            groups = split_figures(planned_figures(ResultsFolder.open(out), frozen), len(workers))
+            workers.submit(draw_group, [(out, frozen, g) for g in groups])
+            workers.results()
+            parallel.append(time.perf_counter() - t0)
+    med = statistics.median
+    return med(times), med(cpu), med(parallel), study.solution.mesh.n_cells
 
 
 # --- field-file codecs ----------------------------------------------------------------------
@@ -70,22 +88,30 @@ class Codec:
 def codecs(
     case: Path, work: Path, names: tuple[str, ...] = ("none", "zlib", "lzma")
 ) -> list[Codec]:
-    """Write the solved field of ``case`` as VTU through meshio with each compression,
-    read it back with meshio; times, sizes and whether the temperatures came back equal."""
+    """Write the solved field of ``case`` as VTU through meshio with each compression
+    (and "raw": fvheat's own raw appended writer, which it uses for large fields), read
+    it back with meshio; times, sizes and whether the temperatures came back equal."""
     import meshio
     import numpy as np
 
     from fvheat.case.load import load_case
-    from fvheat.output.fields import to_meshio
+    from fvheat.output.fields import to_meshio, vtu_arrays, vtu_topology
     from fvheat.output.view import field_view
+    from fvheat.output.vtu import write_raw_vtu
     from fvheat.simulate import simulate
 
-    mesh = to_meshio(field_view(simulate(load_case(case))))
+    view = field_view(simulate(load_case(case)))
+    topology = vtu_topology(view)
+    mesh = to_meshio(view, topology)
     out = []
-    for name in names:
+    for name in ("raw", *names):
         path = work / f"codec_{name}.vtu"
         t0 = time.perf_counter()
-        meshio.vtu.write(path, mesh, binary=True, compression=None if name == "none" else name)
+        if name == "raw":
+            write_raw_vtu(path, *vtu_arrays(view, topology))
+        else:
+            compression = None if name == "none" else name
+            meshio.vtu.write(path, mesh, binary=True, compression=compression)
         w = time.perf_counter() - t0
         t0 = time.perf_counter()
         back = meshio.read(path)

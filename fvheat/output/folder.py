@@ -17,8 +17,7 @@ from fvheat.output.results import FIGURES_DIR, ResultsFolder
 from fvheat.study import Study
 
 if TYPE_CHECKING:
-    from fvheat.output.memory import FieldSource, SolvedFields
-    from fvheat.output.plots.figures import FigureRecord
+    from fvheat.output.memory import SolvedFields
     from fvheat.output.workers import FigureWorkers
 
 log = logging.getLogger(__name__)
@@ -128,6 +127,7 @@ def _draw_in_workers(
     """The figures drawn by ``workers`` while this process writes the field files; the
     files written, figures last."""
     from fvheat.output.plots.figures import (
+        draw_group,
         planned_figures,
         split_figures,
         states_needed,
@@ -137,7 +137,7 @@ def _draw_in_workers(
     folder = ResultsFolder.open(out)
     frozen = memory.freeze(states_needed(len(memory.field_times())))
     groups = split_figures(planned_figures(folder, frozen), len(workers))
-    workers.submit(_draw_some, [(out, frozen, names) for names in groups])
+    workers.submit(draw_group, [(out, frozen, names) for names in groups])
     try:
         written = _write_field_files(study, out, memory, fields)
     finally:  # the figures finish (or fail) before an error of the field files goes up
@@ -146,13 +146,6 @@ def _draw_in_workers(
     for r in records:
         written += [out / r.png] + ([out / r.svg] if r.svg else [])
     return written
-
-
-def _draw_some(out: Path, source: FieldSource, names: list[str]) -> list[FigureRecord]:
-    """The figures ``names`` of ``out`` (a figure worker's job)."""
-    from fvheat.output.plots.figures import draw_figures
-
-    return draw_figures(out, fields=source, only=names)
 
 
 def _drop_stale_index(out: Path) -> None:

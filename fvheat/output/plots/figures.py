@@ -158,6 +158,12 @@ def draw_figures(
     return records
 
 
+def draw_group(out: Path, source: FieldSource, names: list[str]) -> list[FigureRecord]:
+    """The figures ``names`` of the results folder ``out`` (a figure worker's job: see
+    :mod:`fvheat.output.workers`); no index."""
+    return draw_figures(out, fields=source, only=names)
+
+
 def write_index(out: Path, records: list[FigureRecord]) -> None:
     """Write ``out/figures/figures.json``: ``records`` in the order of
     :data:`FIGURE_NAMES` (the report shows them in this order)."""
