@@ -20,6 +20,7 @@ import multiprocessing
 import os
 import signal
 import traceback
+import warnings
 from collections.abc import Callable, Sequence
 from multiprocessing.connection import Connection
 from typing import Any
@@ -58,7 +59,11 @@ class FigureWorkers:
             assert ctx is not None
             ours, theirs = ctx.Pipe()
             proc = ctx.Process(target=_serve, args=(theirs, ours), daemon=True)
-            proc.start()
+            with warnings.catch_warnings():
+                # Python ≥ 3.12 warns of fork in a process with threads: the run forks
+                # before it starts any; the BLAS library's own threads handle fork
+                warnings.filterwarnings("ignore", "This process", DeprecationWarning)
+                proc.start()
             theirs.close()
             self._conns.append(ours)
             self._procs.append(proc)
