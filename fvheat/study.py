@@ -10,7 +10,7 @@ from fvheat.case.model import Case
 from fvheat.case.resistances import with_surface_resistances
 from fvheat.checks import check_model
 from fvheat.evaluate.coupling import CouplingResult, coupling_coefficients
-from fvheat.evaluate.junction import JunctionResult, evaluate_junction
+from fvheat.evaluate.junction import JUNCTION_QUANTITIES, JunctionResult, evaluate_junction
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.rectilinear import check_refined_size
 from fvheat.mesh.select import build_mesh
@@ -25,7 +25,7 @@ GRID_CHECK_REFINE = 2.0
 
 
 #: junction quantities the grid check also shows on both grids (name, JunctionResult attribute)
-GRID_QUANTITIES = (("L2D", "l2d"), ("psi", "psi"), ("U_f", "u_f"), ("f_Rsi", "f_rsi"))
+GRID_QUANTITIES = tuple((k, JUNCTION_QUANTITIES[k]) for k in ("L2D", "psi", "U_f", "f_Rsi"))
 #: a quantity that changes on the refined grid by more than this fraction of its value and
 #: more than the absolute step it is quoted to (ψ, L2D, U_f to 0.01 W/(m·K) or W/(m²·K),
 #: f_Rsi to 0.01: common practice) is named in a warning, even when Σ|Φ| passes

@@ -64,6 +64,17 @@ class FlankingResult:
         return out
 
 
+#: the junction quantities by the names summaries, sensitivities, target goals and the grid
+#: check use → :class:`JunctionResult` attribute (the order they are shown in)
+JUNCTION_QUANTITIES = {
+    "psi": "psi",
+    "L2D": "l2d",
+    "U_f": "u_f",
+    "f_Rsi": "f_rsi",
+    "theta_si_min": "theta_si_min",
+}
+
+
 @dataclass
 class JunctionResult:
     """Everything a thermal-bridge report states about one junction."""
@@ -196,6 +207,11 @@ def junction_temperatures(case: Case) -> tuple[float, float]:
 
 def flanking_results(case: Case, mesh: Mesh) -> list[FlankingResult]:
     """U-values and lengths of the flanking elements (layer cuts read from the mesh)."""
+    return _flanking(case, mesh)[0]
+
+
+def _flanking(case: Case, mesh: Mesh) -> tuple[list[FlankingResult], GroundFloor | None]:
+    """The flanking elements and the ``[ground]`` floor among them (None without one)."""
     j = case.junction
     assert j is not None
     aligned = [f.cut for f in j.flanking if f.cut is not None and _axis_aligned(f.cut)]
@@ -217,12 +233,12 @@ def flanking_results(case: Case, mesh: Mesh) -> list[FlankingResult]:
                 str(err), file=str(case.source), key=f"junction.flanking.{k}.cut"
             ) from None
         out.append(FlankingResult(f.name, cut.u_value, f.length, cut, dict(f.lengths)))
-    if case.ground is not None:
-        g = ground_floor(case, mesh)
+    g = ground_floor(case, mesh) if case.ground is not None else None
+    if g is not None:
         out.append(
             FlankingResult(FLOOR_FLANKING, g.u_value, g.length, None, g.lengths(), "ISO 13370")
         )
-    return out
+    return out, g
 
 
 def _axis_aligned(cut: tuple[tuple[float, float], tuple[float, float]]) -> bool:
@@ -243,7 +259,7 @@ def evaluate_junction(
     dtheta = theta_i - theta_e
     phi = sum(heat_loss.surfaces[n].heat_flow for n in j.inside)
     l2d = phi / dtheta
-    flanks = flanking_results(case, heat_loss.mesh)
+    flanks, ground = _flanking(case, heat_loss.mesh)
     psi = l2d - sum(f.u_value * f.length for f in flanks)
     by_dims = psi_by_dimensions(l2d, flanks, j.dimensions)
 
@@ -275,7 +291,7 @@ def evaluate_junction(
         f_rsi_default=bool(j.surface_resistances.defaulted),
         separate_surface_solve=surface is not None,
         psi_by_dimensions=by_dims,
-        ground=ground_floor(case, heat_loss.mesh) if case.ground is not None else None,
+        ground=ground,
     )
     if j.frame_width is not None:
         result.u_f = psi / j.frame_width

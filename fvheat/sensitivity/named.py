@@ -3,16 +3,8 @@
 
 from __future__ import annotations
 
+from fvheat.evaluate.junction import JUNCTION_QUANTITIES
 from fvheat.study import Study
-
-#: junction quantities by name → JunctionResult attribute
-JUNCTION = {
-    "psi": "psi",
-    "L2D": "l2d",
-    "U_f": "u_f",
-    "f_Rsi": "f_rsi",
-    "theta_si_min": "theta_si_min",
-}
 
 
 def named_results(study: Study) -> dict[str, float]:
@@ -21,7 +13,7 @@ def named_results(study: Study) -> dict[str, float]:
     out: dict[str, float] = {}
     j = study.junction
     if j is not None:
-        for name, attr in JUNCTION.items():
+        for name, attr in JUNCTION_QUANTITIES.items():
             v = getattr(j, attr)
             if v is not None:
                 out[name] = float(v)

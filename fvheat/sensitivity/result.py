@@ -7,10 +7,11 @@ from typing import Any
 
 import numpy as np
 
+from fvheat.evaluate.junction import JUNCTION_QUANTITIES
 from fvheat.sensitivity.parameters import Parameter
 
 #: the order quantities are shown in (heat flows follow)
-QUANTITY_ORDER = ("psi", "L2D", "U_f", "f_Rsi", "theta_si_min")
+QUANTITY_ORDER = tuple(JUNCTION_QUANTITIES)
 #: what a user reads for each quantity
 LABELS = {"psi": "ψ", "theta_si_min": "θ_si,min"}
 #: derivative units by quantity

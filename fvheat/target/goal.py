@@ -7,9 +7,10 @@ import re
 from dataclasses import dataclass
 
 from fvheat.errors import CaseError
+from fvheat.evaluate.junction import JUNCTION_QUANTITIES
 
 #: quantities a goal may name besides ``heat_flow_<boundary>``
-QUANTITIES = ("psi", "L2D", "U_f", "f_Rsi", "theta_si_min")
+QUANTITIES = tuple(JUNCTION_QUANTITIES)
 _GOAL = re.compile(r"^\s*([A-Za-z_][A-Za-z0-9_.-]*)\s*(<=|>=)\s*(\S+)\s*$")
 
 
