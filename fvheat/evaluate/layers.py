@@ -7,7 +7,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from fvheat.assembly.properties import conductivity
-from fvheat.case.model import Case
+from fvheat.case.model import Boundary, Case
 from fvheat.mesh.mesh import Mesh
 
 Segment = tuple[tuple[float, float], tuple[float, float]]
@@ -155,7 +155,12 @@ def _surface_resistance(case: Case, mesh: Mesh, cell: int, normal: np.ndarray) -
     faces = np.flatnonzero((mesh.b_cell == cell) & (np.abs(mesh.b_normal @ normal - 1.0) < 1e-9))
     if faces.size == 0 or mesh.b_boundary[faces[0]] < 0:
         raise CutError("each end of the cut must be on a boundary with a surface resistance")
-    b = case.boundaries[int(mesh.b_boundary[faces[0]])]
+    return end_resistance(case.boundaries[int(mesh.b_boundary[faces[0]])])
+
+
+def end_resistance(b: Boundary) -> tuple[float, str]:
+    """Surface resistance (m²·K/W) a cut ending on boundary ``b`` takes (0 on a fixed
+    temperature), and the boundary's name; :class:`CutError` for a boundary without one."""
     if b.kind == "temperature":
         return 0.0, b.name
     if b.kind != "surface" or b.radiative or b.convection <= 0.0:

@@ -65,7 +65,7 @@ def sloped_layers(
 def _end_resistance(case: Case, p: np.ndarray, t: np.ndarray) -> tuple[float, str]:
     """Surface resistance (m²·K/W) of the boundary the cut's end ``p`` lies on, and its
     name; the cut (direction ``t``) must cross that surface perpendicularly."""
-    from fvheat.evaluate.layers import CutError
+    from fvheat.evaluate.layers import CutError, end_resistance
 
     tol = 1e-9 * max(float(np.max(np.abs(p))), 1.0)
     found: Boundary | None = None
@@ -84,11 +84,4 @@ def _end_resistance(case: Case, p: np.ndarray, t: np.ndarray) -> tuple[float, st
                 found = b
     if found is None:
         raise CutError("each end of the cut must be on a boundary with a surface resistance")
-    if found.kind == "temperature":
-        return 0.0, found.name
-    if found.kind != "surface" or found.radiative or found.convection <= 0.0:
-        raise CutError(
-            f"boundary {found.name!r} at the end of the cut has no surface resistance "
-            "(give it `resistance` or `convection` without radiation)"
-        )
-    return 1.0 / found.convection, found.name
+    return end_resistance(found)
