@@ -113,7 +113,13 @@ def _junction(
     r = junction.surface_resistances.values
     replaced = set(r) if r is not None else set()
     weights = _coldest_point_weights(surface, junction.f_rsi_boundaries or junction.inside)
-    theta, d_theta = _solve(surface, params, weights, replaced)
+    condensation = {
+        n: i
+        for i, p in enumerate(params)
+        if p.kind == "condensation"
+        for n in (sorted(replaced) if p.name == "" else [p.name])
+    }
+    theta, d_theta = _solve(surface, params, weights, replaced, condensation)
     out["theta_si_min"] = (float(theta[0]), d_theta[0])
     out["f_Rsi"] = (j.f_rsi, d_theta[0] / dtheta)
     return out
@@ -124,17 +130,20 @@ def _solve(
     params: list[Parameter],
     weights: tuple[np.ndarray, np.ndarray],
     skip: set[str],
+    condensation: dict[str, int] | None = None,
 ) -> tuple[np.ndarray, np.ndarray]:
     """Values and derivatives with respect to ``params`` (in their own units) of the
     quantities of face ``weights`` (heat flow, face temperature) on ``solution``;
-    boundaries in ``skip`` do not depend on their parameter in this solve."""
+    boundaries in ``skip`` do not depend on their own parameter in this solve but on the
+    condensation-resistance parameter ``condensation[name]`` (index), when given."""
+    condensation = condensation or {}
     system = solution.system
     mesh = solution.mesh
     index = {(p.on_boundary, p.name): i for i, p in enumerate(params) if p.kind != "parameter"}
     material_param = np.array([index.get((False, m), -1) for m in mesh.material_names], dtype=int)
     boundary_param = np.array(
         [
-            -1 if b.name in skip else index.get((True, b.name), -1)
+            condensation.get(b.name, -1) if b.name in skip else index.get((True, b.name), -1)
             for b in system.surface.boundaries
         ],
         dtype=int,
@@ -155,6 +164,8 @@ def _solve(
     for i, p in enumerate(params):
         if p.on_boundary:
             d[:, i] *= p.from_h(h[p.name])
+        elif p.kind == "condensation":
+            d[:, i] *= p.from_h(1.0 / p.value)
     return values, d
 
 
@@ -206,7 +217,7 @@ def _flanking_derivative(
         for i, p in enumerate(params):
             if p.kind == "conductivity":
                 out[i] += u2l * sum(dd / (k * k) for m, dd, k in cut.layers if m == p.name)
-            elif cut.ends is not None:
+            elif p.on_boundary and cut.ends is not None:
                 for r, end in zip((cut.r_start, cut.r_end), cut.ends, strict=True):
                     if end == p.name and r > 0.0:
                         h = conv[p.name]
@@ -226,6 +237,8 @@ def _ground_derivative(case: Case, study: Study, params: list[Parameter]) -> np.
         mesh = build_mesh(case)
     out = np.zeros(len(params))
     for i, p in enumerate(params):
+        if p.kind not in ("conductivity", "resistance", "convection"):
+            continue  # the floor's U does not depend on it
         step = 1e-6 * abs(p.value) or 1e-6  # a convection coefficient may be 0
         vals = []
         for v in (p.value + step, p.value - step):
@@ -236,7 +249,10 @@ def _ground_derivative(case: Case, study: Study, params: list[Parameter]) -> np.
 
 
 def with_parameter(case: Case, p: Parameter, value: float) -> Case:
-    """``case`` with parameter ``p`` set to ``value`` (no re-validation)."""
+    """``case`` with parameter ``p`` (a conductivity or a boundary's coefficient) set to
+    ``value`` (no re-validation)."""
+    if p.kind not in ("conductivity", "resistance", "convection"):
+        raise ValueError(f"cannot set {p.key} here")
     if p.kind == "conductivity":
         mats = dict(case.materials)
         mats[p.name] = replace(mats[p.name], conductivity=value)

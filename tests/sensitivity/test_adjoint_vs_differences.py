@@ -66,3 +66,44 @@ def test_boundary_replaced_in_the_surface_solve_has_no_effect_there() -> None:
     sens = adjoint(CASES / "balcony_slab.toml")
     assert sens.derivative("theta_si_min", "boundaries.inside_wall.resistance") == 0.0
     assert sens.derivative("theta_si_min", "boundaries.outside.resistance") > 0.0
+
+
+@pytest.mark.parametrize(
+    ("name", "keys"),
+    [
+        ("balcony_slab.toml", ["junction.condensation_resistance"]),
+        (
+            "wall_window_junction.toml",
+            [
+                "junction.condensation_resistance.inside_wall",
+                "junction.condensation_resistance.inside_window",
+            ],
+        ),
+    ],
+)
+def test_condensation_resistance(name: str, keys: list[str]) -> None:
+    """f_Rsi and θ_si,min come from a solve with the junction's own inside resistances
+    (one value for every checked surface on the balcony, one per surface on the jamb):
+    their derivatives against differences of full runs; the heat-loss results do not
+    depend on them (exactly 0)."""
+    path = CASES / name
+    sens = adjoint(path)
+    assert [p.key for p in sens.parameters if p.kind == "condensation"] == keys
+    for p in sens.parameters:
+        if p.kind != "condensation":
+            continue
+        h = STEP * p.value
+        up = results(path, (f"{p.key}={p.value + h!r}",))
+        down = results(path, (f"{p.key}={p.value - h!r}",))
+        for q in ("theta_si_min", "f_Rsi"):
+            fd = (up[q] - down[q]) / (2 * h)
+            assert sens.derivative(q, p.key) == pytest.approx(fd, rel=TOLERANCE), (q, p.key)
+            assert abs(fd) > 1e-3  # it matters
+        for q in ("psi", "L2D", *(k for k in sens.quantities if k.startswith("heat_flow_"))):
+            assert sens.derivative(q, p.key) == 0.0
+
+
+def test_no_condensation_key_when_f_rsi_uses_the_heat_loss_resistances() -> None:
+    """The frame asks for its heat-loss resistances (``"heat_loss"``): no such key."""
+    sens = adjoint(CASES / "window_frame_section.toml")
+    assert not [p for p in sens.parameters if p.kind == "condensation"]

@@ -22,7 +22,7 @@ def _euler_sum(sens: Sensitivities, quantity: str) -> float:
     total = 0.0
     for p in sens.parameters:
         d = sens.derivative(quantity, p.key)
-        total += -p.value * d if p.kind == "resistance" else p.value * d
+        total += -p.value * d if p.kind in ("resistance", "condensation") else p.value * d
     return total
 
 
@@ -51,3 +51,22 @@ def test_sum_rule_fails_when_a_term_is_left_out() -> None:
         p.value * sens.derivative("psi", p.key) for p in sens.parameters if p.kind == "conductivity"
     )
     assert abs(partial - sens.quantities["psi"][0]) > 1e-3
+
+
+@pytest.mark.parametrize(
+    "name", ["balcony_slab.toml", "wall_window_junction.toml", "eaves_pitched_roof.toml"]
+)
+def test_surface_temperature_is_homogeneous_of_degree_zero(name: str) -> None:
+    """The same scaling leaves every temperature unchanged, so θ_si,min is homogeneous of
+    degree zero: Σ λ ∂θ/∂λ − Σ R ∂θ/∂R = 0, the sum running over the condensation
+    resistances of the surface-temperature solve (junction.condensation_resistance) too.
+    Without them the sum is far from zero: the check sees that key's derivative."""
+    sens = adjoint(CASES / name)
+    theta = sens.quantities["theta_si_min"][0]
+    assert abs(_euler_sum(sens, "theta_si_min")) <= 1e-9 * abs(theta)
+    without = sum(
+        (-p.value if p.kind == "resistance" else p.value) * sens.derivative("theta_si_min", p.key)
+        for p in sens.parameters
+        if p.kind != "condensation"
+    )
+    assert abs(without) > 0.5  # K: the condensation resistance moves θ_si,min by kelvins
