@@ -18,6 +18,7 @@ from __future__ import annotations
 
 import multiprocessing
 import os
+import pickle
 import signal
 import traceback
 import warnings
@@ -141,12 +142,18 @@ def _serve(conn: Connection, parents_end: Connection) -> None:
         try:
             reply: tuple[str, Any] = ("ok", fn(*args))
         except BaseException as err:  # sent to the run, which raises it
-            try:
-                conn.send(("error", err))
-            except Exception:  # an error that does not pickle
-                conn.send(("error", RuntimeError(traceback.format_exc(limit=3))))
+            conn.send(("error", _portable(err)))
             continue
         conn.send(reply)
+
+
+def _portable(err: BaseException) -> BaseException:
+    """``err`` if it survives pickling both ways, else a RuntimeError with its traceback."""
+    try:
+        pickle.loads(pickle.dumps(err))
+        return err
+    except Exception:
+        return RuntimeError("".join(traceback.format_exception(err, limit=3)).strip())
 
 
 def _warm_up() -> None:

@@ -91,3 +91,21 @@ def test_no_workers_without_a_request():
     assert worker_count(0) == 0
     with FigureWorkers(0) as workers:
         assert len(workers) == 0
+
+
+class _Awkward(Exception):
+    """An error that pickles but cannot be rebuilt from its pickle."""
+
+    def __init__(self, a: int, b: int) -> None:
+        super().__init__(f"{a}/{b}")
+
+
+def _fails_awkwardly() -> None:
+    raise _Awkward(1, 2)
+
+
+def test_an_error_that_does_not_unpickle_arrives_as_its_traceback():
+    with FigureWorkers(1) as workers:
+        workers.submit(_fails_awkwardly, [()])
+        with pytest.raises(RuntimeError, match="_Awkward: 1/2"):
+            workers.results()
