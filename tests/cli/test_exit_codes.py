@@ -13,30 +13,14 @@ from pathlib import Path
 import pytest
 import typer
 from casefiles import write_case
+from wallcases import square_wall
 
 from fvheat.cli.main import expand_wildcards, main
 
-WALL = """
-[mesh]
-max_cell = 0.05
-[materials.w]
-conductivity = 1.0
-[[regions]]
-material = "w"
-box = [0, 0, 0.2, 0.2]
-[[boundaries]]
-name = "in"
-edges = [[[0, 0], [0, 0.2]]]
-air_temperature = 20
-resistance = 0.13
-[[boundaries]]
-name = "out"
-edges = [[[0.2, 0], [0.2, 0.2]]]
-air_temperature = -5
-convection = 10
-emissivity = 0.9
-radiant_temperature = -30
-"""
+#: a steady run with a radiating outside surface (Newton on the surface temperatures)
+WALL = square_wall(
+    "air_temperature = -5\nconvection = 10\nemissivity = 0.9\nradiant_temperature = -30"
+)
 
 
 def test_success_bad_input_and_numerical_failure(tmp_path, capsys):

@@ -5,34 +5,15 @@ last refresh left an empty line in front of the error (found by tests/cli/test_f
 from __future__ import annotations
 
 from casefiles import write_case
+from wallcases import square_wall
 
 from fvheat.cli.main import main
 
-WALL = """
-[mesh]
-max_cell = 0.05
-[materials.w]
-conductivity = 1.0
-density = 1000
-specific_heat = 1000
-[[regions]]
-material = "w"
-box = [0, 0, 0.2, 0.2]
-[[boundaries]]
-name = "in"
-edges = [[[0, 0], [0, 0.2]]]
-air_temperature = 20
-resistance = 0.13
-[[boundaries]]
-name = "out"
-edges = [[[0.2, 0], [0.2, 0.2]]]
-air_temperature = -5
-resistance = 0.04
-[time]
-duration = 3600
-step = 600
-initial_temperature = 10
-"""
+#: a transient run (the bar shows its steps)
+WALL = square_wall(
+    "air_temperature = -5\nresistance = 0.04",
+    "[time]\nduration = 3600\nstep = 600\ninitial_temperature = 10\n",
+)
 
 
 def test_no_bar_on_captured_stderr(tmp_path, capsys):
