@@ -4,9 +4,9 @@ An invented concrete balcony slab with an upstand at its tip (λ = 2.3) runs thr
 wall (λ = 0.9) with external insulation (λ = 0.04); R_si 0.13, R_se 0.04 m²·K/W; 20 °C
 inside, −10 °C outside. The references were computed with scikit-fem (quadratic P2
 triangles on a 10 mm tensor mesh through every material interface; 20 mm and 10 mm meshes
-agree within 0.25 %), by ``tests/validation/test_skfem_composite.py``; the test
-``tests/validation/test_validate_command.py`` recomputes them, so the numbers stored here
-cannot drift from that solve. scikit-fem is not needed to run this check.
+agree within 0.25 %), by ``tests/validation/test_skfem_composite.py``, which imports this
+junction and recomputes them, so the numbers stored here cannot drift from that solve.
+scikit-fem is not needed to run this check.
 """
 
 from __future__ import annotations
@@ -15,7 +15,7 @@ from fvheat.validation.check import Check, solve
 
 SOURCE = (
     "scikit-fem (independent FE library), P2 triangles, 10 mm mesh; recomputed by "
-    "tests/validation/test_validate_command.py"
+    "tests/validation/test_skfem_composite.py"
 )
 CONDUCTIVITY = {"brick": 0.9, "insulation": 0.04, "concrete": 2.3}  # W/(m·K)
 #: painted in order, later ones win (x0, y0, x1, y1), m

@@ -19,26 +19,38 @@ CELL = 0.05  # m
 POINTS = [(i * W / 5, j * H / 8) for j in range(1, 8) for i in range(1, 5)]
 
 
-def fourier(x: np.ndarray, y: np.ndarray, terms: int = 400) -> np.ndarray:
-    """Temperatures (°C) at points (x, y) m of the series solution; sinh ratios written as
-    exponentials so that no term overflows."""
+def fourier(
+    x: np.ndarray,
+    y: np.ndarray,
+    terms: int = 400,
+    width: float = W,
+    height: float = H,
+    theta1: float = THETA1,
+) -> np.ndarray:
+    """Temperatures (°C) at points (x, y) m of the series solution (Incropera eq. 4.19),
+    θ = θ1 on the edge y = ``height``, 0 on the other three:
+    θ/θ1 = (2/π) Σ_n ((−1)^(n+1) + 1)/n · sin(nπx/W) · sinh(nπy/W)/sinh(nπH/W).
+    sinh(a)/sinh(b) is written as e^(a−b)(1 − e^(−2a))/(1 − e^(−2b)) so that no term
+    overflows."""
     n = np.arange(1, terms + 1)[:, None]
     coeff = ((-1.0) ** (n + 1) + 1.0) / n
-    a = n * np.pi * np.asarray(y)[None, :] / W
-    b = n * np.pi * H / W
+    a = n * np.pi * np.asarray(y)[None, :] / width
+    b = n * np.pi * height / width
     ratio = np.exp(a - b) * (-np.expm1(-2.0 * a)) / (-np.expm1(-2.0 * b))
-    return THETA1 * 2.0 / np.pi * np.sum(coeff * np.sin(n * np.pi * x[None, :] / W) * ratio, axis=0)
+    waves = np.sin(n * np.pi * np.asarray(x)[None, :] / width)
+    return theta1 * 2.0 / np.pi * np.sum(coeff * waves * ratio, axis=0)
 
 
-def case_text() -> str:
-    """The rectangle as a case file, with a probe at every point."""
+def case_text(cell: float = CELL) -> str:
+    """The rectangle as a case file on uniform square cells of edge ``cell`` (m), with a
+    probe at every point."""
     probes = "".join(
         f'[[probes]]\nname = "p{k}"\nat = [{x!r}, {y!r}]\n' for k, (x, y) in enumerate(POINTS)
     )
     return f"""title = "rectangle, one warm edge"
 [mesh]
-max_cell = {CELL}
-min_cell = {CELL}
+max_cell = {cell}
+min_cell = {cell}
 [materials.solid]
 conductivity = 1.0
 [[regions]]

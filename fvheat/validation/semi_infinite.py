@@ -9,6 +9,7 @@ Material and times invented; a 1 m slab acts as semi-infinite for 6 h (rise < 1e
 from __future__ import annotations
 
 import numpy as np
+import numpy.typing as npt
 from scipy.special import erfc, erfcx
 
 from fvheat.validation.check import Check, solve
@@ -23,21 +24,46 @@ PROBE_DEPTH = 0.03  # m
 DURATION, STEP = 6 * 3600.0, 60.0  # s
 
 
-def exact(x: float, t: float) -> float:
-    """Temperature (°C) at depth ``x`` m after ``t`` s; exp(A)·erfc(B) = exp(A − B²)·erfcx(B)."""
-    root = np.sqrt(ALPHA * t)
-    beta = H_SURF * root / K
-    b = x / (2.0 * root) + beta
-    a = H_SURF * x / K + beta**2
-    return float(T_INIT + (T_AIR - T_INIT) * (erfc(x / (2.0 * root)) - np.exp(a - b**2) * erfcx(b)))
+def exact(
+    x: npt.ArrayLike,
+    t: float,
+    k: float = K,
+    alpha: float = ALPHA,
+    h: float = H_SURF,
+    t_init: float = T_INIT,
+    t_air: float = T_AIR,
+) -> np.ndarray:
+    """Temperature (°C) at depths ``x`` m after ``t`` s (Incropera eq. 5.60) of a solid of
+    conductivity ``k`` W/(m·K) and diffusivity ``alpha`` m²/s, surface coefficient ``h``
+    W/(m²·K); exp(A)·erfc(B) is evaluated as exp(A − B²)·erfcx(B)."""
+    x = np.asarray(x, dtype=float)
+    root = np.sqrt(alpha * t)
+    xi = x / (2.0 * root)
+    beta = h * root / k
+    b = xi + beta
+    a = h * x / k + beta**2
+    return np.asarray(t_init + (t_air - t_init) * (erfc(xi) - np.exp(a - b**2) * erfcx(b)))
 
 
-def case_text() -> str:
-    """The slab as a case file (cells 2 mm at the surface growing to 20 mm)."""
+def case_text(
+    max_cell: float = 0.02,
+    min_cell: float = STRIP,
+    step: float = STEP,
+    save_every: float = DURATION,
+    probes: dict[str, float] | None = None,
+) -> str:
+    """The slab as a case file: a strip ``min_cell`` m high, cells ``min_cell`` at the
+    surface growing to ``max_cell``, steps of ``step`` s, probes at the depths (m) of
+    ``probes`` (default: "inside" at PROBE_DEPTH)."""
+    depths = {"inside": PROBE_DEPTH} if probes is None else probes
+    probe_text = "".join(
+        f'[[probes]]\nname = "{name}"\nat = [{d!r}, {min_cell / 2!r}]\n'
+        for name, d in depths.items()
+    )
     return f"""title = "semi-infinite solid, convective surface"
 [mesh]
-max_cell = 0.02
-min_cell = {STRIP}
+max_cell = {max_cell}
+min_cell = {min_cell}
 growth = 1.1
 [materials.solid]
 conductivity = {K}
@@ -45,20 +71,17 @@ density = {RHO}
 specific_heat = {C}
 [[regions]]
 material = "solid"
-box = [0.0, 0.0, {DEPTH}, {STRIP}]
+box = [0.0, 0.0, {DEPTH}, {min_cell}]
 [[boundaries]]
 name = "surface"
-edges = [[[0.0, 0.0], [0.0, {STRIP}]]]
+edges = [[[0.0, 0.0], [0.0, {min_cell}]]]
 air_temperature = {T_AIR}
 resistance = {1.0 / H_SURF}
-[[probes]]
-name = "inside"
-at = [{PROBE_DEPTH}, {STRIP / 2}]
-[time]
+{probe_text}[time]
 duration = {DURATION}
-step = {STEP}
+step = {step}
 initial_temperature = {T_INIT}
-save_every = {DURATION}
+save_every = {save_every}
 """
 
 
@@ -71,7 +94,7 @@ def checks() -> list[Check]:
             name,
             "θ surface, 6 h",
             "°C",
-            exact(0.0, DURATION),
+            float(exact(0.0, DURATION)),
             sol.surfaces["surface"].min_temperature,
             0.05,
             SOURCE,
@@ -80,7 +103,7 @@ def checks() -> list[Check]:
             name,
             f"θ {1000 * PROBE_DEPTH:g} mm deep, 6 h",
             "°C",
-            exact(PROBE_DEPTH, DURATION),
+            float(exact(PROBE_DEPTH, DURATION)),
             float(sol.probes["inside"]),
             0.05,
             SOURCE,

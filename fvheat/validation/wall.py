@@ -7,6 +7,8 @@ each part is in the ratio of its resistance to the total. Layers and temperature
 
 from __future__ import annotations
 
+import numpy as np
+
 from fvheat.validation.check import Check, solve
 
 SOURCE = "ISO 6946 resistance method, hand calculation (R_si, R_se from memory)"
@@ -20,6 +22,28 @@ LAYERS = (
     ("mineral_wool", 0.12, 0.035),
     ("render", 0.01, 0.87),
 )
+
+
+Layer = tuple[str, float, float]
+
+
+def u_value(layers: tuple[Layer, ...] = LAYERS, rsi: float = RSI, rse: float = RSE) -> float:
+    """ISO 6946: U = 1/(R_si + Σ d/λ + R_se), W/(m²·K), of ``layers`` (name, d m, λ W/(m·K))."""
+    return 1.0 / (rsi + sum(d / lam for _, d, lam in layers) + rse)
+
+
+def temperatures(
+    layers: tuple[Layer, ...] = LAYERS,
+    rsi: float = RSI,
+    rse: float = RSE,
+    t_in: float = T_IN,
+    t_out: float = T_OUT,
+) -> np.ndarray:
+    """Temperatures (°C) at the inside surface, every layer interface and the outside
+    surface: the drop to each is q·(R_si + the resistances passed), q = U·(θ_i − θ_e)."""
+    q = u_value(layers, rsi, rse) * (t_in - t_out)  # W/m²
+    r_cum = rsi + np.concatenate([[0.0], np.cumsum([d / lam for _, d, lam in layers])])
+    return t_in - q * r_cum
 
 
 def case_text() -> str:
@@ -41,9 +65,7 @@ def case_text() -> str:
 
 def checks() -> list[Check]:
     """Heat flow through the wall and the inside surface temperature."""
-    r_total = RSI + sum(d / lam for _, d, lam in LAYERS) + RSE
-    u = 1.0 / r_total  # W/(m²·K)
-    q = u * (T_IN - T_OUT)  # W/m²
+    q = u_value() * (T_IN - T_OUT)  # W/m²
     sol = solve(case_text(), "wall")
     inside = sol.surfaces["inside"]
     name = "1-D wall"

@@ -5,58 +5,21 @@ from __future__ import annotations
 from pathlib import Path
 
 from casefiles import load
+from wallcases import ROOM_HUMIDITY, SERIES_FILES, WEATHER, series_wall, write_files
 
 from fvheat.case.inputs import case_inputs
 from fvheat.sweep.identity import input_hashes, input_name
 
-WALL = """
-[mesh]
-max_cell = 0.05
-[materials.wall]
-conductivity = 1.0
-density = 2000
-specific_heat = 1000
-[[regions]]
-material = "wall"
-box = [0.0, 0.0, 0.2, 0.1]
-[[boundaries]]
-name = "inside"
-edges = [[[0.0, 0.0], [0.0, 0.1]]]
-air_temperature = 20.0
-resistance = 0.13
-[[boundaries]]
-name = "outside"
-edges = [[[0.2, 0.0], [0.2, 0.1]]]
-air_temperature = {outside}
-resistance = 0.04
-[time]
-duration = 7200
-step = 1800
-initial_temperature = 10.0
-save_every = 3600
-"""
-CONDENSATION = """
-[condensation]
-boundaries = ["inside"]
-relative_humidity = { file = "data/room.csv", column = "rh" }
-"""
-
-
-def write_series(folder: Path) -> None:
-    (folder / "data").mkdir(exist_ok=True)
-    (folder / "weather.csv").write_text("time,t_out\n0,-5\n7200,0\n", encoding="utf-8")
-    (folder / "data" / "room.csv").write_text("time,rh\n0,50\n7200,60\n", encoding="utf-8")
-
 
 def test_a_case_without_files_reads_only_itself(tmp_path):
-    case = load(tmp_path, WALL.format(outside="-5.0"))
+    case = load(tmp_path, series_wall("-5.0"))
     assert case_inputs(case) == [(tmp_path / "case.toml").absolute()]
     assert input_hashes(case) == {}
 
 
 def test_boundary_and_humidity_series_are_inputs(tmp_path):
-    write_series(tmp_path)
-    text = WALL.format(outside='{ file = "weather.csv", column = "t_out" }') + CONDENSATION
+    write_files(tmp_path, SERIES_FILES)
+    text = series_wall(WEATHER) + ROOM_HUMIDITY
     case = load(tmp_path, text)
     assert case_inputs(case) == [
         (tmp_path / "case.toml").absolute(),
@@ -71,9 +34,7 @@ def test_boundary_and_humidity_series_are_inputs(tmp_path):
 def test_one_file_read_by_two_keys_is_listed_once(tmp_path):
     (tmp_path / "weather.csv").write_text("time,t_out,t_in\n0,-5,20\n7200,0,21\n", "utf-8")
     inside = 'boundaries.inside.air_temperature={ file = "weather.csv", column = "t_in" }'
-    case = load(
-        tmp_path, WALL.format(outside='{ file = "weather.csv", column = "t_out" }'), [inside]
-    )
+    case = load(tmp_path, series_wall(WEATHER), [inside])
     assert case_inputs(case) == [
         (tmp_path / "case.toml").absolute(),
         (tmp_path / "weather.csv").absolute(),

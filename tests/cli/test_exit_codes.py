@@ -13,30 +13,12 @@ from pathlib import Path
 import pytest
 import typer
 from casefiles import write_case
+from wallcases import wall
 
 from fvheat.cli.main import expand_wildcards, main
 
-WALL = """
-[mesh]
-max_cell = 0.05
-[materials.w]
-conductivity = 1.0
-[[regions]]
-material = "w"
-box = [0, 0, 0.2, 0.2]
-[[boundaries]]
-name = "in"
-edges = [[[0, 0], [0, 0.2]]]
-air_temperature = 20
-resistance = 0.13
-[[boundaries]]
-name = "out"
-edges = [[[0.2, 0], [0.2, 0.2]]]
-air_temperature = -5
-convection = 10
-emissivity = 0.9
-radiant_temperature = -30
-"""
+#: a steady run with a radiating outside surface (Newton on the surface temperatures)
+WALL = wall("air_temperature = -5\nconvection = 10\nemissivity = 0.9\nradiant_temperature = -30")
 
 
 def test_success_bad_input_and_numerical_failure(tmp_path, capsys):
@@ -51,11 +33,11 @@ def test_success_bad_input_and_numerical_failure(tmp_path, capsys):
         str(tmp_path / "bad"),
         "-q",
         "--set",
-        "materials.w.conductivity=-1",
+        "materials.wall.conductivity=-1",
     ]
     assert main(bad) == 2
     err = capsys.readouterr().err.strip()
-    assert len(err.splitlines()) == 1 and "materials.w.conductivity" in err
+    assert len(err.splitlines()) == 1 and "materials.wall.conductivity" in err
     assert not (tmp_path / "bad").exists()
 
     # an AMG-CG allowed one iteration cannot converge: a numerical failure, exit 1

@@ -5,34 +5,12 @@ last refresh left an empty line in front of the error (found by tests/cli/test_f
 from __future__ import annotations
 
 from casefiles import write_case
+from wallcases import series_wall
 
 from fvheat.cli.main import main
 
-WALL = """
-[mesh]
-max_cell = 0.05
-[materials.w]
-conductivity = 1.0
-density = 1000
-specific_heat = 1000
-[[regions]]
-material = "w"
-box = [0, 0, 0.2, 0.2]
-[[boundaries]]
-name = "in"
-edges = [[[0, 0], [0, 0.2]]]
-air_temperature = 20
-resistance = 0.13
-[[boundaries]]
-name = "out"
-edges = [[[0.2, 0], [0.2, 0.2]]]
-air_temperature = -5
-resistance = 0.04
-[time]
-duration = 3600
-step = 600
-initial_temperature = 10
-"""
+#: a transient run (the bar shows its steps)
+WALL = series_wall(-5.0)
 
 
 def test_no_bar_on_captured_stderr(tmp_path, capsys):
@@ -43,7 +21,7 @@ def test_no_bar_on_captured_stderr(tmp_path, capsys):
     assert "cells" in captured.out  # the results table still goes to standard output
     bad = ["run", str(case), "-o", str(tmp_path / "bad"), "--set", "probes.0.at=[1, 1]"]
     bad_case = write_case(
-        tmp_path, WALL + '[[probes]]\nname = "p"\nat = [0.1, 0.1]\n', name="probe.toml"
+        tmp_path, WALL + '[[probes]]\nname = "p"\nat = [0.1, 0.05]\n', name="probe.toml"
     )
     bad[1] = str(bad_case)
     assert main(bad) == 2

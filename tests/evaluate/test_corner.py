@@ -22,22 +22,9 @@ inner faces from the inner corner to the cut-off planes.
 
 from __future__ import annotations
 
-import itertools
-
 import numpy as np
 import pytest
-import scipy.sparse.linalg as spla
-from skfem import (
-    Basis,
-    BilinearForm,
-    ElementTriP2,
-    FacetBasis,
-    Functional,
-    LinearForm,
-    MeshTri,
-    asm,
-)
-from skfem.helpers import dot, grad
+from fem_reference import Surface, solve_tensor_boxes, uniform
 
 from .helpers import fixed_toml, iso6946_u, materials_toml, num, regions_toml, study, surface_toml
 
@@ -92,57 +79,17 @@ def test_corner_edge_shape_factor_incropera(tmp_path):
 # --- scikit-fem reference ------------------------------------------------------------------
 
 
-def _lines(keys: list[float], h: float) -> np.ndarray:
-    out = [keys[0]]
-    for a, b in itertools.pairwise(keys):
-        n = int(np.ceil((b - a) / h - 1e-9))
-        out.extend(np.linspace(a, b, n + 1)[1:])
-    return np.array(out)
-
-
 def skfem_inside_heat_flow(h: float) -> float:
     """Heat flow (W/m) into the L through its inside faces: P2 triangles on a tensor mesh of
-    spacing ≤ h (lines through 0, D and the leg ends), the room's quarter removed."""
-    mesh = MeshTri.init_tensor(_lines([0.0, D, X_END], h), _lines([0.0, D, Y_END], h))
-    c = mesh.p[:, mesh.t].mean(axis=1)
-    mesh = mesh.remove_elements(np.flatnonzero((c[0] > D) & (c[1] > D)))
-    element = ElementTriP2()
-    basis = Basis(mesh, element)
-    facets = mesh.boundary_facets()
-    mid = mesh.p[:, mesh.facets[:, facets]].mean(axis=1)
-    tol = 1e-9
-    on_in = ((np.abs(mid[0] - D) < tol) & (mid[1] > D - tol)) | (
-        (np.abs(mid[1] - D) < tol) & (mid[0] > D - tol)
+    spacing ≤ h (lines through 0, D and the leg ends), the room's quarter removed
+    (``tests/fem_reference.py``)."""
+    fem = solve_tensor_boxes(
+        uniform([0.0, D, X_END], h),
+        uniform([0.0, D, Y_END], h),
+        [(LAMBDA, box) for _, box in REGIONS],
+        [Surface("inside", INSIDE, T_IN, R_SI), Surface("outside", OUTSIDE, T_OUT, R_SE)],
     )
-    on_out = (np.abs(mid[0]) < tol) | (np.abs(mid[1]) < tol)
-
-    @BilinearForm
-    def conduction(u, v, w):
-        return LAMBDA * dot(grad(u), grad(v))
-
-    @BilinearForm
-    def mass(u, v, w):
-        return u * v
-
-    @LinearForm
-    def unit(v, w):
-        return v
-
-    @Functional
-    def heat_in(w):
-        return (w.air - w.u) / w.r
-
-    a = asm(conduction, basis)
-    b = np.zeros(basis.N)
-    sides = []
-    for fac, air, r in ((facets[on_in], T_IN, R_SI), (facets[on_out], T_OUT, R_SE)):
-        fb = FacetBasis(mesh, element, facets=fac)
-        a = a + asm(mass, fb) / r
-        b = b + asm(unit, fb) * air / r
-        sides.append((fb, air, r))
-    u = spla.spsolve(a.tocsc(), b)
-    fb, air, r = sides[0]
-    return float(heat_in.assemble(fb, u=fb.interpolate(u), air=air, r=r))
+    return fem.heat_flow("inside")
 
 
 def test_corner_psi_against_scikit_fem(tmp_path):

@@ -1,4 +1,5 @@
-"""Shared sweep fixtures: the demo balcony case on a coarse mesh, and one 2×3 sweep of it."""
+"""Shared sweep fixtures and helpers: the demo balcony case on a coarse mesh, one 2×3 sweep
+of it, the sweep command line and the rows a sweep stored."""
 
 from __future__ import annotations
 
@@ -7,6 +8,7 @@ from pathlib import Path
 import pytest
 
 from fvheat.cli.main import main
+from fvheat.sweep.store import Row, SweepStore
 
 ROOT = Path(__file__).resolve().parents[2]
 CASE = ROOT / "cases" / "balcony_slab.toml"
@@ -24,9 +26,16 @@ VARY_2X3 = (
 )
 
 
-def sweep_args(out: Path, *extra: str) -> list[str]:
-    """``fvheat sweep`` arguments for the 2×3 coarse sweep of the balcony case into ``out``."""
-    return ["sweep", str(CASE), *VARY_2X3, *COARSE, "--out", str(out), "-q", *extra]
+def sweep_args(out: Path, *extra: str, vary: tuple[str, ...] = VARY_2X3) -> list[str]:
+    """``fvheat sweep`` arguments for a coarse sweep of the balcony case into ``out`` (the
+    2×3 sweep unless ``vary`` says otherwise), then ``extra``."""
+    return ["sweep", str(CASE), *vary, *COARSE, "--out", str(out), *extra]
+
+
+def stored(folder: Path) -> list[Row]:
+    """The rows of the sweep database in ``folder``, read-only."""
+    with SweepStore(folder / "sweep.sqlite", readonly=True) as store:
+        return store.rows()
 
 
 @pytest.fixture(scope="session")
@@ -34,6 +43,6 @@ def sweep_2x3(tmp_path_factory: pytest.TempPathFactory) -> tuple[Path, Path]:
     """One finished 2×3 sweep (2 workers): its folder and its exported table."""
     folder = tmp_path_factory.mktemp("sweep_2x3")
     table = folder.parent / "sweep_2x3.csv"
-    code = main(sweep_args(folder, "--jobs", "2", "--table", str(table)))
+    code = main(sweep_args(folder, "-q", "--jobs", "2", "--table", str(table)))
     assert code == 0
     return folder, table

@@ -16,15 +16,17 @@ import pytest
 
 from fvheat.cli.main import main
 from fvheat.sweep.folders import MARKER, folder_problem
-from fvheat.sweep.store import DAMAGED_HINT, SweepStore
+from fvheat.sweep.store import DAMAGED_HINT
 
-from .conftest import CASE, COARSE, SLAB
+from . import conftest
+from .conftest import CASE, SLAB, stored
 
 VALUES = "1.6,2.0,2.4,2.8,3.2"
 
 
 def sweep_args(out: Path, *extra: str) -> list[str]:
-    return ["sweep", str(CASE), "--vary", f"{SLAB}={VALUES}", *COARSE, "-o", str(out), *extra]
+    """The five-variant sweep into ``out``."""
+    return conftest.sweep_args(out, *extra, vary=("--vary", f"{SLAB}={VALUES}"))
 
 
 @pytest.fixture(scope="module")
@@ -40,11 +42,6 @@ def copy(finished: Path, tmp_path: Path) -> Path:
     out = tmp_path / "sweep"
     shutil.copytree(finished, out)
     return out
-
-
-def stored(out: Path):
-    with SweepStore(out / "sweep.sqlite", readonly=True) as store:
-        return store.rows()
 
 
 def stamps(out: Path) -> dict[str, int]:

@@ -6,42 +6,15 @@ from __future__ import annotations
 from pathlib import Path
 
 import pytest
+from wallcases import ROOM_HUMIDITY, SERIES_FILES, WEATHER, series_wall, write_files
 
 from fvheat.cli.main import main
-from fvheat.sweep.store import SweepStore
 
-WALL = """
-[mesh]
-max_cell = 0.05
-[materials.wall]
-conductivity = 1.0
-density = 2000
-specific_heat = 1000
-[[regions]]
-material = "wall"
-box = [0.0, 0.0, 0.2, 0.1]
-[[boundaries]]
-name = "inside"
-edges = [[[0.0, 0.0], [0.0, 0.1]]]
-air_temperature = 20.0
-resistance = 0.13
-[[boundaries]]
-name = "outside"
-edges = [[[0.2, 0.0], [0.2, 0.1]]]
-air_temperature = { file = "weather.csv", column = "t_out" }
-resistance = 0.04
-[condensation]
-boundaries = ["inside"]
-relative_humidity = { file = "data/room.csv", column = "rh" }
-[time]
-duration = 7200
-step = 1800
-initial_temperature = 10.0
-save_every = 3600
-"""
+from .conftest import stored
+
+WALL = series_wall(WEATHER) + ROOM_HUMIDITY
 FILES = {
-    "weather.csv": "time,t_out\n0,-5\n7200,0\n",
-    "data/room.csv": "time,rh\n0,50\n7200,60\n",
+    **SERIES_FILES,
     "cold.csv": "time,t\n0,-10\n7200,-10\n",
     "mild.csv": "time,t\n0,5\n7200,5\n",
 }
@@ -50,9 +23,7 @@ FILES = {
 @pytest.fixture
 def project(tmp_path: Path) -> Path:
     """A transient wall case reading a weather and a room-humidity series."""
-    for name, text in FILES.items():
-        (tmp_path / name).parent.mkdir(exist_ok=True)
-        (tmp_path / name).write_text(text, encoding="utf-8")
+    write_files(tmp_path, FILES)
     (tmp_path / "wall.toml").write_text(WALL, encoding="utf-8")
     return tmp_path
 
@@ -63,8 +34,7 @@ def sweep(project: Path, *vary: str) -> list[str]:
 
 
 def rows(project: Path):
-    with SweepStore(project / "sweep" / "sweep.sqlite", readonly=True) as store:
-        return store.rows()
+    return stored(project / "sweep")
 
 
 @pytest.mark.parametrize(

@@ -16,9 +16,8 @@ import pytest
 
 from fvheat.cli.main import main
 from fvheat.output.files import atomic_write_file, is_temporary
-from fvheat.sweep.store import SweepStore
 
-from .conftest import CASE, SLAB
+from .conftest import CASE, SLAB, stored
 
 pytestmark = pytest.mark.skipif(sys.platform == "win32", reason="POSIX signals")
 
@@ -95,16 +94,14 @@ def test_killed_sweep_resumes_without_recomputing(tmp_path, sig):
             time.sleep(0.2)
         assert session_members(proc.pid) == []
 
-    with SweepStore(db, readonly=True) as store:
-        killed = store.rows()
+    killed = stored(out)
     done = {r.id: r for r in killed if r.status == "done"}
     assert 1 <= len(done) < len(killed) == 6, "the kill must come mid-sweep"
     stamps = {i: (out / r.output / "summary.json").stat().st_mtime_ns for i, r in done.items()}
 
     assert main([*ARGS, "-o", str(out)]) == 0
 
-    with SweepStore(db, readonly=True) as store:
-        final = store.rows()
+    final = stored(out)
     assert len(final) == 6 and len({r.key for r in final}) == 6  # no duplicates
     assert all(r.status == "done" for r in final)
     for r in final:
@@ -200,8 +197,7 @@ def test_sigkill_of_the_process_group_leaves_no_temporary_files_after_a_resume(t
         if proc.poll() is None:
             proc.kill()
             proc.wait()
-    with SweepStore(out / "sweep.sqlite", readonly=True) as store:
-        killed = store.rows()
+    killed = stored(out)
     unfinished = [r for r in killed if r.status != "done"]
     assert unfinished, "the kill must come mid-sweep"
     left = temporary_files(out)
@@ -219,8 +215,7 @@ def test_sigkill_of_the_process_group_leaves_no_temporary_files_after_a_resume(t
 
     assert main([*ARGS, "-o", str(out)]) == 0
 
-    with SweepStore(out / "sweep.sqlite", readonly=True) as store:
-        final = store.rows()
+    final = stored(out)
     assert len(final) == 6 and all(r.status == "done" for r in final)
     assert [p for p in temporary_files(out) if p not in foreign] == []
     assert all(p.read_text(encoding="utf-8") == "kept\n" for p in foreign)

@@ -10,7 +10,6 @@ import math
 import pytest
 
 from fvheat.cli.main import main
-from fvheat.sweep.store import SweepStore
 
 from .conftest import (
     CASE,
@@ -20,13 +19,9 @@ from .conftest import (
     SLAB,
     SLAB_VALUES,
     VARY_2X3,
+    stored,
     sweep_args,
 )
-
-
-def stored(folder):
-    with SweepStore(folder / "sweep.sqlite", readonly=True) as store:
-        return store.rows()
 
 
 def test_six_rows_equal_six_separate_runs(sweep_2x3, tmp_path):
@@ -73,7 +68,7 @@ def test_table_has_one_column_per_varied_key_then_status_and_results(sweep_2x3):
 def test_rerun_resumes_nothing_and_keeps_rows(sweep_2x3, capsys):
     folder, _ = sweep_2x3
     before = stored(folder)
-    assert main(sweep_args(folder, "--jobs", "2")) == 0
+    assert main(sweep_args(folder, "-q", "--jobs", "2")) == 0
     after = stored(folder)
     assert after == before  # same ids, finish times and attempt counters: nothing recomputed
     assert all(r.attempts == 1 for r in after)
@@ -84,15 +79,14 @@ def test_rerun_resumes_nothing_and_keeps_rows(sweep_2x3, capsys):
         + "".join(f"{w}0,{k}\n" for k in SLAB_VALUES for w in INSULATION_VALUES),
         encoding="utf-8",
     )
-    args = ["sweep", str(CASE), "--variants", str(variants), *COARSE, "-o", str(folder), "-q"]
-    assert main(args) == 0
+    assert main(sweep_args(folder, "-q", vary=("--variants", str(variants)))) == 0
     assert stored(folder) == before
     assert capsys.readouterr().out == ""
 
 
 def test_failed_variant_is_recorded_and_the_others_complete(tmp_path, capsys):
     out = tmp_path / "sweep"
-    args = ["sweep", str(CASE), "--vary", f"{SLAB}=2.3,-1,1.6", *COARSE, "-o", str(out), "-j", "2"]
+    args = sweep_args(out, "-j", "2", vary=("--vary", f"{SLAB}=2.3,-1,1.6"))
     assert main(args) == 1
     printed = capsys.readouterr().out
     assert "1 failed" in printed and "Caution" in printed
@@ -189,7 +183,5 @@ def test_repeated_variant_rows_run_once(tmp_path):
     variants = tmp_path / "v.csv"
     variants.write_text(f"{SLAB}\n1.6\n2.0\n1.60\n1.6\n", encoding="utf-8")
     out = tmp_path / "sweep"
-    assert (
-        main(["sweep", str(CASE), "--variants", str(variants), *COARSE, "-o", str(out), "-q"]) == 0
-    )
+    assert main(sweep_args(out, "-q", vary=("--variants", str(variants)))) == 0
     assert [(r.params, r.attempts) for r in stored(out)] == [({SLAB: "1.6"}, 1), ({SLAB: "2.0"}, 1)]

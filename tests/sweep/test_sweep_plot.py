@@ -7,20 +7,16 @@ import pytest
 from fvheat.cli.main import main
 from fvheat.errors import CaseError
 from fvheat.sweep.plot import plot_lines
-from fvheat.sweep.store import SweepStore
 from fvheat.sweep.table import from_store
 
-from .conftest import INSULATION, INSULATION_VALUES, SLAB, SLAB_VALUES
+from .conftest import INSULATION, INSULATION_VALUES, SLAB, SLAB_VALUES, stored
 
 
 def test_lines_hold_the_stored_results(sweep_2x3):
     folder, _ = sweep_2x3
     lines = plot_lines(from_store(folder), x=INSULATION, y="psi", series=SLAB)
     assert [line.label for line in lines] == list(SLAB_VALUES)
-    with SweepStore(folder / "sweep.sqlite", readonly=True) as store:
-        psi = {
-            (r.params[SLAB], float(r.params[INSULATION])): r.results["psi"] for r in store.rows()
-        }
+    psi = {(r.params[SLAB], float(r.params[INSULATION])): r.results["psi"] for r in stored(folder)}
     for line in lines:
         assert line.x == tuple(sorted(float(w) for w in INSULATION_VALUES))
         assert line.y == tuple(psi[(line.label, x)] for x in line.x)

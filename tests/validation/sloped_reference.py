@@ -6,25 +6,15 @@ Source: independent library. scikit-fem solves ∇·(λ∇θ) = 0 with Robin con
 top and bottom. Its mesh is a tensor grid in (ξ, y), ξ ∈ [0, 1] mapped onto the first
 material (0 ≤ x ≤ s(y)) and ξ ∈ [1, 2] onto the second (s(y) ≤ x ≤ r(y)); s and r are
 linear in y, so the interface and the sloped surface are straight lines of the mesh (the
-geometry is exact), independently of the `triangle` library fvheat uses.
+geometry is exact), independently of the `triangle` library fvheat uses. The solve is the
+shared one of ``tests/fem_reference.py`` (P2, Robin surfaces).
 """
 
 from __future__ import annotations
 
 import numpy as np
-import scipy.sparse.linalg as spla
-from skfem import (
-    BilinearForm,
-    CellBasis,
-    ElementTriP0,
-    ElementTriP2,
-    FacetBasis,
-    Functional,
-    LinearForm,
-    MeshTri,
-    asm,
-)
-from skfem.helpers import dot, grad
+from fem_reference import Surface, solve_robin
+from skfem import MeshTri
 
 # invented section: a dense layer and an insulation layer, both wedge-shaped, m and W/(m·K)
 HEIGHT = 0.6
@@ -51,50 +41,20 @@ def solve(n: int, points: np.ndarray | None = None) -> tuple[dict[str, float], n
     q, y = mesh.p
     x = np.where(q <= 1.0, q * _s(y), _s(y) + (q - 1.0) * (_r(y) - _s(y)))
     mesh = MeshTri(np.vstack([x, y]), mesh.t)
-    centroid_xi = q[mesh.t].mean(axis=0)
-    lam = np.where(centroid_xi < 1.0, K_DENSE, K_INSULATION)
-    basis = CellBasis(mesh, ElementTriP2())
-    lam_field = basis.with_element(ElementTriP0()).interpolate(lam)
-
-    @BilinearForm
-    def conduction(u, v, w):
-        return w.lam * dot(grad(u), grad(v))
-
-    @BilinearForm
-    def mass(u, v, w):
-        return u * v
-
-    @LinearForm
-    def unit(v, w):
-        return v
-
-    @Functional
-    def heat_in(w):
-        return (w.air - w.u) / w.r
-
+    lam = np.where(q[mesh.t].mean(axis=0) < 1.0, K_DENSE, K_INSULATION)
     tol = 1e-9
-    sides = {
-        "inside": (mesh.facets_satisfying(lambda p: np.abs(p[0]) < tol), T_IN, R_IN),
-        "outside": (
+    sides = [
+        Surface("inside", mesh.facets_satisfying(lambda p: np.abs(p[0]) < tol), T_IN, R_IN),
+        Surface(
+            "outside",
             mesh.facets_satisfying(lambda p: np.abs(p[0] - _r(p[1])) < tol),
             T_OUT,
             R_OUT,
         ),
-    }
-    a = asm(conduction, basis, lam=lam_field)
-    b = np.zeros(basis.N)
-    bases = {}
-    for name, (facets, air, r) in sides.items():
-        fb = FacetBasis(mesh, basis.elem, facets=facets)
-        a = a + asm(mass, fb) / r
-        b = b + asm(unit, fb) * air / r
-        bases[name] = (fb, air, r)
-    u = spla.spsolve(a.tocsc(), b)
-    flows = {
-        name: float(heat_in.assemble(fb, u=fb.interpolate(u), air=air, r=r))
-        for name, (fb, air, r) in bases.items()
-    }
-    at = np.zeros(0) if points is None else basis.probes(np.asarray(points, float).T) @ u
+    ]
+    fem = solve_robin(mesh, lam, sides)
+    flows = {s.name: fem.heat_flow(s.name) for s in sides}
+    at = np.zeros(0) if points is None else fem.at(np.asarray(points, float).T)
     return flows, at
 
 

@@ -24,11 +24,11 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from fem_reference import solve_boxes
 
 from fvheat.case.load import load_case
 from fvheat.study import run_study, surface_case
 
-from .fem_reference import solve_boxes
 from .helpers import report
 
 CASES = Path(__file__).resolve().parents[2] / "cases"

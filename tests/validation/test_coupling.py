@@ -21,11 +21,11 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+from fem_reference import solve_boxes
 
 from fvheat.evaluate.surfaces import surface_points
 from fvheat.study import run_study
 
-from .fem_reference import solve_boxes
 from .helpers import load, report, toml_list
 
 T = {"room_a": 20.0, "room_b": 16.0, "outside": -5.0}

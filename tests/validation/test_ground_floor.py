@@ -18,11 +18,11 @@ import math
 from pathlib import Path
 
 import pytest
+from fem_reference import solve_boxes
 
 from fvheat.cli.main import main
 from fvheat.study import run_study
 
-from .fem_reference import solve_boxes
 from .helpers import load, report, write_case
 
 B = 4.0  # m, B'

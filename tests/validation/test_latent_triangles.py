@@ -1,10 +1,9 @@
 """Latent heat on the triangle mesh: freezing of a semi-infinite medium (Neumann).
 
 Source: Carslaw & Jaeger, *Conduction of Heat in Solids*, 2nd ed., §11.2 (Neumann's
-two-phase solution; the same formulas as ``test_neumann.py``, which runs two
+two-phase solution, ``neumann.py``, shared with ``test_neumann.py``, which runs two
 conductivities on both meshes), here with one conductivity in both phases. The model
-releases the
-latent heat over θ_f ± 0.05 K. Material values are invented (a wet soil-like medium).
+releases the latent heat over θ_f ± 0.05 K. Material values are invented (a wet soil-like medium).
 Checks, on both meshes: the front within 2 % and temperatures within 0.1 K after two days
 on 5 mm cells and 450 s steps (the 2 m strip is semi-infinite for two days: the exact
 rise at its far end is below 1e-3 K), and the energy balance (stored sensible + latent change =
@@ -15,40 +14,16 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-from scipy.optimize import brentq
-from scipy.special import erf, erfc
 
 from .helpers import load
+from .neumann import Neumann
 
 K = 1.8  # W/(m·K), both phases
 RHO, C_S, C_L, LATENT = 1800.0, 900.0, 1400.0, 1.0e5
 T_INIT, T_WALL, T_F = 5.0, -10.0, 0.0
 DURATION, DEPTH, HEIGHT = 172_800.0, 2.0, 0.02
-A_S, A_L = K / (RHO * C_S), K / (RHO * C_L)
-NU = np.sqrt(A_S / A_L)
-
-
-def _lambda() -> float:
-    """Root of Neumann's equation (Carslaw & Jaeger §11.2, eq. (7)) with k_s = k_l."""
-
-    def f(lam: float) -> float:
-        return (
-            np.exp(-(lam**2)) / erf(lam)
-            + NU * (T_F - T_INIT) / (T_F - T_WALL) * np.exp(-(lam**2) * NU**2) / erfc(lam * NU)
-            - lam * LATENT * np.sqrt(np.pi) / (C_S * (T_F - T_WALL))
-        )
-
-    return brentq(f, 1e-6, 5.0)
-
-
-LAM = _lambda()
-
-
-def exact(x: np.ndarray, t: float) -> tuple[np.ndarray, float]:
-    front = 2.0 * LAM * np.sqrt(A_S * t)
-    frozen = T_WALL + (T_F - T_WALL) * erf(x / (2 * np.sqrt(A_S * t))) / erf(LAM)
-    unfrozen = T_INIT - (T_INIT - T_F) * erfc(x / (2 * np.sqrt(A_L * t))) / erfc(LAM * NU)
-    return np.where(x < front, frozen, unfrozen), front
+#: Neumann's solution with the same conductivity in both phases
+exact = Neumann(K, K, RHO, C_S, C_L, LATENT, T_INIT, T_WALL, T_F).exact
 
 
 CASE = f"""

@@ -14,10 +14,10 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+from fem_reference import solve_boxes
 
 from fvheat.simulate import simulate
 
-from .fem_reference import solve_boxes
 from .helpers import load, probes_toml, report
 
 CASE = """

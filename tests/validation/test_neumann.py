@@ -1,9 +1,9 @@
 """Freezing of a semi-infinite medium: the two-phase Neumann solution.
 
 Source: Carslaw & Jaeger, *Conduction of Heat in Solids*, 2nd ed., §11.2 (Neumann's
-solution); the same result in Incropera & DeWitt's phase-change discussion. The analytic
-problem has an isothermal change at θ_f; the model releases the latent heat over
-θ_f ± 0.05 K (a narrow range approximating it).
+solution, in ``neumann.py``); the same result in Incropera & DeWitt's phase-change
+discussion. The analytic problem has an isothermal change at θ_f; the model releases the
+latent heat over θ_f ± 0.05 K (a narrow range approximating it).
 
 Material values are invented (a wet soil-like medium); the reference is exact for them.
 """
@@ -14,11 +14,11 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-from scipy.optimize import brentq
-from scipy.special import erf, erfc
 
 from fvheat.case.load import parse_case
 from fvheat.simulate import simulate
+
+from .neumann import Neumann
 
 K_S, K_L = 2.2, 1.5  # W/(m·K) frozen / unfrozen
 RHO = 1800.0  # kg/m³
@@ -28,37 +28,8 @@ T_INIT, T_WALL, T_F = 5.0, -10.0, 0.0  # °C
 DURATION = 172_800.0  # s (two days)
 DEPTH = 2.0  # m; the unfrozen diffusion length over two days is about 0.3 m
 
-A_S, A_L = K_S / (RHO * C_S), K_L / (RHO * C_L)
-NU = np.sqrt(A_S / A_L)
-
-
-def _lambda() -> float:
-    """Root of Neumann's transcendental equation (Carslaw & Jaeger §11.2, eq. (7))."""
-
-    def f(lam: float) -> float:
-        return (
-            np.exp(-(lam**2)) / erf(lam)
-            + (K_L / K_S)
-            * NU
-            * (T_F - T_INIT)
-            / (T_F - T_WALL)
-            * np.exp(-(lam**2) * NU**2)
-            / erfc(lam * NU)
-            - lam * LATENT * np.sqrt(np.pi) / (C_S * (T_F - T_WALL))
-        )
-
-    return brentq(f, 1e-6, 5.0)
-
-
-LAM = _lambda()
-
-
-def exact(x: np.ndarray, t: float) -> tuple[np.ndarray, float]:
-    """Temperature (°C) at depth ``x`` (m) and front depth (m) at time ``t`` (s)."""
-    front = 2.0 * LAM * np.sqrt(A_S * t)
-    frozen = T_WALL + (T_F - T_WALL) * erf(x / (2 * np.sqrt(A_S * t))) / erf(LAM)
-    unfrozen = T_INIT - (T_INIT - T_F) * erfc(x / (2 * np.sqrt(A_L * t))) / erfc(LAM * NU)
-    return np.where(x < front, frozen, unfrozen), front
+NEUMANN = Neumann(K_S, K_L, RHO, C_S, C_L, LATENT, T_INIT, T_WALL, T_F)
+exact = NEUMANN.exact
 
 
 def run(

@@ -7,7 +7,9 @@ eq. 4.19: with θ = θ1 on the edge y = H and θ = 0 on the other three edges,
 
 Acceptance form: ISO 10211 validation case 1 compares 28 points of such a field and allows
 at most 0.1 K deviation (from memory). The rectangle (1 m × 2 m), θ1 = 20 °C and the
-lattice of 4 × 7 interior points are chosen here.
+lattice of 4 × 7 interior points are chosen here. The series, the points and the case are
+those of ``fvheat validate`` (fvheat/validation/rectangle.py); the series itself is checked
+here against values known independently of it.
 """
 
 from __future__ import annotations
@@ -17,59 +19,32 @@ import itertools
 import numpy as np
 import pytest
 
-from .helpers import observed_order, probes_toml, report, run
+from fvheat.validation.rectangle import POINTS, THETA1, case_text, fourier
 
-W, H = 1.0, 2.0  # m
-THETA1 = 20.0  # °C on the edge y = H
-# 28 interior points: a regular 4 × 7 lattice
-POINTS = [(i * W / 5, j * H / 8) for j in range(1, 8) for i in range(1, 5)]
-
-
-def fourier(x: np.ndarray, y: np.ndarray, terms: int = 400) -> np.ndarray:
-    """Incropera eq. 4.19 (°C). sinh(a)/sinh(b) is written as e^(a−b)(1 − e^(−2a))/(1 − e^(−2b))
-    so that no term overflows; at the lattice the terms decay at least like e^(−0.78 n)."""
-    n = np.arange(1, terms + 1)[:, None]
-    coeff = ((-1.0) ** (n + 1) + 1.0) / n
-    a = n * np.pi * np.asarray(y)[None, :] / W
-    b = n * np.pi * H / W
-    ratio = np.exp(a - b) * (-np.expm1(-2.0 * a)) / (-np.expm1(-2.0 * b))
-    return THETA1 * 2.0 / np.pi * np.sum(coeff * np.sin(n * np.pi * x[None, :] / W) * ratio, axis=0)
-
-
-def rectangle_case(h: float) -> str:
-    """Uniform square cells of edge h (min_cell = max_cell)."""
-    return f"""
-title = "rectangle, one warm edge"
-[mesh]
-max_cell = {h}
-min_cell = {h}
-
-[materials.solid]
-conductivity = 1.0
-
-[[regions]]
-material = "solid"
-box = [0.0, 0.0, {W}, {H}]
-
-[[boundaries]]
-name = "warm"
-edges = [[[0.0, {H}], [{W}, {H}]]]
-temperature = {THETA1}
-
-[[boundaries]]
-name = "cold"
-edges = [[[0.0, 0.0], [{W}, 0.0]], [[0.0, 0.0], [0.0, {H}]], [[{W}, 0.0], [{W}, {H}]]]
-temperature = 0.0
-""" + probes_toml({f"p{k}": p for k, p in enumerate(POINTS)})
+from .helpers import observed_order, report, run
 
 
 def max_error(tmp_path, h: float, kind: str = "rectilinear") -> float:
-    sol = run(tmp_path, rectangle_case(h), [f"mesh.kind={kind}"])
+    sol = run(tmp_path, case_text(h), [f"mesh.kind={kind}"])
     assert sol.mesh.kind == kind
     pts = np.array(POINTS)
     exact = fourier(pts[:, 0], pts[:, 1])
     got = np.array([sol.probes[f"p{k}"] for k in range(len(POINTS))])
     return float(np.max(np.abs(got - exact)))
+
+
+def test_series_against_known_values():
+    """The reference formula from outside: on a square with one edge at θ1 and three at 0,
+    the centre is at θ1/4 exactly (superposition of the four rotations of the problem gives
+    θ1 everywhere; a textbook exercise, e.g. Incropera & DeWitt ch. 4 problems, from
+    memory); on the edges the series gives the boundary values (θ1 on y = H away from the
+    corners, 0 on x = 0 and x = W)."""
+    centre = fourier(np.array([0.5]), np.array([0.5]), width=1.0, height=1.0, theta1=THETA1)
+    assert centre[0] == pytest.approx(THETA1 / 4, abs=1e-9)
+    edge = fourier(np.array([0.0, 1.0]), np.array([1.0, 1.0]))
+    np.testing.assert_allclose(edge, 0.0, atol=1e-12)
+    warm = fourier(np.array([0.3, 0.5]), np.array([2.0, 2.0]), terms=20000)
+    np.testing.assert_allclose(warm, THETA1, atol=2e-3 * THETA1)
 
 
 def test_series_is_converged():

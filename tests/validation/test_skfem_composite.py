@@ -10,6 +10,8 @@ The junction is invented: a concrete balcony slab with an upstand at its tip (an
 section, λ = 2.3) running through a brick wall (λ = 0.9) with external insulation
 (λ = 0.04); inside surface resistance 0.13, outside 0.04 m²·K/W; 20 °C inside, −10 °C out.
 Tolerances: total heat flow within 0.5 %, a few interior temperatures within 0.05 K.
+The junction is the one of ``fvheat validate`` (fvheat/validation/composite.py), whose
+stored scikit-fem numbers are recomputed here.
 """
 
 from __future__ import annotations
@@ -18,152 +20,51 @@ import itertools
 
 import numpy as np
 import pytest
-import scipy.sparse.linalg as spla
-from skfem import (
-    BilinearForm,
-    CellBasis,
-    ElementTriP0,
-    ElementTriP2,
-    FacetBasis,
-    Functional,
-    LinearForm,
-    MeshTri,
-    asm,
+from fem_reference import Surface, solve_tensor_boxes, uniform
+
+from fvheat.validation import composite
+from fvheat.validation.composite import (
+    CONDUCTIVITY,
+    INSIDE,
+    OUTSIDE,
+    R_IN,
+    R_OUT,
+    REGIONS,
+    T_IN,
+    T_OUT,
+    case_text,
 )
-from skfem.helpers import dot, grad
 
-from .fem_reference import on_segments as _on_segments
-from .helpers import probes_toml, report, run, toml_list
+from .helpers import probes_toml, report, run
 
-CONDUCTIVITY = {"brick": 0.9, "insulation": 0.04, "concrete": 2.3}  # W/(m·K)
-# painted in order, later ones win (x0, y0, x1, y1), m
-REGIONS = [
-    ("brick", (0.0, 0.0, 0.25, 2.6)),
-    ("insulation", (0.25, 0.0, 0.40, 2.6)),
-    ("concrete", (-1.2, 1.2, 1.5, 1.4)),  # slab: floor inside, balcony outside
-    ("concrete", (1.35, 1.4, 1.5, 1.9)),  # upstand at the balcony tip
-]
-INSIDE = [
-    ((0.0, 0.0), (0.0, 1.2)),
-    ((0.0, 1.4), (0.0, 2.6)),
-    ((-1.2, 1.2), (0.0, 1.2)),
-    ((-1.2, 1.4), (0.0, 1.4)),
-]
-OUTSIDE = [
-    ((0.4, 0.0), (0.4, 1.2)),
-    ((0.4, 1.4), (0.4, 2.6)),
-    ((0.4, 1.2), (1.5, 1.2)),
-    ((0.4, 1.4), (1.35, 1.4)),
-    ((1.35, 1.4), (1.35, 1.9)),
-    ((1.35, 1.9), (1.5, 1.9)),
-    ((1.5, 1.2), (1.5, 1.9)),
-]
-T_IN, R_IN, T_OUT, R_OUT = 20.0, 0.13, -10.0, 0.04
 POINTS = {
-    "slab_in_wall": (0.12, 1.3),
+    "slab_in_wall": composite.POINT,
     "brick_above": (0.12, 2.0),
     "insulation": (0.33, 0.6),
     "floor": (-0.6, 1.3),
 }
 
 
-# --- scikit-fem reference ---------------------------------------------------------------------
-
-
-def _lines(keys: list[float], h: float) -> np.ndarray:
-    """Uniform spacing ≤ h between consecutive key coordinates."""
-    out = [keys[0]]
-    for a, b in itertools.pairwise(keys):
-        n = int(np.ceil((b - a) / h - 1e-9))
-        out.extend(np.linspace(a, b, n + 1)[1:])
-    return np.array(out)
-
-
 def skfem_solution(h: float) -> tuple[float, float, dict[str, float]]:
     """Heat flows into the body through the inside and outside surfaces (W/m) and the
-    temperatures at POINTS, from P2 elements on a tensor mesh of spacing ≤ h."""
-    xs = sorted({v for _, b in REGIONS for v in (b[0], b[2])})
-    ys = sorted({v for _, b in REGIONS for v in (b[1], b[3])})
-    mesh = MeshTri.init_tensor(_lines(xs, h), _lines(ys, h))
-    centroid = mesh.p[:, mesh.t].mean(axis=1)
-    lam = np.full(mesh.t.shape[1], np.nan)
-    for material, (x0, y0, x1, y1) in REGIONS:
-        inside = (centroid[0] > x0) & (centroid[0] < x1) & (centroid[1] > y0) & (centroid[1] < y1)
-        lam[inside] = CONDUCTIVITY[material]
-    mesh = mesh.remove_elements(np.flatnonzero(np.isnan(lam)))
-    lam = lam[~np.isnan(lam)]
-    element = ElementTriP2()
-    basis = CellBasis(mesh, element)
-    lam_field = basis.with_element(ElementTriP0()).interpolate(lam)
-
-    facets = mesh.boundary_facets()
-    mid = mesh.p[:, mesh.facets[:, facets]].mean(axis=1)
-    f_in = facets[_on_segments(mid, INSIDE)]
-    f_out = facets[_on_segments(mid, OUTSIDE)]
-    assert f_in.size and f_out.size and not np.intersect1d(f_in, f_out).size
-
-    @BilinearForm
-    def conduction(u, v, w):
-        return w.lam * dot(grad(u), grad(v))
-
-    @BilinearForm
-    def mass(u, v, w):
-        return u * v
-
-    @LinearForm
-    def unit(v, w):
-        return v
-
-    @Functional
-    def heat_in(w):
-        return (w.air - w.u) / w.r
-
-    a = asm(conduction, basis, lam=lam_field)
-    b = np.zeros(basis.N)
-    sides = []
-    for fac, air, r in ((f_in, T_IN, R_IN), (f_out, T_OUT, R_OUT)):
-        fb = FacetBasis(mesh, element, facets=fac)
-        a = a + asm(mass, fb) / r
-        b = b + asm(unit, fb) * air / r
-        sides.append((fb, air, r))
-    u = spla.spsolve(a.tocsc(), b)
-    q_in, q_out = (heat_in.assemble(fb, u=fb.interpolate(u), air=air, r=r) for fb, air, r in sides)
-    pts = np.array(list(POINTS.values())).T
-    temps = basis.probes(pts) @ u
-    return float(q_in), float(q_out), dict(zip(POINTS, map(float, temps), strict=True))
-
-
-# --- fvheat ------------------------------------------------------------------------------------
-
-
-def _segments(segs) -> str:
-    return "[" + ", ".join(f"[{toml_list(a)}, {toml_list(b)}]" for a, b in segs) + "]"
+    temperatures at POINTS, from P2 elements on a tensor mesh of spacing ≤ h through every
+    box edge (``tests/fem_reference.py``)."""
+    boxes = [(CONDUCTIVITY[m], b) for m, b in REGIONS]
+    xs = uniform([v for _, b in boxes for v in (b[0], b[2])], h)
+    ys = uniform([v for _, b in boxes for v in (b[1], b[3])], h)
+    surfaces = [Surface("inside", INSIDE, T_IN, R_IN), Surface("outside", OUTSIDE, T_OUT, R_OUT)]
+    fem = solve_tensor_boxes(xs, ys, boxes, surfaces)
+    temps = fem.at(np.array(list(POINTS.values())).T)
+    return (
+        fem.heat_flow("inside"),
+        fem.heat_flow("outside"),
+        dict(zip(POINTS, map(float, temps), strict=True)),
+    )
 
 
 def fvheat_case() -> str:
-    mats = "".join(f"\n[materials.{n}]\nconductivity = {k}\n" for n, k in CONDUCTIVITY.items())
-    regions = "".join(
-        f'\n[[regions]]\nmaterial = "{n}"\nbox = {toml_list(b)}\n' for n, b in REGIONS
-    )
-    return f"""
-title = "balcony slab through an insulated wall"
-[mesh]
-max_cell = 0.04
-min_cell = 0.004
-{mats}
-{regions}
-[[boundaries]]
-name = "inside"
-edges = {_segments(INSIDE)}
-air_temperature = {T_IN}
-resistance = {R_IN}
-
-[[boundaries]]
-name = "outside"
-edges = {_segments(OUTSIDE)}
-air_temperature = {T_OUT}
-resistance = {R_OUT}
-""" + probes_toml(POINTS)
+    """The junction of ``fvheat validate``, with probes at the other POINTS too."""
+    return case_text() + probes_toml({k: p for k, p in POINTS.items() if k != "slab_in_wall"})
 
 
 def fvheat_run(tmp_path, refine: int):
@@ -218,3 +119,11 @@ def test_fvheat_heat_flow_converges(tmp_path):
     report("fvheat composite refinement", heat_flow_W_per_m=flows, changes_W_per_m=changes)
     assert all(c2 < c1 for c1, c2 in itertools.pairwise(changes))
     assert changes[-1] / flows[-1] < 1e-3
+
+
+def test_stored_references_are_recomputed():
+    """The numbers ``fvheat validate`` stores for this junction are what scikit-fem gives
+    (P2, 10 mm mesh) to the 5 or more digits stored."""
+    q_in, _, temps = skfem_solution(0.01)
+    assert composite.HEAT_FLOW_REF == pytest.approx(q_in, rel=1e-6)
+    assert composite.THETA_REF == pytest.approx(temps["slab_in_wall"], abs=1e-5)

@@ -12,6 +12,8 @@
         ζ_n tan ζ_n = Bi = hL/k,  Fo = αt/L²,  x* = distance from the mid-plane / L.
 
 Materials, sizes and temperatures are invented. Every case is a 1-D strip one cell high.
+Case (a) and its formula are those of ``fvheat validate`` (fvheat/validation/semi_infinite.py),
+the formula checked here against tabulated values.
 """
 
 from __future__ import annotations
@@ -22,61 +24,43 @@ import numpy as np
 import pytest
 from scipy.linalg import expm
 from scipy.optimize import brentq
-from scipy.special import erfc, erfcx
 
-from .helpers import observed_order, probes_toml, report, run
+from fvheat.validation import semi_infinite as semi
 
-# --- (a) semi-infinite solid ----------------------------------------------------------------
+from .helpers import observed_order, report, run
 
-K_A, RHO_A, C_A = 1.4, 2100.0, 900.0  # W/(m·K), kg/m³, J/(kg·K)
-ALPHA_A = K_A / (RHO_A * C_A)  # m²/s
-H_A = 10.0  # W/(m²·K)
-TI_A, TINF_A = 0.0, 20.0  # °C
-DEPTH_A = 1.0  # m of solid modelled
+# --- (a) semi-infinite solid: the case and formula of ``fvheat validate`` ------------------
+
+K_A, H_A = semi.K, semi.H_SURF  # W/(m·K), W/(m²·K)
+ALPHA_A = semi.ALPHA  # m²/s
+TI_A, TINF_A = semi.T_INIT, semi.T_AIR  # °C
+DEPTH_A = semi.DEPTH  # m of solid modelled
 DEPTHS = [0.01, 0.03, 0.06, 0.10]  # m, probe depths
-TIMES_A = [3600.0, 3 * 3600.0, 6 * 3600.0]  # s
-
-
-def semi_infinite(x: np.ndarray | float, t: float) -> np.ndarray:
-    """Incropera eq. 5.60 (°C). exp(A)·erfc(B) is evaluated as exp(A − B²)·erfcx(B)."""
-    x = np.asarray(x, dtype=float)
-    root = np.sqrt(ALPHA_A * t)
-    xi = x / (2.0 * root)
-    beta = H_A * root / K_A
-    b = xi + beta
-    a = H_A * x / K_A + beta**2
-    return TI_A + (TINF_A - TI_A) * (erfc(xi) - np.exp(a - b**2) * erfcx(b))
+TIMES_A = [3600.0, 3 * 3600.0, semi.DURATION]  # s
+semi_infinite = semi.exact  # Incropera eq. 5.60, °C
 
 
 def semi_infinite_case(max_cell: float, min_cell: float, step: float) -> str:
-    return f"""
-title = "semi-infinite solid, convective surface"
-[mesh]
-max_cell = {max_cell}
-min_cell = {min_cell}
-growth = 1.1
+    probes = {f"d{i}": d for i, d in enumerate(DEPTHS)}
+    return semi.case_text(max_cell, min_cell, step, save_every=3600.0, probes=probes)
 
-[materials.solid]
-conductivity = {K_A}
-density = {RHO_A}
-specific_heat = {C_A}
 
-[[regions]]
-material = "solid"
-box = [0.0, 0.0, {DEPTH_A}, {min_cell}]
+def test_semi_infinite_formula_against_tables():
+    """The reference formula from outside, with erf values of a printed table (Incropera &
+    DeWitt App. B.2; Abramowitz & Stegun table 7.1; from memory: erf 0.5 = 0.52050,
+    erf 1.0 = 0.84270).
 
-[[boundaries]]
-name = "surface"
-edges = [[[0.0, 0.0], [0.0, {min_cell}]]]
-air_temperature = {TINF_A}
-resistance = {1.0 / H_A}
-
-[time]
-duration = {TIMES_A[-1]}
-step = {step}
-initial_temperature = {TI_A}
-save_every = 3600
-""" + probes_toml({f"d{i}": (d, 0.5 * min_cell) for i, d in enumerate(DEPTHS)})
+    - h → ∞ (surface held at θ∞): (θ − θi)/(θ∞ − θi) = erfc(ξ); at ξ = 0.5: 1 − 0.52050.
+    - The surface (x = 0) with h√(αt)/k = 1: 1 − e¹·erfc(1) = 1 − 2.718282·(1 − 0.84270)
+      = 0.572414.
+    """
+    t = 3600.0
+    x_half = 2.0 * np.sqrt(ALPHA_A * t) * 0.5  # ξ = 0.5
+    held = semi.exact(x_half, t, h=1e12)
+    assert (held - TI_A) / (TINF_A - TI_A) == pytest.approx(1.0 - 0.52050, abs=2e-5)
+    h_one = K_A / np.sqrt(ALPHA_A * t)  # h√(αt)/k = 1
+    surface = semi.exact(0.0, t, h=h_one)
+    assert (surface - TI_A) / (TINF_A - TI_A) == pytest.approx(0.572414, abs=2e-5)
 
 
 def semi_infinite_errors(

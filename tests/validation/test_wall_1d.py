@@ -6,7 +6,8 @@ standard for horizontal heat flow (from memory). Interface temperatures follow f
 same series resistances (the temperature drop across each layer is in the ratio of its
 resistance to the total): a hand calculation.
 
-The wall, its layers and the temperatures are invented.
+The wall, its layers and the temperatures are invented; they and the formulas are those of
+``fvheat validate`` (fvheat/validation/wall.py), checked here against published values.
 """
 
 from __future__ import annotations
@@ -14,58 +15,46 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from .helpers import probes_toml, report, run, toml_list
+from fvheat.validation import wall
+from fvheat.validation.wall import HEIGHT, LAYERS, RSE, RSI, T_IN, T_OUT
 
-RSI, RSE = 0.13, 0.04  # m²·K/W, ISO 6946 conventional values (from memory)
-T_IN, T_OUT = 20.0, -5.0  # °C
-HEIGHT = 1.0  # m of wall modelled (heat flows are W/m of junction length)
+from .helpers import probes_toml, report, run
 
-# name, thickness d (m), conductivity λ (W/(m·K)); invented values
-LAYERS = [
-    ("plaster", 0.015, 0.70),
-    ("brick", 0.24, 0.60),
-    ("mineral_wool", 0.12, 0.035),
-    ("render", 0.01, 0.87),
-]
 X = np.concatenate([[0.0], np.cumsum([d for _, d, _ in LAYERS])])  # layer interfaces, m
-
-
-def wall_case(max_cell: float = 0.01, min_cell: float = 0.0005, probes: str = "") -> str:
-    mats = "".join(f"\n[materials.{n}]\nconductivity = {lam}\n" for n, _, lam in LAYERS)
-    regions = "".join(
-        f'\n[[regions]]\nmaterial = "{n}"\nbox = {toml_list([X[i], 0.0, X[i + 1], HEIGHT])}\n'
-        for i, (n, _, _) in enumerate(LAYERS)
-    )
-    return f"""
-title = "four-layer wall"
-[mesh]
-max_cell = {max_cell}
-min_cell = {min_cell}
-{mats}
-{regions}
-[[boundaries]]
-name = "inside"
-edges = [[[0.0, 0.0], [0.0, {HEIGHT}]]]
-air_temperature = {T_IN}
-resistance = {RSI}
-
-[[boundaries]]
-name = "outside"
-edges = [[{toml_list([X[-1], 0.0])}, {toml_list([X[-1], HEIGHT])}]]
-air_temperature = {T_OUT}
-resistance = {RSE}
-{probes}
-"""
 
 
 def hand_calculation() -> tuple[float, np.ndarray]:
     """ISO 6946 U-value (W/(m²·K)) and the temperatures (°C) at the inside surface, every
-    layer interface and the outside surface, from the resistance ratios."""
-    r_layers = np.array([d / lam for _, d, lam in LAYERS])
-    u = 1.0 / (RSI + r_layers.sum() + RSE)
-    q = u * (T_IN - T_OUT)  # W/m²
-    r_cum = RSI + np.concatenate([[0.0], np.cumsum(r_layers)])
-    return u, T_IN - q * r_cum
+    layer interface and the outside surface, from the resistance ratios (the formulas
+    ``fvheat validate`` uses, with their source, in fvheat/validation/wall.py)."""
+    return wall.u_value(), wall.temperatures()
+
+
+def wall_case(probes: str = "") -> str:
+    """The wall of ``fvheat validate`` (cells 0.5 mm at the interfaces, at most 10 mm)."""
+    return wall.case_text() + probes
+
+
+def test_iso6946_formulas_against_published_values():
+    """The reference formulas themselves, from outside the project.
+
+    - ISO 6946's conventional surface resistances for horizontal heat flow, R_si = 0.13 and
+      R_se = 0.04 m²·K/W (from memory), are the ones used.
+    - A single pane of 4 mm glass (λ = 1.0 W/(m·K), common practice): single glazing is
+      tabulated at U = 5.8 W/(m²·K) (EN 673, with its own surface coefficients; from
+      memory); ISO 6946's resistances give 1/(0.13 + 0.004 + 0.04) = 5.747, within 1 %.
+    - The four-layer wall by hand, each term written out: R = 0.13 + 0.015/0.70 + 0.24/0.60
+      + 0.12/0.035 + 0.01/0.87 + 0.04 = 0.13 + 0.021429 + 0.4 + 3.428571 + 0.011494 + 0.04
+      = 4.031494 m²·K/W, U = 0.248047 W/(m²·K); θ_si = 20 − 25·0.248047·0.13 = 19.19385 °C.
+    """
+    assert (RSI, RSE) == (0.13, 0.04)
+    assert wall.u_value((("glass", 0.004, 1.0),)) == pytest.approx(5.8, rel=0.01)
+    assert wall.u_value((("glass", 0.004, 1.0),)) == pytest.approx(5.747, abs=5e-4)
+    assert wall.u_value() == pytest.approx(1.0 / 4.031494, rel=1e-6)
+    theta = wall.temperatures()
+    assert theta[0] == pytest.approx(19.19385, abs=1e-5)
+    # the outside surface: θ_se = θ_e + q·R_se = −5 + 25·0.248047·0.04
+    assert theta[-1] == pytest.approx(-4.75195, abs=1e-5)
 
 
 @pytest.mark.parametrize("kind", ["rectilinear", "triangles"])
@@ -126,7 +115,7 @@ def test_interface_temperatures_by_probes(tmp_path, kind):
     exact (1e-9 K)."""
     interfaces = {f"interface{i}": (X[i], 0.5 * HEIGHT) for i in range(1, len(LAYERS))}
     middles = {f"middle{i}": (0.5 * (X[i] + X[i + 1]), 0.5 * HEIGHT) for i in range(len(LAYERS))}
-    sol = run(tmp_path, wall_case(probes=probes_toml(interfaces | middles)), [f"mesh.kind={kind}"])
+    sol = run(tmp_path, wall_case(probes_toml(interfaces | middles)), [f"mesh.kind={kind}"])
     u, theta = hand_calculation()
     q = u * (T_IN - T_OUT)
     err_if = [abs(sol.probes[f"interface{i}"] - theta[i]) for i in range(1, len(LAYERS))]
