@@ -256,23 +256,23 @@ def read_meta(out: str | Path) -> dict[str, Any]:
 
 def read_field(out: str | Path, index: int = -1, meta: dict[str, Any] | None = None) -> FieldView:
     """Read saved field number ``index`` (default: the last, i.e. the end time) of a folder."""
-    import meshio
+    from fvheat.output.vtu import read_vtu
 
     meta = meta if meta is not None else read_meta(out)
     entry = meta["files"][index]
-    mesh = meshio.read(Path(out) / FIELDS_DIR / entry["file"])
+    mesh = read_vtu(Path(out) / FIELDS_DIR / entry["file"])
     return from_meshio(mesh, meta, float(entry["time_s"]))
 
 
 def read_surface_field(out: str | Path, meta: dict[str, Any] | None = None) -> FieldView | None:
     """The junction's surface-temperature field of a folder, None when it has none."""
-    import meshio
+    from fvheat.output.vtu import read_vtu
 
     meta = meta if meta is not None else read_meta(out)
     name = meta.get("surface_solve")
     if not name:
         return None
-    return from_meshio(meshio.read(Path(out) / FIELDS_DIR / name), meta)
+    return from_meshio(read_vtu(Path(out) / FIELDS_DIR / name), meta)
 
 
 def write_cells_csv(path: str | Path, view: FieldView) -> Path:

@@ -58,6 +58,18 @@ def test_resampled_maps_from_memory_equal_those_from_the_vtu(tmp_path, monkeypat
     _same_pictures(_pngs(out), _redrawn_from_files(out))
 
 
+def test_figures_from_uncompressed_field_files(tmp_path, monkeypatch):
+    """Large fields are written uncompressed with raw appended arrays (fvheat.output.vtu):
+    forced here on the transient demo, whose redrawn figures must match too."""
+    from fvheat.output import fields
+
+    monkeypatch.setattr(fields, "COMPRESS_CELLS", 0)
+    out = tmp_path / "results"
+    assert run_demo("wall_daily_cycle", out) == 0
+    assert b'encoding="raw"' in next((out / "fields").glob("field_*.vtu")).read_bytes()[:4000]
+    _same_pictures(_pngs(out), _redrawn_from_files(out))
+
+
 def test_resampled_map_shows_the_cell_values(tmp_path, monkeypatch):
     """Each pixel of the resampled temperature map has the colour of the cell under it:
     checked against the cell-by-cell map of the same field (most pixels agree; cell edges
