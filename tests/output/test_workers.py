@@ -8,6 +8,7 @@ from __future__ import annotations
 import json
 import multiprocessing
 import os
+import threading
 import time
 from pathlib import Path
 
@@ -94,18 +95,19 @@ def test_no_workers_without_a_request():
 
 
 class _Awkward(Exception):
-    """An error that pickles but cannot be rebuilt from its pickle."""
+    """An error holding something that does not pickle (a lock)."""
 
-    def __init__(self, a: int, b: int) -> None:
-        super().__init__(f"{a}/{b}")
+    def __init__(self, text: str) -> None:
+        super().__init__(text)
+        self.lock = threading.Lock()
 
 
 def _fails_awkwardly() -> None:
-    raise _Awkward(1, 2)
+    raise _Awkward("held a lock")
 
 
-def test_an_error_that_does_not_unpickle_arrives_as_its_traceback():
+def test_an_error_that_does_not_pickle_arrives_as_its_traceback():
     with FigureWorkers(1) as workers:
         workers.submit(_fails_awkwardly, [()])
-        with pytest.raises(RuntimeError, match="_Awkward: 1/2"):
+        with pytest.raises(RuntimeError, match="_Awkward: held a lock"):
             workers.results()
