@@ -119,12 +119,18 @@ def triangle_gradients(v: np.ndarray, t: np.ndarray, values: np.ndarray) -> np.n
 
 
 def triangle_flux(solution: Solution, temperature: np.ndarray) -> np.ndarray:
-    """Heat-flux vectors (t, 2) W/m² of every triangle: q = −k∇T."""
-    mesh = solution.mesh
-    k = solution.system.k_material
+    """Heat-flux vectors (t, 2) W/m² of every triangle: q = −k∇T, k the conductivity the
+    solution's system gives the triangle (with phase-dependent conductivity: at the
+    system's phase state, as the grid's flux takes the system's conductances)."""
+    mesh, system = solution.mesh, solution.system
+    k = system.k_material
     assert mesh.triangles is not None and mesh.triangle_material is not None and k is not None
     grad = triangle_gradients(mesh.centres, mesh.triangles, temperature)
-    return -k[mesh.triangle_material][:, None] * grad
+    if system.phase_material is not None and system.phase_material.any():
+        k_tri = system.triangle_conductivity(system.k)[::3]  # face 3i + e: triangle i
+    else:
+        k_tri = k[mesh.triangle_material]
+    return -k_tri[:, None] * grad
 
 
 def node_flux(solution: Solution, temperature: np.ndarray) -> np.ndarray:

@@ -184,7 +184,7 @@ def _temperature_caption(
     s: dict[str, Any], when: str, marked, view: AnyFieldView, *, separate: bool
 ) -> str:
     text = (
-        f"Temperature field (°C), {when}{_mesh_words(view)}, with isotherms, material "
+        f"Temperature field (°C){_mesh_words(view)}, {when}, with isotherms, material "
         "outlines and the boundaries coloured and named."
     )
     if separate:
@@ -262,7 +262,8 @@ def _transient(
                 fig,
                 folder,
                 "snapshots",
-                f"Temperature field (°C) at {when}, on one colour scale." + notes,
+                f"Temperature field (°C){_mesh_words(views[0])} at {when}, on one colour scale."
+                + notes,
                 vector=False,
             )
         )
