@@ -211,15 +211,16 @@ def write_fields(
     picked = list(range(len(times))) if which == "all" else [len(times) - 1]
     meta: dict[str, Any] = {}
     write: Callable[[Path, Any, bool], Path]
-    if solution.mesh.triangles is not None:
+    last = fields.field(-1)
+    if not isinstance(last, FieldView):  # the triangle mesh
         from fvheat.output import triangle_fields
 
-        write, cells = triangle_fields.vtu_writer(fields.field(-1))
+        write, cells = triangle_fields.vtu_writer(last)
         meta["format"] = triangle_fields.FORMAT
     else:
         g = solution.mesh.grid
         assert g is not None
-        topology = vtu_topology(fields.field(-1))
+        topology = vtu_topology(last)
 
         def write(path: Path, view: Any, compress: bool) -> Path:
             return write_vtu(path, view, compress=compress, topology=topology)

@@ -15,6 +15,7 @@ from fvheat.output.plots import layers, raster, style
 from fvheat.output.triangle_view import AnyFieldView, TriangleFieldView
 
 if TYPE_CHECKING:
+    from matplotlib.artist import Artist
     from matplotlib.axes import Axes
     from matplotlib.colorbar import Colorbar
     from matplotlib.figure import Figure
@@ -51,6 +52,7 @@ def heat_flux_figure(
         mag = np.hypot(view.flux[:, 0], view.flux[:, 1])
         lo, hi = frange if frange is not None else _range(mag)
         norm = LogNorm(lo, hi, clip=True)
+        quad: Artist
         if isinstance(view, TriangleFieldView):  # q is constant in each triangle
             from fvheat.output.plots.triangles import draw_triangle_values
 

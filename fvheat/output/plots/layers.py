@@ -209,11 +209,10 @@ def draw_outlines(ax: Axes, view: AnyGeometryView, *, colour: str = style.OUTLIN
     from matplotlib.collections import LineCollection
 
     if isinstance(view, TriangleGeometryView):  # edges between materials, found once
-        ax.add_collection(
-            LineCollection(view.shape.interfaces, colors=colour, linewidths=0.35, alpha=0.8)
-        )
-        outer = merge_segments(view.face_ends)
-        ax.add_collection(LineCollection(outer, colors=colour, linewidths=0.7))
+        inner_t = list(view.shape.interfaces)
+        ax.add_collection(LineCollection(inner_t, colors=colour, linewidths=0.35, alpha=0.8))
+        outer_t = list(merge_segments(view.face_ends))
+        ax.add_collection(LineCollection(outer_t, colors=colour, linewidths=0.7))
         return
 
     mat = view.grid_values(view.material).filled(-1)
