@@ -2,7 +2,8 @@
 
 The triangle mesh's counterpart of :mod:`fvheat.output.view`. :class:`TriangleShape` holds
 the triangles and what drawing derives from them (the matplotlib triangulation, point
-location, the edges between materials), computed once and shared by every view of a run.
+location (:mod:`fvheat.output.triangle_locator`), the edges between materials), computed
+once and shared by every view of a run.
 :class:`TriangleGeometryView` adds the exterior edges with their boundaries;
 :class:`TriangleFieldView` one solved field: temperatures at the nodes (the box method's
 unknowns; the field is linear in each triangle), q = −k∇T per triangle, and per exterior
@@ -13,6 +14,7 @@ from a solution in memory (:class:`TriangleViews`) or read back from the VTU
 
 from __future__ import annotations
 
+import threading
 from dataclasses import dataclass
 from functools import cached_property
 from typing import TYPE_CHECKING
@@ -20,12 +22,17 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from fvheat.mesh.mesh import Mesh
+from fvheat.output.triangle_locator import TriangleLocator
 from fvheat.output.view import FieldView, GeometryView
 
 if TYPE_CHECKING:
-    from matplotlib.tri import Triangulation, TriFinder
+    from matplotlib.tri import Triangulation
 
     from fvheat.simulate import Solution
+
+
+#: point sets whose location is kept per shape
+RECENT = 2
 
 
 class TriangleShape:
@@ -36,6 +43,8 @@ class TriangleShape:
         self.points = np.asarray(points, float)
         self.triangles = np.asarray(triangles, np.int64)
         self.triangle_material = np.asarray(material, np.int32)
+        self._recent: dict[tuple, tuple[np.ndarray, np.ndarray]] = {}
+        self._lock = threading.Lock()
 
     @cached_property
     def triangulation(self) -> Triangulation:
@@ -45,9 +54,9 @@ class TriangleShape:
         return Triangulation(self.points[:, 0], self.points[:, 1], self.triangles)
 
     @cached_property
-    def finder(self) -> TriFinder:
-        """matplotlib's point locator on the triangulation (built once)."""
-        return self.triangulation.get_trifinder()
+    def locator(self) -> TriangleLocator:
+        """The point locator of the triangles (built once)."""
+        return TriangleLocator(self.points, self.triangles)
 
     @cached_property
     def interfaces(self) -> np.ndarray:
@@ -64,9 +73,24 @@ class TriangleShape:
         ends = np.column_stack([k // n, k % n])
         return self.points[ends]
 
+    def _located(self, x: np.ndarray, y: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """Triangle and barycentric coordinates of each point; the last few point sets are
+        kept (the maps of one run share their pixel and sample lattices)."""
+        x, y = np.asarray(x, float), np.asarray(y, float)
+        key = (x.shape, y.shape, hash(x.tobytes()), hash(y.tobytes()))
+        with self._lock:
+            if key in self._recent:
+                return self._recent[key]
+        found = self.locator.locate(x, y)
+        with self._lock:
+            self._recent[key] = found
+            while len(self._recent) > RECENT:
+                self._recent.pop(next(iter(self._recent)))
+        return found
+
     def locate(self, x: np.ndarray, y: np.ndarray) -> np.ndarray:
         """Index of the triangle holding each point (m), −1 outside the body."""
-        return np.asarray(self.finder(np.asarray(x, float), np.asarray(y, float)))
+        return self._located(x, y)[0]
 
     def inside(self, x: np.ndarray, y: np.ndarray) -> np.ndarray:
         """True where the point (``x``, ``y``) m lies in a triangle of the body."""
@@ -75,10 +99,9 @@ class TriangleShape:
     def interpolate(self, values: np.ndarray, x: np.ndarray, y: np.ndarray) -> np.ma.MaskedArray:
         """Node ``values`` (n,) interpolated linearly within the triangles at points (m);
         masked outside the body."""
-        from matplotlib.tri import LinearTriInterpolator
-
-        f = LinearTriInterpolator(self.triangulation, np.asarray(values, float), self.finder)
-        return np.ma.masked_invalid(f(np.asarray(x, float), np.asarray(y, float)))
+        tri, bary = self._located(x, y)
+        corners = np.asarray(values, float)[self.triangles[np.maximum(tri, 0)]]
+        return np.ma.masked_array(np.sum(bary * corners, axis=-1), mask=tri < 0)
 
     def sample_triangles(
         self, values: np.ndarray, x: np.ndarray, y: np.ndarray

@@ -235,3 +235,20 @@ def test_triangle_vtu_follows_the_grids_compression_rule(tmp_path, monkeypatch):
     a = meshio.read(tmp_path / "small" / "fields" / "field.vtu")
     b = meshio.read(tmp_path / "large" / "fields" / "field.vtu")
     np.testing.assert_array_equal(a.point_data["temperature"], b.point_data["temperature"])
+
+
+def test_locator_agrees_with_matplotlibs_trifinder(wall):
+    """Point location for the maps: the same triangle as matplotlib's trapezoid-map
+    finder (an independent implementation) for random points in and around the body,
+    and barycentric weights that reproduce the points."""
+    view = ResultsFolder.open(wall[0]).field()
+    rng = np.random.default_rng(7)
+    x, y = rng.uniform(-0.05, 0.25, 20_000), rng.uniform(-0.05, 0.55, 20_000)
+    tri, bary = view.shape.locator.locate(x, y)
+    reference = view.shape.triangulation.get_trifinder()(x, y)
+    assert np.mean(tri == reference) > 0.9999  # points on shared edges may go either way
+    assert np.array_equal(tri >= 0, reference >= 0)
+    inside = tri >= 0
+    corners = view.shape.points[view.shape.triangles[tri[inside]]]
+    back = np.einsum("pk,pkd->pd", bary[inside], corners)
+    np.testing.assert_allclose(back, np.column_stack([x, y])[inside], atol=1e-12)

@@ -96,15 +96,20 @@ def triangle_mesh_figure(
         norm = BoundaryNorm(np.arange(len(colours) + 1) - 0.5, len(colours))
         edges = shape.points[shape.triangles[:, [0, 1]]] - shape.points[shape.triangles[:, [1, 2]]]
         sizes = np.hypot(edges[..., 0], edges[..., 1]).ravel()
-        ax.tripcolor(
-            shape.triangulation,
-            facecolors=shape.triangle_material.astype(float),
-            cmap=ListedColormap(colours),
-            norm=norm,
-            edgecolors="#3c3c3c",
-            linewidth=_edge_width(fig, sizes, window),
-            rasterized=view.n_triangles > raster.RASTER_CELLS,
-        )
+        cmap = ListedColormap(colours)
+        material = shape.triangle_material.astype(float)
+        fine = view.n_triangles > raster.RASTER_CELLS
+        if fine:  # an image of the materials; edges too fine to show at this scale
+            draw_triangle_values(ax, view, material, window=window, cmap=cmap, norm=norm)
+        else:
+            ax.tripcolor(
+                shape.triangulation,
+                facecolors=material,
+                cmap=cmap,
+                norm=norm,
+                edgecolors="#3c3c3c",
+                linewidth=_edge_width(fig, sizes, window),
+            )
         layers.draw_outlines(ax, view)
         handles = layers.draw_boundaries(ax, view)
         layers.set_window(ax, window)
@@ -118,7 +123,8 @@ def triangle_mesh_figure(
             ax,
             title,
             f"mesh: {view.n_cells} nodes (control volumes) on {view.n_triangles} triangles, "
-            f"edges {1000 * sizes.min():.3g}–{1000 * sizes.max():.3g} mm",
+            f"edges {1000 * sizes.min():.3g}–{1000 * sizes.max():.3g} mm"
+            + ("; too fine to draw every edge" if fine else ""),
         )
         fig.legend(
             handles=mats + handles,
