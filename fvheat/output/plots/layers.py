@@ -209,7 +209,7 @@ def draw_outlines(ax: Axes, view: AnyGeometryView, *, colour: str = style.OUTLIN
     from matplotlib.collections import LineCollection
 
     if isinstance(view, TriangleGeometryView):  # edges between materials, found once
-        inner_t = list(view.shape.interfaces)
+        inner_t = list(merge_segments(view.shape.interfaces))
         ax.add_collection(LineCollection(inner_t, colors=colour, linewidths=0.35, alpha=0.8))
         outer_t = list(merge_segments(view.face_ends))
         ax.add_collection(LineCollection(outer_t, colors=colour, linewidths=0.7))
