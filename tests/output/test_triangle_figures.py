@@ -252,3 +252,44 @@ def test_locator_agrees_with_matplotlibs_trifinder(wall):
     corners = view.shape.points[view.shape.triangles[tri[inside]]]
     back = np.einsum("pk,pkd->pd", bary[inside], corners)
     np.testing.assert_allclose(back, np.column_stack([x, y])[inside], atol=1e-12)
+
+
+FROZEN_WALL = """
+title = "frozen soil layer"
+[mesh]
+max_cell = 0.02
+kind = "triangles"
+[materials.soil]
+conductivity = 1.5
+density = 1800
+specific_heat = 1400
+latent_heat = 100000
+phase_change = [-0.5, 0.0]
+frozen = { conductivity = 2.2, specific_heat = 900 }
+[[regions]]
+material = "soil"
+box = [0.0, 0.0, 0.2, 0.3]
+[[boundaries]]
+name = "warm"
+edges = [[[0.2, 0.0], [0.2, 0.3]]]
+air_temperature = -5.0
+resistance = 0.13
+[[boundaries]]
+name = "cold"
+edges = [[[0.0, 0.0], [0.0, 0.3]]]
+air_temperature = -15.0
+resistance = 0.04
+"""
+
+
+def test_triangle_flux_takes_the_frozen_conductivity(tmp_path):
+    """A wholly frozen layer (every node below the phase range): q = Δθ/ΣR with the frozen
+    conductivity (ISO 6946 series resistances), on the maps and in the VTU, as in the
+    solver's heat flow (the material's unfrozen value would give 32 % less)."""
+    path = write_case(tmp_path, FROZEN_WALL)
+    _, summary = run_to_folder(path, tmp_path / "out", plots=False)
+    q = 10.0 / (0.13 + 0.2 / 2.2 + 0.04)
+    assert summary["boundaries"]["warm"]["heat_flow"] == pytest.approx(q * 0.3, rel=1e-6)
+    view = ResultsFolder.open(tmp_path / "out").field()
+    assert float(view.temperature.max()) < -0.5
+    np.testing.assert_allclose(view.flux[:, 0], -q, rtol=1e-6)
