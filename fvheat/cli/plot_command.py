@@ -1,4 +1,5 @@
-"""``fvheat plot DIR``: redraw the figures of a results folder (colour range, zoom window)."""
+"""``fvheat plot DIR``: redraw the figures of a results folder (colour range, zoom window),
+from its field files, on either mesh (grid VTU or triangle VTU)."""
 
 from __future__ import annotations
 

@@ -10,7 +10,9 @@ Layout in the results folder::
     fields/fields.json                    grid lines, material and boundary names, file list
     cells.csv                             cell centres, material, temperature, heat flux
 
-Each VTU holds the body's cells as quads (in the solver's cell order) followed by the
+(The same layout on the triangle mesh, whose VTU is described in
+:mod:`fvheat.output.triangle_fields`; its ``fields.json`` has no grid lines.) On the grid
+each VTU holds the body's cells as quads (in the solver's cell order) followed by the
 exterior faces as line cells. Cell data (SI units, temperatures in °C):
 
 - ``temperature``: cell temperature on quads, surface (face) temperature on lines;
@@ -25,7 +27,7 @@ from __future__ import annotations
 import csv
 import io
 import json
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 from xml.sax.saxutils import quoteattr
@@ -156,6 +158,12 @@ COMPRESS_CELLS = 250_000
 COMPRESS_BUDGET = 2_500_000
 
 
+def compress_fields(cells_per_file: int, files: int) -> bool:
+    """Whether a run's ``files`` VTU files of ``cells_per_file`` cells each (grid cells, or
+    triangles) are zlib-compressed: see :data:`COMPRESS_CELLS` and :data:`COMPRESS_BUDGET`."""
+    return cells_per_file <= COMPRESS_CELLS and cells_per_file * files <= COMPRESS_BUDGET
+
+
 def write_vtu(
     path: str | Path, view: FieldView, *, compress: bool = True, topology: Topology | None = None
 ) -> Path:
@@ -212,21 +220,35 @@ def write_fields(
 
     fields = fields if fields is not None else SolvedFields(solution, surface)
     folder = Path(out) / FIELDS_DIR
-    g = solution.mesh.grid
-    assert g is not None
     times = fields.field_times()
     if solution.history is None or not solution.history.fields:
         names = ["field.vtu"]
     else:
         names = [f"field_{k:04d}.vtu" for k in range(len(times))]
     picked = list(range(len(times))) if which == "all" else [len(times) - 1]
-    n = solution.mesh.n_cells
-    compress = n <= COMPRESS_CELLS and n * len(picked) <= COMPRESS_BUDGET
+    meta: dict[str, Any] = {}
+    write: Callable[[Path, Any, bool], Path]
+    last = fields.field(-1)
+    if not isinstance(last, FieldView):  # the triangle mesh
+        from fvheat.output import triangle_fields
+
+        write, cells = triangle_fields.vtu_writer(last)
+        meta["format"] = triangle_fields.FORMAT
+    else:
+        g = solution.mesh.grid
+        assert g is not None
+        topology = vtu_topology(last)
+
+        def write(path: Path, view: Any, compress: bool) -> Path:
+            return write_vtu(path, view, compress=compress, topology=topology)
+
+        cells = solution.mesh.n_cells
+        meta["format"] = FORMAT
+        meta["grid"] = {"x": g.x.tolist(), "y": g.y.tolist()}
+    compress = compress_fields(cells, len(picked))
     written: list[Path] = []
-    topology = vtu_topology(fields.field(-1))
     for k in picked:
-        view = fields.field(k)
-        written.append(write_vtu(folder / names[k], view, compress=compress, topology=topology))
+        written.append(write(folder / names[k], fields.field(k), compress))
         if k != len(times) - 1:
             fields.forget(k)  # a long run's views are not all kept
     entries = [(times[k], names[k]) for k in picked]
@@ -234,12 +256,8 @@ def write_fields(
         written.append(write_pvd(folder / "field.pvd", entries))
     surface_view = fields.surface_field()
     if surface_view is not None:
-        written.append(
-            write_vtu(folder / SURFACE_FILE, surface_view, compress=compress, topology=topology)
-        )
-    meta = {
-        "format": FORMAT,
-        "grid": {"x": g.x.tolist(), "y": g.y.tolist()},
+        written.append(write(folder / SURFACE_FILE, surface_view, compress))
+    meta |= {
         "materials": list(solution.mesh.material_names),
         "boundaries": list(solution.mesh.boundary_names),
         "files": [{"time_s": t, "file": f} for t, f in entries],

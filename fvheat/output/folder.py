@@ -79,25 +79,6 @@ def write_outputs(
     out = Path(out)
     sol = study.solution
     written = [write_inputs(out, sol.case, sol.mesh)]
-    if sol.mesh.triangles is not None:  # the triangles' own field files and figures
-        from fvheat.output.triangle_fields import write_triangle_fields
-
-        if fields != "none":
-            written += write_triangle_fields(sol, out, study.surface_solution, fields)
-        if fields != "none" and sol.mesh.n_cells <= CELLS_CSV_LIMIT:
-            from fvheat.output.triangle_fields import write_node_csv
-
-            written.append(write_node_csv(out / CELLS_FILE, sol))
-        folder = ResultsFolder.open(out)
-        if plots:
-            from fvheat.output.plots.triangles import draw_triangle_figures
-
-            for r in draw_triangle_figures(sol, out, folder.summary, study.surface_solution):
-                written += [out / r.png] + ([out / r.svg] if r.svg else [])
-        else:
-            _drop_stale_index(out)
-        return [*written, *write_report(folder)]
-    assert sol.mesh.grid is not None  # every mesh is a grid or triangles
     memory = SolvedFields(sol, study.surface_solution)
     if plots and workers is not None and len(workers):
         written += _draw_in_workers(study, out, memory, fields, workers)
@@ -165,7 +146,12 @@ def _write_field_files(study: Study, out: Path, memory, which: str) -> list[Path
     if which == "none":
         return written
     if sol.mesh.n_cells <= CELLS_CSV_LIMIT:
-        written.append(write_cells_csv(out / CELLS_FILE, memory.field(-1)))
+        if sol.mesh.triangles is not None:  # one row per node
+            from fvheat.output.triangle_fields import write_node_csv
+
+            written.append(write_node_csv(out / CELLS_FILE, sol))
+        else:
+            written.append(write_cells_csv(out / CELLS_FILE, memory.field(-1)))
     else:
         log.info(
             "%d cells: cells.csv not written (see fields/ for the same data)", sol.mesh.n_cells

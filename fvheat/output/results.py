@@ -17,7 +17,8 @@ import numpy as np
 from fvheat.errors import CaseError
 from fvheat.output.fields import FIELDS_DIR, META_FILE, read_field, read_surface_field
 from fvheat.output.inputs import INPUTS_FILE
-from fvheat.output.view import FieldView
+from fvheat.output.triangle_fields import FORMAT as TRIANGLE_FORMAT
+from fvheat.output.triangle_view import AnyFieldView, TriangleFieldView, TriangleShape
 
 SUMMARY_FILE = "summary.json"
 TIMESERIES_FILE = "timeseries.csv"
@@ -44,6 +45,7 @@ class ResultsFolder:
     path: Path
     summary: dict[str, Any]
     _meta: dict[str, Any] | None = field(default=None, repr=False)
+    _shape: TriangleShape | None = field(default=None, repr=False)
 
     @classmethod
     def open(cls, path: str | Path) -> ResultsFolder:
@@ -85,12 +87,6 @@ class ResultsFolder:
         if self._meta is None:
             f = self.path / FIELDS_DIR / META_FILE
             if not f.is_file():
-                if (self.summary.get("mesh") or {}).get("kind") == "triangles":
-                    raise CaseError(
-                        "a triangle-mesh run: its figures are drawn by the run itself "
-                        "(figures/); redrawing reads grid results only",
-                        file=str(self.path),
-                    )
                 raise CaseError(
                     "no field files (fields/fields.json); run the case again to write them",
                     file=str(self.path),
@@ -102,14 +98,32 @@ class ResultsFolder:
         """Times (s) of the saved fields."""
         return [float(e["time_s"]) for e in self.field_meta()["files"]]
 
-    def field(self, index: int = -1) -> FieldView:
+    def field(self, index: int = -1) -> AnyFieldView:
         """Saved field number ``index`` (default: the last one, i.e. the end time)."""
-        return read_field(self.path, index, self.field_meta())
+        meta = self.field_meta()
+        if meta.get("format") == TRIANGLE_FORMAT:
+            entry = meta["files"][index]
+            return self._triangles(entry["file"], float(entry["time_s"]))
+        return read_field(self.path, index, meta)
 
-    def surface_field(self) -> FieldView | None:
+    def surface_field(self) -> AnyFieldView | None:
         """The junction's surface-temperature field (f_Rsi, θ_si,min), None when the run
         took them from the heat-loss field."""
-        return read_surface_field(self.path, self.field_meta())
+        meta = self.field_meta()
+        if meta.get("format") == TRIANGLE_FORMAT:
+            name = meta.get("surface_solve")
+            return self._triangles(name, 0.0) if name else None
+        return read_surface_field(self.path, meta)
+
+    def _triangles(self, name: str, time: float) -> TriangleFieldView:
+        """The triangle-mesh field in ``fields/name``; the triangles are read once."""
+        from fvheat.output.triangle_fields import read_triangle_field
+
+        view = read_triangle_field(
+            self.path / FIELDS_DIR / name, self.field_meta(), time, self._shape
+        )
+        self._shape = view.shape
+        return view
 
     def timeseries(self) -> TimeSeries | None:
         """``timeseries.csv`` split into probes and boundaries, or None when absent."""

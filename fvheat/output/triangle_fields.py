@@ -1,56 +1,107 @@
 """Field files of a run on the triangle mesh: VTU through meshio, the real triangles.
 
-Layout (as for the grid, without ``fields.json``, which describes grids)::
-
-    fields/field.vtu                      steady run
-    fields/field_0000.vtu, ... field.pvd  transient run: one file per saved time
-    fields/surface_solve.vtu              junction: the surface-temperature solve
+The layout is the grid's (:mod:`fvheat.output.fields`, which writes both: file names,
+``field.pvd``, ``surface_solve.vtu``, the compression rule); ``fields/fields.json`` has the
+format :data:`FORMAT`, the material and boundary names and the file list, no grid lines.
 
 Each VTU holds the triangles (the mesh's vertices are its points, in the solver's order)
-and the exterior edges as lines. Point data: ``temperature`` (°C, the solver's unknowns:
-the field is linear in every triangle). Cell data: ``material`` (index, −1 on lines),
-``boundary`` (index on lines, −1 adiabatic and on triangles), ``heat_flux`` (W/m², z = 0;
-q = −k∇T, constant in each triangle: the flux the box method's faces carry; 0 on lines).
+and the exterior edges as lines, oriented with the body on their left. Point data:
+``temperature`` (°C, the solver's unknowns: the field is linear in every triangle). Cell
+data: ``material`` (index, −1 on lines), ``boundary`` (index on lines, −1 adiabatic and
+on triangles), ``heat_flux`` (W/m², z = 0; q = −k∇T, constant in each triangle: the flux
+the box method's faces carry; 0 on lines), ``surface_heat_flux`` (heat flow into the body
+per unit length of each exterior edge, W/m², from the solver's surface balance; NaN on
+triangles). Reading a file back gives the view the run drew its figures from
+(:func:`read_triangle_field`).
 """
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from fvheat.output.fields import FIELDS_DIR, SURFACE_FILE, write_pvd
 from fvheat.output.files import atomic_write_file
+from fvheat.output.triangle_view import (
+    TriangleFieldView,
+    TriangleShape,
+    edge_temperature,
+)
 from fvheat.simulate import Solution
 
 if TYPE_CHECKING:
     import meshio
 
+FORMAT = "fvheat-triangle-fields-1"
 
-def to_meshio(solution: Solution, temperature: np.ndarray) -> meshio.Mesh:
-    """The triangle mesh with ``temperature`` (°C per vertex) as a :class:`meshio.Mesh`."""
+
+def to_meshio(view: TriangleFieldView) -> meshio.Mesh:
+    """The triangle-mesh view as a :class:`meshio.Mesh`."""
     import meshio
 
-    mesh = solution.mesh
-    assert mesh.triangles is not None and mesh.triangle_material is not None
-    # exterior edges: the two half-faces of an edge share its outward normal and midpoint
-    first = np.arange(mesh.n_boundary_faces // 2)
-    a = mesh.b_cell[first]
-    b = mesh.b_cell[first + mesh.n_boundary_faces // 2]
-    lines = np.column_stack([a, b])
-    points = np.column_stack([mesh.centres, np.zeros(mesh.n_cells)])
-    n_t, n_l = mesh.triangles.shape[0], lines.shape[0]
-    q = triangle_flux(solution, temperature)
+    shape, lines = view.shape, view.face_nodes
+    n_t, n_l = view.n_triangles, lines.shape[0]
+    points = np.column_stack([shape.points, np.zeros(view.n_cells)])
     return meshio.Mesh(
         points,
-        [("triangle", mesh.triangles), ("line", lines)],
-        point_data={"temperature": np.asarray(temperature, float)},
+        [("triangle", shape.triangles), ("line", lines)],
+        point_data={"temperature": np.asarray(view.temperature, float)},
         cell_data={
-            "material": [mesh.triangle_material.astype(np.int32), np.full(n_l, -1, np.int32)],
-            "boundary": [np.full(n_t, -1, np.int32), mesh.b_boundary[first].astype(np.int32)],
-            "heat_flux": [np.column_stack([q, np.zeros(n_t)]), np.zeros((n_l, 3))],
+            "material": [shape.triangle_material.astype(np.int32), np.full(n_l, -1, np.int32)],
+            "boundary": [np.full(n_t, -1, np.int32), view.face_boundary.astype(np.int32)],
+            "heat_flux": [np.column_stack([view.flux, np.zeros(n_t)]), np.zeros((n_l, 3))],
+            "surface_heat_flux": [np.full(n_t, np.nan), np.asarray(view.face_flux, float)],
         },
+    )
+
+
+def vtu_writer(view: TriangleFieldView) -> tuple[Callable[[Path, Any, bool], Path], int]:
+    """A writer ``(path, view, compress) -> path`` of binary VTU files of views on the mesh
+    of ``view``, and the cells per file the compression rule counts (triangles)."""
+    import meshio
+
+    def write(path: Path, v: TriangleFieldView, compress: bool) -> Path:
+        m = to_meshio(v)
+        compression = "zlib" if compress else None
+        return atomic_write_file(
+            path, lambda tmp: meshio.vtu.write(tmp, m, binary=True, compression=compression)
+        )
+
+    return write, view.n_triangles
+
+
+def read_triangle_field(
+    path: str | Path,
+    meta: dict[str, Any],
+    time: float = 0.0,
+    shape: TriangleShape | None = None,
+) -> TriangleFieldView:
+    """The view stored in the VTU ``path`` (written by :func:`to_meshio`; names from the
+    field index ``meta``); ``shape`` is reused when given (the files of one run share it)."""
+    import meshio
+
+    mesh = meshio.read(path)
+    blocks = {b.type: k for k, b in enumerate(mesh.cells)}
+    tb, lb = blocks["triangle"], blocks["line"]
+    pts = np.asarray(mesh.points[:, :2], float)
+    cd = mesh.cell_data
+    if shape is None:
+        shape = TriangleShape(pts, mesh.cells[tb].data, cd["material"][tb])
+    lines = np.asarray(mesh.cells[lb].data)
+    temp = np.asarray(mesh.point_data["temperature"], float)
+    return TriangleFieldView(
+        shape=shape,
+        material_names=tuple(meta["materials"]),
+        face_nodes=lines,
+        face_boundary=np.asarray(cd["boundary"][lb], dtype=np.int32),
+        boundary_names=tuple(meta["boundaries"]),
+        temperature=temp,
+        flux=np.asarray(cd["heat_flux"][tb], float)[:, :2],
+        face_temperature=edge_temperature(temp, lines),
+        face_flux=np.asarray(cd["surface_heat_flux"][lb], float),
+        time=time,
     )
 
 
@@ -68,12 +119,18 @@ def triangle_gradients(v: np.ndarray, t: np.ndarray, values: np.ndarray) -> np.n
 
 
 def triangle_flux(solution: Solution, temperature: np.ndarray) -> np.ndarray:
-    """Heat-flux vectors (t, 2) W/m² of every triangle: q = −k∇T."""
-    mesh = solution.mesh
-    k = solution.system.k_material
+    """Heat-flux vectors (t, 2) W/m² of every triangle: q = −k∇T, k the conductivity the
+    solution's system gives the triangle (with phase-dependent conductivity: at the
+    system's phase state, as the grid's flux takes the system's conductances)."""
+    mesh, system = solution.mesh, solution.system
+    k = system.k_material
     assert mesh.triangles is not None and mesh.triangle_material is not None and k is not None
     grad = triangle_gradients(mesh.centres, mesh.triangles, temperature)
-    return -k[mesh.triangle_material][:, None] * grad
+    if system.phase_material is not None and system.phase_material.any():
+        k_tri = system.triangle_conductivity(system.k)[::3]  # face 3i + e: triangle i
+    else:
+        k_tri = k[mesh.triangle_material]
+    return -k_tri[:, None] * grad
 
 
 def node_flux(solution: Solution, temperature: np.ndarray) -> np.ndarray:
@@ -98,38 +155,3 @@ def write_node_csv(path: Path, solution: Solution) -> Path:
     mesh, temp = solution.mesh, solution.temperature
     q = node_flux(solution, temp)
     return write_cells_table(path, mesh.centres, mesh.material_names, mesh.material, temp, q)
-
-
-def write_vtu(path: Path, solution: Solution, temperature: np.ndarray) -> Path:
-    """One field as binary, zlib-compressed VTU, written atomically."""
-    import meshio
-
-    m = to_meshio(solution, temperature)
-    return atomic_write_file(
-        path, lambda tmp: meshio.vtu.write(tmp, m, binary=True, compression="zlib")
-    )
-
-
-def write_triangle_fields(
-    solution: Solution, out: str | Path, surface: Solution | None = None, fields: str = "all"
-) -> list[Path]:
-    """Write the field files of a run on the triangle mesh into ``out/fields``: every saved
-    state (``fields`` "all") or only the last one ("last"), and the surface solve."""
-    folder = Path(out) / FIELDS_DIR
-    folder.mkdir(parents=True, exist_ok=True)
-    h = solution.history
-    if h is None or not h.fields:
-        states = [(solution.time, solution.temperature, "field.vtu")]
-    else:
-        states = [
-            (t, f, f"field_{k:04d}.vtu")
-            for k, (t, f) in enumerate(zip(h.times, h.fields, strict=True))
-        ]
-    if fields == "last":
-        states = states[-1:]
-    written = [write_vtu(folder / name, solution, temp) for _, temp, name in states]
-    if len(states) > 1 or solution.case.transient:
-        written.append(write_pvd(folder / "field.pvd", [(float(t), n) for t, _, n in states]))
-    if surface is not None:
-        written.append(write_vtu(folder / SURFACE_FILE, surface, surface.temperature))
-    return written

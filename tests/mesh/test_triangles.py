@@ -133,8 +133,9 @@ def test_run_writes_triangle_vtu_and_kind(tmp_path):
     np.testing.assert_allclose(m.point_data["temperature"], study.solution.temperature)
     q = m.cell_data_dict["heat_flux"]["triangle"]
     assert np.all(np.isfinite(q)) and np.mean(q[:, 1]) > 0.0  # from the warm side (y = 0) up
-    with pytest.raises(CaseError, match="triangle-mesh run"):
-        ResultsFolder.open(tmp_path / "out").field_meta()
+    folder = ResultsFolder.open(tmp_path / "out")  # read back like a grid folder
+    assert folder.field_meta()["format"] == "fvheat-triangle-fields-1"
+    np.testing.assert_array_equal(folder.field().temperature, study.solution.temperature)
     assert "triangles" in (tmp_path / "out" / "report.md").read_text(encoding="utf-8")
     rows = (tmp_path / "out" / "cells.csv").read_text(encoding="utf-8").splitlines()
     assert len(rows) == 1 + mesh.n_cells and rows[0].startswith("x_m,y_m,material,temperature_C")
@@ -187,10 +188,12 @@ def test_triangle_heat_flux_of_a_wall(tmp_path):
     """q = −k∇T per triangle in the VTU: the ISO 6946 flux density q = Δθ/ΣR everywhere
     in a two-layer wall (x towards the cold side), 0 along it; P1 is exact in 1-D."""
     from fvheat.output.triangle_fields import node_flux, to_meshio
+    from fvheat.output.triangle_view import TriangleViews
 
     sol = simulate(load(tmp_path, WALL))
     q_exact = 20.0 / (0.13 + 0.1 / 1.0 + 0.1 / 0.1 + 0.04)
-    q = to_meshio(sol, sol.temperature).cell_data["heat_flux"][0]
+    view = TriangleViews(sol).view(sol.temperature, sol.time)
+    q = to_meshio(view).cell_data["heat_flux"][0]
     np.testing.assert_allclose(q[:, 0], -q_exact, rtol=1e-9)
     np.testing.assert_allclose(q[:, 1], 0.0, atol=1e-9 * q_exact)
     qn = node_flux(sol, sol.temperature)  # the cells.csv values: the same at every node

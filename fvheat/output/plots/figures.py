@@ -2,8 +2,10 @@
 
 Files: ``temperature``, ``temperature_surface`` (a junction's surface-temperature solve,
 when separate), ``heat_flux``, ``mesh`` (.png and .svg), and for a transient run
-``probes``, ``heat_flows`` and ``snapshots``; ``figures.json`` lists them with captions
-(the report reads it).
+``probes``, ``heat_flows``, ``fronts`` (with latent heat) and ``snapshots``;
+``figures.json`` lists them with captions (the report reads it). The same set, names and
+captions on both meshes: the fields are grid or triangle views
+(:mod:`fvheat.output.triangle_view`), drawn by the same figure code.
 """
 
 from __future__ import annotations
@@ -29,6 +31,7 @@ from fvheat.output.plots.transient import (
     snapshot_indices,
 )
 from fvheat.output.results import FIGURES_DIR, ResultsFolder
+from fvheat.output.triangle_view import AnyFieldView, TriangleFieldView
 
 log = logging.getLogger(__name__)
 
@@ -113,7 +116,7 @@ def draw_figures(
             zoom=zoom,
             caption=SCREENING,
         )
-        caption = _temperature_caption(s, when, on_main, separate=surface is not None)
+        caption = _temperature_caption(s, when, on_main, view, separate=surface is not None)
         records.append(_save(fig, folder, "temperature", caption + notes))
     if surface is not None and want("temperature_surface"):
         fig = temperature_figure(
@@ -131,17 +134,24 @@ def draw_figures(
     if want("heat_flux"):
         fig = heat_flux_figure(view, title=title, subtitle=when, zoom=zoom)
         caption = (
-            f"Heat-flux density |q| (W/m², log scale), {when}, reconstructed from the solver's "
-            "face heat flows. Lines are heat paths starting where heat enters the body, at "
+            f"Heat-flux density |q| (W/m², log scale), {when}, {_flux_words(view)}. "
+            "Lines are heat paths starting where heat enters the body, at "
             "equal steps of the entering heat flow; in a steady field each band between two "
             "lines carries the same heat flow."
         )
         records.append(_save(fig, folder, "heat_flux", caption + window_note))
 
     if want("mesh"):
-        fig = mesh_figure(view, title=title, zoom=zoom)
+        if isinstance(view, TriangleFieldView):
+            from fvheat.output.plots.triangles import triangle_mesh_figure
+
+            fig = triangle_mesh_figure(view, title=title, zoom=zoom)
+            cells = f"{view.n_cells} nodes (control volumes) on {view.n_triangles} triangles"
+        else:
+            fig = mesh_figure(view, title=title, zoom=zoom)
+            cells = f"{view.n_cells} cells"
         caption = (
-            f"Computational mesh: {view.n_cells} cells coloured by material, boundaries "
+            f"Computational mesh: {cells} coloured by material, boundaries "
             "coloured and named; unmarked exterior edges are adiabatic."
         )
         records.append(_save(fig, folder, "mesh", caption + window_note, vector=False))
@@ -235,10 +245,26 @@ def _view_notes(vrange: tuple[float, float] | None, zoom: layers.Window | None) 
     return out
 
 
-def _temperature_caption(s: dict[str, Any], when: str, marked, *, separate: bool) -> str:
+def _mesh_words(view: AnyFieldView) -> str:
+    """How the field is drawn on the view's mesh (empty on the grid: cell values)."""
+    if isinstance(view, TriangleFieldView):
+        return " on the triangle mesh (linear in each triangle)"
+    return ""
+
+
+def _flux_words(view: AnyFieldView) -> str:
+    """Where the view's heat-flux vectors come from."""
+    if isinstance(view, TriangleFieldView):
+        return "q = −λ∇T, constant in each triangle (the flux the box method's faces carry)"
+    return "reconstructed from the solver's face heat flows"
+
+
+def _temperature_caption(
+    s: dict[str, Any], when: str, marked, view: AnyFieldView, *, separate: bool
+) -> str:
     text = (
-        f"Temperature field (°C), {when}, with isotherms, material outlines and the "
-        "boundaries coloured and named."
+        f"Temperature field (°C){_mesh_words(view)}, {when}, with isotherms, material "
+        "outlines and the boundaries coloured and named."
     )
     if separate:
         text += (
@@ -318,7 +344,8 @@ def _transient(
                 fig,
                 folder,
                 "snapshots",
-                f"Temperature field (°C) at {when}, on one colour scale." + notes,
+                f"Temperature field (°C){_mesh_words(views[0])} at {when}, on one colour scale."
+                + notes,
                 vector=False,
             )
         )

@@ -1,4 +1,9 @@
-"""The heat-flux map: |q| on a log colour scale with streamlines showing where heat flows."""
+"""The heat-flux map: |q| on a log colour scale with streamlines showing where heat flows.
+
+On either mesh: q per grid cell, or per triangle (q = −k∇T, constant in each); the heat
+paths are traced on q sampled onto one uniform lattice (:func:`sample_flux`), whatever
+the mesh.
+"""
 
 from __future__ import annotations
 
@@ -7,9 +12,10 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from fvheat.output.plots import layers, raster, style
-from fvheat.output.view import FieldView
+from fvheat.output.triangle_view import AnyFieldView, TriangleFieldView
 
 if TYPE_CHECKING:
+    from matplotlib.artist import Artist
     from matplotlib.axes import Axes
     from matplotlib.colorbar import Colorbar
     from matplotlib.figure import Figure
@@ -25,7 +31,7 @@ HEAT_PATH_LENGTH = 2.5
 
 
 def heat_flux_figure(
-    view: FieldView,
+    view: AnyFieldView,
     *,
     title: str = "",
     subtitle: str = "",
@@ -46,9 +52,17 @@ def heat_flux_figure(
         mag = np.hypot(view.flux[:, 0], view.flux[:, 1])
         lo, hi = frange if frange is not None else _range(mag)
         norm = LogNorm(lo, hi, clip=True)
-        quad = layers.draw_cells(
-            ax, view, np.clip(mag, lo, hi), window=window, cmap=style.FLUX_CMAP, norm=norm
-        )
+        quad: Artist
+        if isinstance(view, TriangleFieldView):  # q is constant in each triangle
+            from fvheat.output.plots.triangles import draw_triangle_values
+
+            quad = draw_triangle_values(
+                ax, view, np.clip(mag, lo, hi), window=window, cmap=style.FLUX_CMAP, norm=norm
+            )
+        else:
+            quad = layers.draw_cells(
+                ax, view, np.clip(mag, lo, hi), window=window, cmap=style.FLUX_CMAP, norm=norm
+            )
         draw_streamlines(ax, view, window)
         layers.draw_outlines(ax, view, colour="#d9d9d9")
         handles = layers.draw_boundaries(ax, view)
@@ -88,7 +102,7 @@ def _range(mag: np.ndarray) -> tuple[float, float]:
     return (lo, top) if top > lo else (top / 10, top)
 
 
-def heat_path_seeds(view: FieldView, n: int = HEAT_PATHS) -> np.ndarray:
+def heat_path_seeds(view: AnyFieldView, n: int = HEAT_PATHS) -> np.ndarray:
     """Start points (k, 2), m, of ``n`` heat paths: on the faces where heat enters the body,
     at equal steps of the inflowing heat (W/m) taken face by face in boundary order, nudged
     just inside the body. In a steady source-free field each band between neighbouring
@@ -131,13 +145,22 @@ def dilate(q: np.ma.MaskedArray) -> np.ma.MaskedArray:
     return np.ma.masked_array(data, mask=np.repeat(~keep[..., None], 2, axis=-1))
 
 
+def sample_flux(view: AnyFieldView, x: np.ndarray, y: np.ndarray) -> np.ma.MaskedArray:
+    """Heat-flux vectors (..., 2), W/m², at points (``x``, ``y``) m: bilinear between
+    the grid's cell centres, or the value of the triangle holding the point (q is constant
+    in each); masked outside the body."""
+    if isinstance(view, TriangleFieldView):
+        return view.shape.sample_triangles(view.flux, x, y)
+    return layers.sample_cells(view, view.flux, x, y)
+
+
 def draw_streamlines(
-    ax: Axes, view: FieldView, window: layers.Window, *, seeded: bool = True
+    ax: Axes, view: AnyFieldView, window: layers.Window, *, seeded: bool = True
 ) -> None:
     """Lines along q: heat paths from the warm surfaces (``seeded``, see
     :func:`heat_path_seeds`) or an even cover of the window; they stop at the body's edges.
-    q is sampled bilinearly on a uniform grid over the part of the window the body spans
-    (:data:`STREAM_SAMPLES` across), whatever the number of cells."""
+    q is sampled (:func:`sample_flux`) on a uniform grid over the part of the window the
+    body spans (:data:`STREAM_SAMPLES` across), whatever the number of cells."""
     from matplotlib import patheffects
 
     x0, y0, x1, y1 = window
@@ -147,7 +170,7 @@ def draw_streamlines(
         return
     xs, ys = layers.sample_window(view, span, STREAM_SAMPLES)
     gx, gy = np.meshgrid(xs, ys)
-    q = dilate(layers.sample_cells(view, view.flux, gx, gy))
+    q = dilate(sample_flux(view, gx, gy))
     if q.mask.all() or not np.ma.max(np.hypot(q[..., 0], q[..., 1])) > 0:
         return
     # matplotlib follows a masked field point by point through numpy.ma, much slower than a

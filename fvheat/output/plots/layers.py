@@ -1,6 +1,8 @@
 """Drawing pieces shared by the field plots: cells, outlines, boundaries, isotherms, scale.
 
 All coordinates in m, temperatures in °C; ``ax`` is a matplotlib Axes at equal aspect.
+The views are of either mesh: what depends on it (cells, outlines, isotherms, whether a
+point is in the body) goes to :mod:`fvheat.output.plots.triangles` for a triangle view.
 """
 
 from __future__ import annotations
@@ -12,19 +14,20 @@ import numpy as np
 
 from fvheat.mesh.mesh import RectGrid
 from fvheat.output.plots import raster, style
+from fvheat.output.triangle_view import AnyGeometryView, TriangleGeometryView
 from fvheat.output.view import GeometryView
 
 if TYPE_CHECKING:
     from matplotlib.axes import Axes
-    from matplotlib.collections import QuadMesh
+    from matplotlib.collections import QuadMesh, TriMesh
     from matplotlib.colors import Colormap, Normalize
-    from matplotlib.contour import QuadContourSet
+    from matplotlib.contour import ContourSet
     from matplotlib.image import AxesImage
 
 Window = tuple[float, float, float, float]
 
 
-def window_of(view: GeometryView, zoom: Window | None = None) -> Window:
+def window_of(view: AnyGeometryView, zoom: Window | None = None) -> Window:
     """The plotted window (x0, y0, x1, y1), m: ``zoom`` or the model with a 3 % margin."""
     if zoom is not None:
         return zoom
@@ -85,17 +88,29 @@ def sample_cells(
     return np.ma.masked_array(out, mask=mask)
 
 
+def in_body(view: AnyGeometryView, x: np.ndarray, y: np.ndarray) -> np.ndarray:
+    """True where the point (``x``, ``y``) m lies in the body (a cell or a triangle)."""
+    if isinstance(view, TriangleGeometryView):
+        return view.shape.inside(x, y)
+    return inside(view.grid, x, y)
+
+
 def draw_cells(
     ax: Axes,
-    view: GeometryView,
+    view: AnyGeometryView,
     values: np.ndarray,
     *,
     window: Window | None = None,
     **kwargs: Any,
-) -> QuadMesh | AxesImage:
+) -> QuadMesh | AxesImage | TriMesh:
     """Cell values over the real geometry (voids left blank): flat-shaded quads up to
     ``raster.RASTER_CELLS`` cells, above one image at the figure's resolution (each pixel
-    the value of the cell under its centre) over ``window`` (default: the whole model)."""
+    the value of the cell under its centre) over ``window`` (default: the whole model).
+    On a triangle view: node values, linear in each triangle."""
+    if isinstance(view, TriangleGeometryView):
+        from fvheat.output.plots.triangles import draw_node_values
+
+        return draw_node_values(ax, view, values, window=window, **kwargs)
     if view.n_cells <= raster.RASTER_CELLS:
         g = view.grid
         return ax.pcolormesh(
@@ -107,7 +122,9 @@ def draw_cells(
     return raster.draw_image(ax, raster.grid_cells(view.grid, xs, ys), values, window, **kwargs)
 
 
-def sample_window(view: GeometryView, window: Window, most: int) -> tuple[np.ndarray, np.ndarray]:
+def sample_window(
+    view: AnyGeometryView, window: Window, most: int
+) -> tuple[np.ndarray, np.ndarray]:
     """A uniform lattice (x (cols,), y (rows,), m) over ``window`` with ``most`` points
     across its longer side."""
     x0, y0, x1, y1 = window
@@ -187,9 +204,16 @@ def merge_segments(segs: np.ndarray) -> np.ndarray:
     return np.concatenate(out)
 
 
-def draw_outlines(ax: Axes, view: GeometryView, *, colour: str = style.OUTLINE_COLOUR) -> None:
+def draw_outlines(ax: Axes, view: AnyGeometryView, *, colour: str = style.OUTLINE_COLOUR) -> None:
     """Thin lines on material interfaces and a slightly heavier outline of the body."""
     from matplotlib.collections import LineCollection
+
+    if isinstance(view, TriangleGeometryView):  # edges between materials, found once
+        inner_t = list(merge_segments(view.shape.interfaces))
+        ax.add_collection(LineCollection(inner_t, colors=colour, linewidths=0.35, alpha=0.8))
+        outer_t = list(merge_segments(view.face_ends))
+        ax.add_collection(LineCollection(outer_t, colors=colour, linewidths=0.7))
+        return
 
     mat = view.grid_values(view.material).filled(-1)
     x, y = view.grid.x, view.grid.y
@@ -201,7 +225,7 @@ def draw_outlines(ax: Axes, view: GeometryView, *, colour: str = style.OUTLINE_C
 
 def draw_boundaries(
     ax: Axes,
-    view: GeometryView,
+    view: AnyGeometryView,
     *,
     width: float = 2.6,
     labels: Sequence[str] | None = None,
@@ -266,7 +290,7 @@ def isotherm_levels(lo: float, hi: float, n: int = 10) -> np.ndarray:
 
 def draw_isotherms(
     ax: Axes,
-    view: GeometryView,
+    view: AnyGeometryView,
     values: np.ndarray,
     levels: np.ndarray,
     *,
@@ -274,14 +298,15 @@ def draw_isotherms(
     norm: Normalize | None = None,
     labels: bool = True,
     window: Window | None = None,
-) -> QuadContourSet | None:
+) -> ContourSet | None:
     """Isotherms through the cell centres (on a grid of more than
     ``raster.CONTOUR_SAMPLES`` columns or rows: through a bilinear sample of that many
     points across ``window``), optionally labelled. With ``cmap`` and ``norm`` each line is
-    dark over light colours and light over dark ones."""
+    dark over light colours and light over dark ones. On a triangle view: through the node
+    values, linear in each triangle (above ``raster.RASTER_CELLS`` triangles through a
+    sample of ``raster.CONTOUR_SAMPLES`` points across ``window``)."""
     if levels.size == 0:
         return None
-    g = view.grid
     colours = ["#161616"] * levels.size
     if cmap is not None and norm is not None:
         from matplotlib import colormaps
@@ -293,21 +318,24 @@ def draw_isotherms(
         )
         luminance = rgb @ np.array([0.2126, 0.7152, 0.0722])
         colours = ["#161616" if v > 0.45 else "#f4f4f4" for v in luminance]
-    if max(g.xc.size, g.yc.size) <= raster.CONTOUR_SAMPLES:
-        xs, ys, grid_vals = g.xc, g.yc, view.grid_values(values)
-    else:  # a fine grid: traced on a uniform sample finer than the lines can show
-        xs, ys = sample_window(view, window or window_of(view), raster.CONTOUR_SAMPLES)
-        gx, gy = np.meshgrid(xs, ys)
-        grid_vals = sample_cells(view, values, gx, gy)
-    cs = ax.contour(
-        xs,
-        ys,
-        grid_vals,
-        levels=levels,
-        colors=colours,
-        linewidths=0.6,
-        zorder=3,
-    )
+    opts: dict[str, Any] = {"levels": levels, "colors": colours, "linewidths": 0.6, "zorder": 3}
+    cs: ContourSet
+    if isinstance(view, TriangleGeometryView):
+        if view.n_triangles <= raster.RASTER_CELLS:
+            cs = ax.tricontour(view.shape.triangulation, values, **opts)
+        else:
+            xs, ys = sample_window(view, window or window_of(view), raster.CONTOUR_SAMPLES)
+            gx, gy = np.meshgrid(xs, ys)
+            cs = ax.contour(xs, ys, view.shape.interpolate(values, gx, gy), **opts)
+    else:
+        g = view.grid
+        if max(g.xc.size, g.yc.size) <= raster.CONTOUR_SAMPLES:
+            xs, ys, grid_vals = g.xc, g.yc, view.grid_values(values)
+        else:  # a fine grid: traced on a uniform sample finer than the lines can show
+            xs, ys = sample_window(view, window or window_of(view), raster.CONTOUR_SAMPLES)
+            gx, gy = np.meshgrid(xs, ys)
+            grid_vals = sample_cells(view, values, gx, gy)
+        cs = ax.contour(xs, ys, grid_vals, **opts)
     if labels:
         ax.clabel(cs, fmt=lambda v: f"{v:g}", fontsize=6.2, inline_spacing=2)
     return cs
@@ -323,12 +351,12 @@ def nice_length(span: float) -> float:
     return float(10**k)
 
 
-def void_fraction(view: GeometryView, x: np.ndarray, y: np.ndarray) -> float:
+def void_fraction(view: AnyGeometryView, x: np.ndarray, y: np.ndarray) -> float:
     """Share of the points (m) that lie outside the body."""
-    return float(np.mean(~inside(view.grid, np.asarray(x, float), np.asarray(y, float))))
+    return float(np.mean(~in_body(view, np.asarray(x, float), np.asarray(y, float))))
 
 
-def emptiest_corner(view: GeometryView, window: Window) -> tuple[str, float]:
+def emptiest_corner(view: AnyGeometryView, window: Window) -> tuple[str, float]:
     """The window corner ("lower right", ...) least covered by the body, and the share of
     that corner area outside the body."""
     x0, y0, x1, y1 = window
@@ -349,7 +377,9 @@ def emptiest_corner(view: GeometryView, window: Window) -> tuple[str, float]:
     return where, best
 
 
-def add_scale_bar(ax: Axes, view: GeometryView, window: Window, *, min_free: float = 0.6) -> bool:
+def add_scale_bar(
+    ax: Axes, view: AnyGeometryView, window: Window, *, min_free: float = 0.6
+) -> bool:
     """A scale bar of a round length in metres in the emptiest corner of the window, if at
     least ``min_free`` of that corner is outside the body (the axes are in metres anyway).
     Returns whether it was drawn."""
@@ -382,7 +412,7 @@ def add_scale_bar(ax: Axes, view: GeometryView, window: Window, *, min_free: flo
 
 
 def label_position(
-    view: GeometryView,
+    view: AnyGeometryView,
     point: tuple[float, float],
     window: Window,
     box: tuple[float, float],
@@ -405,7 +435,7 @@ def label_position(
     px = cx[..., None, None] + f[:, None] * w
     py = cy[..., None, None] + f[None, :] * h
     px, py = np.broadcast_arrays(px, py)
-    free = (~inside(view.grid, px, py)).mean(axis=(-2, -1))
+    free = (~in_body(view, px, py)).mean(axis=(-2, -1))
     covers = (np.abs(cx - point[0]) < 0.5 * w + 0.02 * diag) & (
         np.abs(cy - point[1]) < 0.5 * h + 0.02 * diag
     )

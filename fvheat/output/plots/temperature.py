@@ -8,7 +8,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from fvheat.output.plots import layers, raster, style
-from fvheat.output.view import FieldView
+from fvheat.output.triangle_view import AnyFieldView
 
 if TYPE_CHECKING:
     from matplotlib.axes import Axes
@@ -50,7 +50,7 @@ def time_label(t: float) -> str:
 
 
 def temperature_figure(
-    view: FieldView,
+    view: AnyFieldView,
     *,
     title: str = "",
     subtitle: str = "",
@@ -110,7 +110,7 @@ def temperature_figure(
     return fig
 
 
-def _range(view: FieldView, window: layers.Window) -> tuple[float, float]:
+def _range(view: AnyFieldView, window: layers.Window) -> tuple[float, float]:
     """Colour range (°C): the field's range including surfaces, within the window."""
     x0, y0, x1, y1 = window
     c = view.centres
@@ -124,7 +124,7 @@ def _range(view: FieldView, window: layers.Window) -> tuple[float, float]:
     return lo, hi
 
 
-def _extend(view: FieldView, lo: float, hi: float) -> str:
+def _extend(view: AnyFieldView, lo: float, hi: float) -> str:
     below = bool(view.temperature.min() < lo - 1e-12)
     above = bool(view.temperature.max() > hi + 1e-12)
     return {(False, False): "neither", (True, False): "min", (False, True): "max"}.get(
@@ -132,7 +132,7 @@ def _extend(view: FieldView, lo: float, hi: float) -> str:
     )
 
 
-def mark_point(ax: Axes, view: FieldView, marked: Marked, window: layers.Window) -> None:
+def mark_point(ax: Axes, view: AnyFieldView, marked: Marked, window: layers.Window) -> None:
     """A diamond at the point and a boxed label with its value and position."""
     ax.plot(
         [marked.x],

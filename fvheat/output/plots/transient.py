@@ -9,7 +9,7 @@ import numpy as np
 
 from fvheat.output.plots import layers, raster, style
 from fvheat.output.plots.temperature import time_label
-from fvheat.output.view import FieldView
+from fvheat.output.triangle_view import AnyFieldView
 
 if TYPE_CHECKING:
     from matplotlib.figure import Figure
@@ -147,7 +147,7 @@ def snapshot_indices(n_saved: int, count: int = 4) -> np.ndarray:
 
 
 def snapshot_figure(
-    views: list[FieldView],
+    views: list[AnyFieldView],
     *,
     title: str = "",
     vrange: tuple[float, float] | None = None,

@@ -1,236 +1,149 @@
-"""Figures of a run on the triangle mesh, drawn from the solution in memory.
+"""Drawing on the triangle mesh: the pieces :mod:`fvheat.output.plots.layers` hands over
+for a triangle view (node values linear in each triangle, per-triangle values), and the
+mesh figure. Every other figure (temperature, heat flux with heat paths, snapshots) is
+the grid's own code drawing a :class:`fvheat.output.triangle_view.TriangleFieldView`.
 
-``temperature`` (the field, linear in each triangle, with isotherms, material outlines and
-the boundaries coloured), ``temperature_surface`` (a junction's separate
-surface-temperature solve), ``heat_flux`` (|q| per triangle, log scale), ``mesh`` (the
-triangles coloured by material) and, for a transient run, ``probes`` and ``heat_flows``;
-listed in ``figures/figures.json`` with captions like the grid's figures
-(:mod:`fvheat.output.plots.figures`), so the report embeds them the same way.
+As on the grid, up to :data:`fvheat.output.plots.raster.RASTER_CELLS` triangles are drawn
+one by one; above, a map is one image at the figure's resolution (each pixel the value at
+its centre), so drawing costs what the figure can show.
 """
 
 from __future__ import annotations
 
-import json
-from dataclasses import asdict
-from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
 from fvheat.mesh.mesh import Mesh
-from fvheat.output.files import atomic_write_text
-from fvheat.output.plots import style
-from fvheat.output.plots.figures import INDEX_FILE, SCREENING, FigureRecord
-from fvheat.output.plots.temperature import Marked, coldest_point, time_label
-from fvheat.output.results import FIGURES_DIR
-from fvheat.simulate import Solution
+from fvheat.output.plots import layers, raster, style
+from fvheat.output.triangle_view import TriangleGeometryView, triangle_geometry_view
 
 if TYPE_CHECKING:
+    from matplotlib.axes import Axes
+    from matplotlib.collections import PolyCollection, TriMesh
     from matplotlib.figure import Figure
+    from matplotlib.image import AxesImage
 
 
-def _triangulation(mesh: Mesh):
-    from matplotlib.tri import Triangulation
-
-    assert mesh.triangles is not None
-    return Triangulation(mesh.centres[:, 0], mesh.centres[:, 1], mesh.triangles)
-
-
-def _frame(mesh: Mesh):
-    """A figure and axes sized to the body."""
-    c = mesh.centres
-    (x0, y0), (x1, y1) = c.min(axis=0), c.max(axis=0)
-    fig = style.new_figure(*style.field_size(max(x1 - x0, 1e-9), max(y1 - y0, 1e-9)))
-    ax = fig.add_subplot()
-    ax.set_aspect("equal")
-    ax.set_xlabel("x (m)")
-    ax.set_ylabel("y (m)")
-    return fig, ax
+def _pixels(
+    ax: Axes, view: TriangleGeometryView, window: layers.Window | None
+) -> tuple[layers.Window, np.ndarray, np.ndarray]:
+    """The window (m) and the pixel-centre lattice (rows, cols) of an image over it."""
+    window = window if window is not None else layers.window_of(view)
+    w, h = raster.image_size(window, raster.axes_pixels(ax, style.PNG_DPI))
+    xs, ys = raster.pixel_centres(window, w, h)
+    gx, gy = np.meshgrid(xs, ys)
+    return window, gx, gy
 
 
-def _edges(mesh: Mesh, ax) -> list:
-    """Material outlines (edges between triangles of different materials) and the exterior
-    edges coloured by boundary; returns the legend handles."""
-    from matplotlib.collections import LineCollection
-    from matplotlib.lines import Line2D
-
-    assert mesh.triangles is not None and mesh.triangle_material is not None
-    t, v = mesh.triangles, mesh.centres
-    e = np.sort(np.stack([t[:, [0, 1]], t[:, [1, 2]], t[:, [2, 0]]], axis=1), axis=2)
-    owner = np.repeat(mesh.triangle_material, 3)
-    key, inverse = np.unique(e.reshape(-1, 2), axis=0, return_inverse=True)
-    lo = np.full(len(key), np.iinfo(np.int32).max)
-    hi = np.full(len(key), -1)
-    np.minimum.at(lo, inverse.ravel(), owner)
-    np.maximum.at(hi, inverse.ravel(), owner)
-    inner = key[(lo != hi) & (hi >= 0)]
-    ax.add_collection(LineCollection(list(v[inner]), colors=style.OUTLINE_COLOUR, linewidths=0.6))
-    half = mesh.n_boundary_faces // 2
-    ends = np.stack([v[mesh.b_cell[:half]], v[mesh.b_cell[half:]]], axis=1)
-    bid = mesh.b_boundary[:half]
-    ax.add_collection(
-        LineCollection(list(ends[bid < 0]), colors=style.ADIABATIC_COLOUR, linewidths=0.6)
-    )
-    handles = []
-    for k, name in enumerate(mesh.boundary_names):
-        colour = style.BOUNDARY_COLOURS[k % len(style.BOUNDARY_COLOURS)]
-        ax.add_collection(LineCollection(ends[bid == k], colors=colour, linewidths=2.0))
-        handles.append(Line2D([], [], color=colour, lw=2.0, label=name))
-    ax.autoscale_view()
-    return handles
-
-
-def temperature_map(solution: Solution, title: str, subtitle: str, marked: Marked | None) -> Figure:
-    """The temperature map (°C) of ``solution`` on its triangles."""
-    with style.style():
-        fig, ax = _frame(solution.mesh)
-        tri = _triangulation(solution.mesh)
-        temp = solution.temperature
-        lo, hi = float(temp.min()), float(temp.max())
-        if hi - lo < 1e-9:
-            lo, hi = lo - 0.5, hi + 0.5
-        shade = ax.tripcolor(tri, temp, shading="gouraud", cmap=style.TEMPERATURE_CMAP)
-        levels = np.linspace(lo, hi, 12)[1:-1]
-        ax.tricontour(tri, temp, levels=levels, colors="white", linewidths=0.5)
-        handles = _edges(solution.mesh, ax)
-        if marked is not None:
-            ax.plot([marked.x], [marked.y], "D", ms=6.5, mfc=style.COLDEST_COLOUR, mec="black")
-            ax.annotate(
-                f"{marked.label} = {marked.value:.2f} °C",
-                (marked.x, marked.y),
-                xytext=(8, 8),
-                textcoords="offset points",
-                fontsize=7,
-                bbox={"boxstyle": "round,pad=0.3", "fc": "white", "ec": "#333333", "lw": 0.6},
-            )
-        fig.colorbar(shade, ax=ax, shrink=0.85, pad=0.02, aspect=30).set_label("temperature (°C)")
-        style.headings(fig, ax, title, subtitle, SCREENING)
-        style.boundary_legend(fig, handles)
-    return fig
-
-
-def flux_map(solution: Solution, title: str, subtitle: str) -> Figure:
-    """|q| (W/m², log scale) per triangle, q = −k∇T (constant in each triangle)."""
-    from matplotlib.colors import LogNorm
-
-    from fvheat.output.plots.heatflux import log_ticks
-    from fvheat.output.triangle_fields import triangle_flux
-
-    q = triangle_flux(solution, solution.temperature)
-    size = np.hypot(q[:, 0], q[:, 1])
-    positive = size[size > 0]
-    lo = float(positive.min()) if positive.size else 1e-3
-    hi = float(size.max()) if positive.size else 1.0
-    lo = max(lo, hi * 1e-4)
-    with style.style():
-        fig, ax = _frame(solution.mesh)
-        shade = ax.tripcolor(
-            _triangulation(solution.mesh),
-            facecolors=np.clip(size, lo, hi),
-            cmap=style.FLUX_CMAP,
-            norm=LogNorm(lo, max(hi, lo * 1.0001)),
+def draw_node_values(
+    ax: Axes,
+    view: TriangleGeometryView,
+    values: np.ndarray,
+    *,
+    window: layers.Window | None = None,
+    **kwargs: Any,
+) -> TriMesh | AxesImage:
+    """Node ``values`` (n,) linear in each triangle (Gouraud shading); above
+    ``RASTER_CELLS`` triangles one image of the values interpolated at the pixel centres
+    of ``window`` (m, default the whole model). ``kwargs``: ``cmap``, ``norm``."""
+    if view.n_triangles <= raster.RASTER_CELLS:
+        return ax.tripcolor(
+            view.shape.triangulation, values, shading="gouraud", rasterized=True, **kwargs
         )
-        handles = _edges(solution.mesh, ax)
-        cbar = fig.colorbar(shade, ax=ax, shrink=0.85, pad=0.02, aspect=30)
-        cbar.set_label("heat-flux density |q| (W/m²)")
-        log_ticks(cbar, lo, max(hi, lo * 1.0001))
-        style.headings(fig, ax, title, subtitle, "")
-        style.boundary_legend(fig, handles)
+    window, gx, gy = _pixels(ax, view, window)
+    vals = view.shape.interpolate(values, gx, gy)
+    pixel = np.arange(vals.size).reshape(vals.shape)
+    cells = np.where(np.ma.getmaskarray(vals), -1, pixel)
+    return raster.draw_image(ax, cells, vals.filled(0.0).ravel(), window, **kwargs)
+
+
+def draw_triangle_values(
+    ax: Axes,
+    view: TriangleGeometryView,
+    values: np.ndarray,
+    *,
+    window: layers.Window | None = None,
+    **kwargs: Any,
+) -> PolyCollection | AxesImage:
+    """Per-triangle ``values`` (t,), flat-shaded; above ``RASTER_CELLS`` triangles one
+    image (each pixel the value of the triangle under its centre) over ``window``."""
+    if view.n_triangles <= raster.RASTER_CELLS:
+        return ax.tripcolor(view.shape.triangulation, facecolors=values, rasterized=True, **kwargs)
+    window, gx, gy = _pixels(ax, view, window)
+    return raster.draw_image(ax, view.shape.locate(gx, gy), values, window, **kwargs)
+
+
+def triangle_mesh_figure(
+    view: TriangleGeometryView, *, title: str = "", zoom: layers.Window | None = None
+) -> Figure:
+    """The triangles of ``view`` outlined and coloured by material, boundaries coloured
+    and named (the mesh figure of a run and ``fvheat check --plot``)."""
+    from matplotlib.colors import BoundaryNorm, ListedColormap
+    from matplotlib.patches import Patch
+
+    shape = view.shape
+    with style.style():
+        window = layers.window_of(view, zoom)
+        x0, y0, x1, y1 = window
+        fig = style.new_figure(*style.field_size(x1 - x0, y1 - y0, extra_width=0.4))
+        ax = fig.add_subplot()
+        n_mat = len(view.material_names)
+        used = np.unique(shape.triangle_material)
+        colours = ["#ffffff"] * max(n_mat, 1)  # one colour per material drawn, none repeated
+        for k, c in zip(used, style.distinct_colours(used.size), strict=True):
+            colours[k] = c
+        norm = BoundaryNorm(np.arange(len(colours) + 1) - 0.5, len(colours))
+        edges = shape.points[shape.triangles[:, [0, 1]]] - shape.points[shape.triangles[:, [1, 2]]]
+        sizes = np.hypot(edges[..., 0], edges[..., 1]).ravel()
+        cmap = ListedColormap(colours)
+        material = shape.triangle_material.astype(float)
+        fine = view.n_triangles > raster.RASTER_CELLS
+        if fine:  # an image of the materials; edges too fine to show at this scale
+            draw_triangle_values(ax, view, material, window=window, cmap=cmap, norm=norm)
+        else:
+            ax.tripcolor(
+                shape.triangulation,
+                facecolors=material,
+                cmap=cmap,
+                norm=norm,
+                edgecolors="#3c3c3c",
+                linewidth=_edge_width(fig, sizes, window),
+            )
+        layers.draw_outlines(ax, view)
+        handles = layers.draw_boundaries(ax, view)
+        layers.set_window(ax, window)
+        layers.add_scale_bar(ax, view, window)
+        mats = [
+            Patch(facecolor=colours[k], edgecolor="#3c3c3c", lw=0.5, label=view.material_names[k])
+            for k in used
+        ]
+        style.headings(
+            fig,
+            ax,
+            title,
+            f"mesh: {view.n_cells} nodes (control volumes) on {view.n_triangles} triangles, "
+            f"edges {1000 * sizes.min():.3g}–{1000 * sizes.max():.3g} mm"
+            + ("; too fine to draw every edge" if fine else ""),
+        )
+        fig.legend(
+            handles=mats + handles,
+            loc="outside lower center",
+            ncols=style.legend_columns(fig, [h.get_label() for h in mats + handles]),
+            frameon=False,
+            title="materials and boundaries",
+            title_fontsize=7.5,
+        )
     return fig
+
+
+def _edge_width(fig: Figure, sizes: np.ndarray, window: layers.Window) -> float:
+    """Triangle-edge line width (pt): a tenth of the median edge on the page."""
+    x0, y0, x1, y1 = window
+    pt_per_m = 72.0 * min(fig.get_figwidth() / (x1 - x0), fig.get_figheight() / (y1 - y0)) * 0.8
+    return float(np.clip(0.1 * float(np.median(sizes)) * pt_per_m, 0.05, 0.45))
 
 
 def mesh_map(mesh: Mesh, title: str) -> Figure:
-    """The triangles coloured by material (also the preview of ``fvheat check --plot``)."""
-    from matplotlib.colors import ListedColormap
-
-    assert mesh.triangle_material is not None
-    with style.style():
-        fig, ax = _frame(mesh)
-        colours = style.distinct_colours(len(mesh.material_names))  # none repeats
-        ax.tripcolor(
-            _triangulation(mesh),
-            facecolors=mesh.triangle_material.astype(float),
-            cmap=ListedColormap(colours),
-            vmin=-0.5,
-            vmax=len(colours) - 0.5,
-            edgecolors="#555555",
-            linewidth=0.15,
-        )
-        handles = _edges(mesh, ax)
-        style.headings(fig, ax, title, f"{len(mesh.triangle_material)} triangles", "")
-        style.boundary_legend(fig, handles)
-    return fig
-
-
-def draw_triangle_figures(
-    solution: Solution, out: str | Path, summary: dict, surface: Solution | None = None
-) -> list[FigureRecord]:
-    """Draw the figures of a triangle-mesh run into ``out/figures`` and index them."""
-    out = Path(out)
-    title = solution.case.title
-    when = time_label(solution.time) if solution.case.transient else "steady state"
-    marked = coldest_point(summary)
-    records = []
-
-    def save(fig, name: str, caption: str, vector: bool = True) -> None:
-        files = style.save(fig, out / FIGURES_DIR / name, vector=vector)
-        rel = [p.relative_to(out).as_posix() for p in files]
-        records.append(FigureRecord(name, rel[0], rel[1] if len(rel) > 1 else None, caption))
-
-    main_marked = marked if surface is None else None
-    tm = solution.mesh.triangle_material
-    n_triangles = 0 if tm is None else len(tm)
-    save(
-        temperature_map(solution, title, when, main_marked),
-        "temperature",
-        f"Temperature field (°C), {when}, on the triangle mesh (linear in each triangle), "
-        "with isotherms, material outlines and the boundaries coloured. " + SCREENING,
-    )
-    if surface is not None:
-        save(
-            temperature_map(surface, title, "surface-temperature solve", marked),
-            "temperature_surface",
-            "Temperature field (°C) of the steady surface-temperature solve that f_Rsi and "
-            "θ_si,min come from. " + SCREENING,
-        )
-    save(
-        flux_map(solution, title, when),
-        "heat_flux",
-        f"Heat-flux density |q| (W/m², log scale), {when}: q = −λ∇T, constant in each "
-        "triangle (the flux the box method's faces carry).",
-        vector=False,
-    )
-    save(
-        mesh_map(solution.mesh, title),
-        "mesh",
-        f"Computational mesh: {solution.mesh.n_cells} nodes (control volumes) on "
-        f"{n_triangles} triangles coloured by material; "
-        "unmarked exterior edges are adiabatic.",
-        vector=False,
-    )
-    h = solution.history
-    if h is not None and len(h.times) > 1:
-        from fvheat.output.plots.transient import flow_figure, probe_figure
-
-        times = np.asarray(h.times)
-        names = [b.name for b in solution.case.boundaries]
-        if solution.case.probes:
-            probes = {
-                p.name: np.asarray(h.probes)[:, k] for k, p in enumerate(solution.case.probes)
-            }
-            save(probe_figure(times, probes, title=title), "probes", "Probe temperatures (°C).")
-        flows = {n: np.asarray(h.flows)[:, k] for k, n in enumerate(names)}
-        save(
-            flow_figure(times, flows, title=title),
-            "heat_flows",
-            "Heat flow through each boundary (W/m, positive into the body) at every saved time.",
-        )
-    from fvheat.output.plots.sensitivities import sensitivity_figure
-
-    if (drawn := sensitivity_figure(summary, title)) is not None:  # as on the grid
-        save(drawn[0], "sensitivities", drawn[1])
-    atomic_write_text(
-        out / FIGURES_DIR / INDEX_FILE,
-        json.dumps([asdict(r) for r in records], indent=2, ensure_ascii=False) + "\n",
-    )
-    return records
+    """The mesh figure of a triangle ``mesh`` before any solve (``fvheat check --plot``)."""
+    return triangle_mesh_figure(triangle_geometry_view(mesh), title=title)
