@@ -41,20 +41,28 @@ def to_meshio(view: TriangleFieldView) -> meshio.Mesh:
     """The triangle-mesh view as a :class:`meshio.Mesh`."""
     import meshio
 
+    points, blocks, cell_data, point_data = vtu_arrays(view)
+    return meshio.Mesh(points, blocks, point_data=point_data, cell_data=cell_data)
+
+
+def vtu_arrays(
+    view: TriangleFieldView,
+) -> tuple[
+    np.ndarray, list[tuple[str, np.ndarray]], dict[str, list[np.ndarray]], dict[str, np.ndarray]
+]:
+    """Points (k, 3) m, cell blocks (triangles, exterior edges), cell data per block and
+    point data of the VTU of ``view``."""
     shape, lines = view.shape, view.face_nodes
     n_t, n_l = view.n_triangles, lines.shape[0]
     points = np.column_stack([shape.points, np.zeros(view.n_cells)])
-    return meshio.Mesh(
-        points,
-        [("triangle", shape.triangles), ("line", lines)],
-        point_data={"temperature": np.asarray(view.temperature, float)},
-        cell_data={
-            "material": [shape.triangle_material.astype(np.int32), np.full(n_l, -1, np.int32)],
-            "boundary": [np.full(n_t, -1, np.int32), view.face_boundary.astype(np.int32)],
-            "heat_flux": [np.column_stack([view.flux, np.zeros(n_t)]), np.zeros((n_l, 3))],
-            "surface_heat_flux": [np.full(n_t, np.nan), np.asarray(view.face_flux, float)],
-        },
-    )
+    cell_data = {
+        "material": [shape.triangle_material.astype(np.int32), np.full(n_l, -1, np.int32)],
+        "boundary": [np.full(n_t, -1, np.int32), view.face_boundary.astype(np.int32)],
+        "heat_flux": [np.column_stack([view.flux, np.zeros(n_t)]), np.zeros((n_l, 3))],
+        "surface_heat_flux": [np.full(n_t, np.nan), np.asarray(view.face_flux, float)],
+    }
+    blocks = [("triangle", shape.triangles), ("line", lines)]
+    return points, blocks, cell_data, {"temperature": np.asarray(view.temperature, float)}
 
 
 def vtu_writer(view: TriangleFieldView) -> tuple[Callable[[Path, Any, bool], Path], int]:
@@ -63,10 +71,13 @@ def vtu_writer(view: TriangleFieldView) -> tuple[Callable[[Path, Any, bool], Pat
     import meshio
 
     def write(path: Path, v: TriangleFieldView, compress: bool) -> Path:
+        if not compress:  # large: raw appended arrays, at disk speed
+            from fvheat.output.vtu import write_raw_vtu
+
+            return write_raw_vtu(path, *vtu_arrays(v))
         m = to_meshio(v)
-        compression = "zlib" if compress else None
         return atomic_write_file(
-            path, lambda tmp: meshio.vtu.write(tmp, m, binary=True, compression=compression)
+            path, lambda tmp: meshio.vtu.write(tmp, m, binary=True, compression="zlib")
         )
 
     return write, view.n_triangles
@@ -80,9 +91,9 @@ def read_triangle_field(
 ) -> TriangleFieldView:
     """The view stored in the VTU ``path`` (written by :func:`to_meshio`; names from the
     field index ``meta``); ``shape`` is reused when given (the files of one run share it)."""
-    import meshio
+    from fvheat.output.vtu import read_vtu
 
-    mesh = meshio.read(path)
+    mesh = read_vtu(path)
     blocks = {b.type: k for k, b in enumerate(mesh.cells)}
     tb, lb = blocks["triangle"], blocks["line"]
     pts = np.asarray(mesh.points[:, :2], float)

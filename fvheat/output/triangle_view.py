@@ -17,7 +17,7 @@ from __future__ import annotations
 import threading
 from dataclasses import dataclass
 from functools import cached_property
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -44,6 +44,19 @@ class TriangleShape:
         self.triangles = np.asarray(triangles, np.int64)
         self.triangle_material = np.asarray(material, np.int32)
         self._recent: dict[tuple, tuple[np.ndarray, np.ndarray]] = {}
+        self._lock = threading.Lock()
+
+    def __getstate__(self) -> dict[str, Any]:
+        """The arrays and the numpy caches (locator, interfaces), for a figure worker: the
+        lock, the recent lookups and matplotlib's triangulation are rebuilt there."""
+        state = dict(self.__dict__)
+        for name in ("_lock", "_recent", "triangulation"):
+            state.pop(name, None)
+        return state
+
+    def __setstate__(self, state: dict[str, Any]) -> None:
+        self.__dict__.update(state)
+        self._recent = {}
         self._lock = threading.Lock()
 
     @cached_property

@@ -44,11 +44,12 @@ def write_raw_vtu(
     points: np.ndarray,
     blocks: Sequence[tuple[str, np.ndarray]],
     cell_data: Mapping[str, Sequence[np.ndarray]],
+    point_data: Mapping[str, np.ndarray] | None = None,
 ) -> Path:
     """Write ``points`` (k, 3) m, cell ``blocks`` [(type, connectivity (n, p))] with types
-    of :data:`VTK_TYPES`, and ``cell_data`` {name: [array per block, (n,) or (n, c)]}
-    as one VTU file, atomically. Arrays are stored as float64 / int32 / int64 / uint8,
-    little-endian."""
+    of :data:`VTK_TYPES`, ``cell_data`` {name: [array per block, (n,) or (n, c)]} and
+    ``point_data`` {name: (k,) or (k, c)} as one VTU file, atomically. Arrays are stored
+    as float64 / int32 / int64 / uint8, little-endian."""
     conn = np.concatenate([np.asarray(c, np.int64).ravel() for _, c in blocks])
     sizes = np.concatenate([np.full(len(c), np.shape(c)[1], np.int64) for _, c in blocks])
     types = np.concatenate([np.full(len(c), VTK_TYPES[k], np.uint8) for k, c in blocks])
@@ -56,6 +57,8 @@ def write_raw_vtu(
     arrays: list[tuple[str, str, np.ndarray]] = [("Points", "", np.asarray(points, float))]
     arrays += [("Cells", "connectivity", conn), ("Cells", "offsets", offsets)]
     arrays += [("Cells", "types", types)]
+    for name, values in (point_data or {}).items():
+        arrays.append(("PointData", name, np.asarray(values)))
     for name, parts in cell_data.items():
         arrays.append(("CellData", name, np.concatenate([np.asarray(p) for p in parts])))
     arrays = [(where, name, _little_endian(a)) for where, name, a in arrays]
@@ -81,7 +84,7 @@ def _data_array(name: str, a: np.ndarray, offset: int) -> str:
 
 def _header(n_points: int, n_cells: int, arrays: list[tuple[str, str, np.ndarray]]) -> str:
     """The XML before the raw data (offsets count each array's 8-byte length too)."""
-    parts: dict[str, list[str]] = {"Points": [], "Cells": [], "CellData": []}
+    parts: dict[str, list[str]] = {"PointData": [], "CellData": [], "Points": [], "Cells": []}
     offset = 0
     for where, name, a in arrays:
         parts[where].append("        " + _data_array(name, a, offset))
@@ -89,6 +92,7 @@ def _header(n_points: int, n_cells: int, arrays: list[tuple[str, str, np.ndarray
     body = "\n".join(
         f"      <{where}>\n" + "\n".join(lines) + f"\n      </{where}>"
         for where, lines in parts.items()
+        if lines or where != "PointData"
     )
     return (
         '<?xml version="1.0"?>\n'
@@ -161,4 +165,4 @@ def read_vtu(path: str | Path) -> meshio.Mesh:
         blocks.append((_CELL_NAMES[int(types[a])], nodes))
         for name, values in cell_data.items():
             data_blocks[name].append(values[a:b])
-    return meshio.Mesh(points, blocks, cell_data=data_blocks)
+    return meshio.Mesh(points, blocks, point_data=arrays("PointData"), cell_data=data_blocks)

@@ -30,6 +30,7 @@ from fvheat.output.plots.heatflux import (
 )
 from fvheat.output.results import ResultsFolder
 from fvheat.output.triangle_view import TriangleFieldView
+from fvheat.output.vtu import read_vtu
 from fvheat.run import run_to_folder
 
 from .conftest import CASES, coarse_overrides, run_cli, run_demo
@@ -232,9 +233,18 @@ def test_triangle_vtu_follows_the_grids_compression_rule(tmp_path, monkeypatch):
     assert not fields.compress_fields(n_triangles, 1)
     run_to_folder(path, tmp_path / "large", plots=False)
     assert not _compressed(tmp_path / "large" / "fields" / "field.vtu")
+    large = tmp_path / "large" / "fields" / "field.vtu"
+    assert b'encoding="raw"' in large.read_bytes()[:4000]  # fvheat.output.vtu
     a = meshio.read(tmp_path / "small" / "fields" / "field.vtu")
-    b = meshio.read(tmp_path / "large" / "fields" / "field.vtu")
-    np.testing.assert_array_equal(a.point_data["temperature"], b.point_data["temperature"])
+    for b in (meshio.read(large), read_vtu(large)):  # meshio, and fvheat's fast reader
+        np.testing.assert_array_equal(a.point_data["temperature"], b.point_data["temperature"])
+        assert [c.type for c in a.cells] == [c.type for c in b.cells]
+        for x, y in zip(a.cells, b.cells, strict=True):
+            np.testing.assert_array_equal(x.data, y.data)
+        for name, blocks in a.cell_data.items():
+            for x, y in zip(blocks, b.cell_data[name], strict=True):
+                assert x.dtype == y.dtype
+                np.testing.assert_array_equal(x, y)
 
 
 def test_locator_agrees_with_matplotlibs_trifinder(wall):

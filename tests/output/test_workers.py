@@ -29,7 +29,7 @@ def _run(stem: str, out: Path, workers: FigureWorkers | None) -> None:
     run_to_folder(path, out, tuple(coarse_overrides(path)), workers=workers)
 
 
-@pytest.mark.parametrize("stem", ["balcony_slab", "wall_daily_cycle"])
+@pytest.mark.parametrize("stem", ["balcony_slab", "wall_daily_cycle", "eaves_pitched_roof"])
 def test_workers_draw_the_figures_the_run_draws_itself(tmp_path, stem):
     from matplotlib.image import imread
 
