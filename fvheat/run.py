@@ -19,6 +19,8 @@ from fvheat.simulate import Progress
 from fvheat.study import Study, run_study
 
 if TYPE_CHECKING:
+    from fvheat.case.model import Case
+    from fvheat.mesh.mesh import Mesh
     from fvheat.output.workers import FigureWorkers
 
 
@@ -58,6 +60,8 @@ def run_to_folder(
     check_output_folder(out, "--out")
     mesh = build_mesh(case)
     warnings = check_model(case, mesh)
+    if plots and workers is not None and len(workers):
+        _start_mesh_figure(workers, case, mesh)
     created = not out.exists()
     try:
         with folder_lock(out):
@@ -91,6 +95,15 @@ def run_to_folder(
             out.rmdir()
         raise
     return study, summary
+
+
+def _start_mesh_figure(workers: FigureWorkers, case: Case, mesh: Mesh) -> None:
+    """Have the first figure worker draw the mesh figure (in memory) while the run solves;
+    :func:`fvheat.output.folder.write_outputs` collects and writes it."""
+    from fvheat.output.plots.figures import render_mesh_figure
+    from fvheat.output.triangle_view import any_geometry_view
+
+    workers.submit(render_mesh_figure, [(any_geometry_view(mesh), case.title)])
 
 
 def _sensitivities(case_file: Path, overrides: tuple[str, ...], study: Study):

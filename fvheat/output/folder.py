@@ -108,6 +108,7 @@ def _draw_in_workers(
     """The figures drawn by ``workers`` while this process writes the field files; the
     files written, figures last."""
     from fvheat.output.plots.figures import (
+        RenderedFigure,
         draw_group,
         planned_figures,
         split_figures,
@@ -115,14 +116,18 @@ def _draw_in_workers(
         write_index,
     )
 
+    # the mesh figure, when the run had a worker draw it during the solve
+    early: list[RenderedFigure] = workers.results() if workers.busy else []
     folder = ResultsFolder.open(out)
     frozen = memory.freeze(states_needed(len(memory.field_times())))
-    groups = split_figures(planned_figures(folder, frozen), len(workers))
+    names = [n for n in planned_figures(folder, frozen) if n not in {r.name for r in early}]
+    groups = split_figures(names, len(workers))
     workers.submit(draw_group, [(out, frozen, names) for names in groups])
     try:
         written = _write_field_files(study, out, memory, fields)
     finally:  # the figures finish (or fail) before an error of the field files goes up
         records = [r for group in workers.results() for r in group]
+    records += [r.save(out) for r in early]
     write_index(out, records)
     for r in records:
         written += [out / r.png] + ([out / r.svg] if r.svg else [])

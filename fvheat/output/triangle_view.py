@@ -216,6 +216,13 @@ def triangle_geometry_view(mesh: Mesh, shape: TriangleShape | None = None) -> Tr
     )
 
 
+def any_geometry_view(mesh: Mesh) -> AnyGeometryView:
+    """The geometry view of either kind of mesh."""
+    from fvheat.output.view import geometry_view
+
+    return triangle_geometry_view(mesh) if mesh.triangles is not None else geometry_view(mesh)
+
+
 class TriangleViews:
     """Field views of one triangle-mesh ``solution``, its geometry built once (``shape``
     reused from another run on the same mesh when given)."""

@@ -1,7 +1,8 @@
 """Figure workers: processes that draw a run's figures next to the process that solves.
 
 ``fvheat run`` starts them before it loads the case: each imports matplotlib and warms its
-font cache on the core the solver leaves idle (the sparse solves run on one core). Once
+font cache on the core the solver leaves idle (the sparse solves run on one core), and the
+first draws the mesh figure in memory as soon as the mesh is made. Once
 ``summary.json`` is written the run sends each worker the fields its figures need (views
 of the saved states, pickled: about 50 MB and 0.03 s at 1 M cells) and a group of figure
 names; the workers draw in parallel while the run itself writes the field files. Each
@@ -88,6 +89,11 @@ class FigureWorkers:
         for conn, job in zip(self._conns, jobs, strict=False):
             conn.send((fn, job))
         self._busy = len(jobs)
+
+    @property
+    def busy(self) -> int:
+        """Jobs submitted and not collected yet."""
+        return self._busy
 
     def results(self) -> list[Any]:
         """The results of the submitted jobs, in order, once every one has ended. The error

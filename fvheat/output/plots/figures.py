@@ -31,7 +31,12 @@ from fvheat.output.plots.transient import (
     snapshot_indices,
 )
 from fvheat.output.results import FIGURES_DIR, ResultsFolder
-from fvheat.output.triangle_view import AnyFieldView, TriangleFieldView
+from fvheat.output.triangle_view import (
+    AnyFieldView,
+    AnyGeometryView,
+    TriangleFieldView,
+    TriangleGeometryView,
+)
 
 log = logging.getLogger(__name__)
 
@@ -68,9 +73,53 @@ def _when(folder: ResultsFolder, t: float) -> str:
 def _save(
     fig, folder: ResultsFolder, name: str, caption: str, *, vector: bool = True
 ) -> FigureRecord:
-    files = style.save(fig, folder.path / FIGURES_DIR / name, vector=vector)
-    rel = [str(p.relative_to(folder.path).as_posix()) for p in files]
+    return _record(
+        folder.path, name, style.save(fig, folder.path / FIGURES_DIR / name, vector=vector), caption
+    )
+
+
+def _record(out: Path, name: str, files: list[Path], caption: str) -> FigureRecord:
+    rel = [str(p.relative_to(out).as_posix()) for p in files]
     return FigureRecord(name, rel[0], rel[1] if len(rel) > 1 else None, caption)
+
+
+@dataclass(frozen=True)
+class RenderedFigure:
+    """A figure drawn before its results folder may be written (the mesh figure, drawn by
+    a figure worker during the solve): file bytes by suffix and the caption."""
+
+    name: str
+    files: dict[str, bytes]
+    caption: str
+
+    def save(self, out: Path) -> FigureRecord:
+        """Write the files into ``out/figures`` (atomically); the index record."""
+        paths = style.write_rendered(self.files, out / FIGURES_DIR / self.name)
+        return _record(out, self.name, paths, self.caption)
+
+
+def render_mesh_figure(view: AnyGeometryView, title: str) -> RenderedFigure:
+    """The mesh figure of ``view`` (titled ``title``), rendered in memory (a figure
+    worker's job while the run solves)."""
+    fig, caption = _mesh_figure(view, title, None)
+    return RenderedFigure("mesh", style.render(fig, vector=False), caption)
+
+
+def _mesh_figure(view: AnyGeometryView, title: str, zoom: layers.Window | None) -> tuple[Any, str]:
+    """The mesh figure of either mesh and its caption (without the window note)."""
+    if isinstance(view, TriangleGeometryView):
+        from fvheat.output.plots.triangles import triangle_mesh_figure
+
+        fig = triangle_mesh_figure(view, title=title, zoom=zoom)
+        cells = f"{view.n_cells} nodes (control volumes) on {view.n_triangles} triangles"
+    else:
+        fig = mesh_figure(view, title=title, zoom=zoom)
+        cells = f"{view.n_cells} cells"
+    caption = (
+        f"Computational mesh: {cells} coloured by material, boundaries "
+        "coloured and named; unmarked exterior edges are adiabatic."
+    )
+    return fig, caption
 
 
 def draw_figures(
@@ -142,18 +191,7 @@ def draw_figures(
         records.append(_save(fig, folder, "heat_flux", caption + window_note))
 
     if want("mesh"):
-        if isinstance(view, TriangleFieldView):
-            from fvheat.output.plots.triangles import triangle_mesh_figure
-
-            fig = triangle_mesh_figure(view, title=title, zoom=zoom)
-            cells = f"{view.n_cells} nodes (control volumes) on {view.n_triangles} triangles"
-        else:
-            fig = mesh_figure(view, title=title, zoom=zoom)
-            cells = f"{view.n_cells} cells"
-        caption = (
-            f"Computational mesh: {cells} coloured by material, boundaries "
-            "coloured and named; unmarked exterior edges are adiabatic."
-        )
+        fig, caption = _mesh_figure(view, title, zoom)
         records.append(_save(fig, folder, "mesh", caption + window_note, vector=False))
 
     if folder.transient:

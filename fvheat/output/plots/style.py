@@ -209,12 +209,21 @@ def headings(fig: Figure, ax: Axes, title: str, subtitle: str = "", note: str = 
 
 
 def save(fig: Figure, path: str | Path, *, vector: bool = True) -> list[Path]:
-    """Write ``fig`` as ``path`` with suffix .png and, if ``vector``, .svg; atomically.
+    """Write ``fig`` as ``path`` with suffix .png and, if ``vector``, .svg; atomically
+    (see :func:`render`)."""
+    return write_rendered(render(fig, vector=vector), path)
 
-    The layout is computed once, for the PNG, and reused for the SVG.
-    """
+
+def write_rendered(files: dict[str, bytes], path: str | Path) -> list[Path]:
+    """Write rendered ``files`` ({suffix: bytes}) as ``path`` with each suffix, atomically."""
     path = Path(path)
-    out = []
+    return [atomic_write_bytes(path.with_suffix(k), v) for k, v in files.items()]
+
+
+def render(fig: Figure, *, vector: bool = True) -> dict[str, bytes]:
+    """``fig`` as PNG and, if ``vector``, SVG bytes by suffix. The layout is computed once,
+    for the PNG, and reused for the SVG."""
+    out = {}
     for suffix, opts in (
         (".png", {"dpi": PNG_DPI}),
         (".svg", {"dpi": PNG_DPI, "metadata": {"Date": None}}),
@@ -226,7 +235,7 @@ def save(fig: Figure, path: str | Path, *, vector: bool = True) -> list[Path]:
         buf = io.BytesIO()
         with style(), _no_layout_draw(fig, suffix == ".svg"):  # style: e.g. the SVG's id salt
             fig.savefig(buf, format=suffix[1:], **opts)
-        out.append(atomic_write_bytes(path.with_suffix(suffix), buf.getvalue()))
+        out[suffix] = buf.getvalue()
     return out
 
 
