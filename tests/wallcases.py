@@ -7,6 +7,10 @@ outside air temperature given (a number or a CSV series such as :data:`WEATHER`)
 :data:`ROOM_HUMIDITY` adds condensation hours reading a room-humidity series;
 :data:`SERIES_FILES` are the series they read (:func:`write_files` writes them beside the
 case).
+
+:data:`TRIANGLE_WALL` is a two-layer wall (0.1 m of λ = 1 and 0.1 m of λ = 0.1 W/(m·K),
+0.5 m high) on the triangle mesh, 20 °C inside through R_si = 0.13 and 0 °C outside through
+R_se = 0.04.
 """
 
 from __future__ import annotations
@@ -31,6 +35,36 @@ SERIES_FILES = {
     "weather.csv": "time,t_out\n0,-5\n7200,0\n",
     "data/room.csv": "time,rh\n0,50\n7200,60\n",
 }
+
+
+#: a two-layer wall on the triangle mesh (see the module text)
+TRIANGLE_WALL = """
+title = "two-layer wall"
+[mesh]
+max_cell = 0.02
+min_cell = 0.005
+kind = "triangles"
+[materials.a]
+conductivity = 1.0
+[materials.b]
+conductivity = 0.1
+[[regions]]
+material = "a"
+box = [0.0, 0.0, 0.2, 0.5]
+[[regions]]
+material = "b"
+box = [0.1, 0.0, 0.2, 0.5]
+[[boundaries]]
+name = "inside"
+edges = [[[0.2, 0.0], [0.2, 0.5]]]
+air_temperature = 20.0
+resistance = 0.13
+[[boundaries]]
+name = "outside"
+edges = [[[0.0, 0.0], [0.0, 0.5]]]
+air_temperature = 0.0
+resistance = 0.04
+"""
 
 
 def wall(outside: str, extra: str = "") -> str:

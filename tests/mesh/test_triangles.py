@@ -12,6 +12,7 @@ import numpy as np
 import pytest
 import shapely
 from casefiles import load, write_case
+from wallcases import TRIANGLE_WALL
 
 from fvheat.errors import CaseError
 from fvheat.mesh.select import build_mesh, mesh_kind
@@ -155,33 +156,7 @@ def test_figures_and_preview_on_triangles(tmp_path):
     assert write_preview(case, build_mesh(case), tmp_path / "p.png").stat().st_size > 10_000
 
 
-WALL = """
-title = "two-layer wall"
-[mesh]
-max_cell = 0.02
-min_cell = 0.005
-kind = "triangles"
-[materials.a]
-conductivity = 1.0
-[materials.b]
-conductivity = 0.1
-[[regions]]
-material = "a"
-box = [0.0, 0.0, 0.2, 0.5]
-[[regions]]
-material = "b"
-box = [0.1, 0.0, 0.2, 0.5]
-[[boundaries]]
-name = "inside"
-edges = [[[0.2, 0.0], [0.2, 0.5]]]
-air_temperature = 20.0
-resistance = 0.13
-[[boundaries]]
-name = "outside"
-edges = [[[0.0, 0.0], [0.0, 0.5]]]
-air_temperature = 0.0
-resistance = 0.04
-"""
+WALL = TRIANGLE_WALL
 
 
 def test_triangle_heat_flux_of_a_wall(tmp_path):

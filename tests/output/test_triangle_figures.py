@@ -18,6 +18,7 @@ import meshio
 import numpy as np
 import pytest
 from casefiles import write_case
+from wallcases import TRIANGLE_WALL
 
 from fvheat.output import fields
 from fvheat.output.plots import raster
@@ -36,33 +37,7 @@ from fvheat.run import run_to_folder
 from .conftest import CASES, coarse_overrides, run_cli, run_demo
 from .test_figures_from_memory import _pngs, _redrawn_from_files, _same_pictures
 
-WALL = """
-title = "two-layer wall"
-[mesh]
-max_cell = 0.02
-min_cell = 0.005
-kind = "triangles"
-[materials.a]
-conductivity = 1.0
-[materials.b]
-conductivity = 0.1
-[[regions]]
-material = "a"
-box = [0.0, 0.0, 0.2, 0.5]
-[[regions]]
-material = "b"
-box = [0.1, 0.0, 0.2, 0.5]
-[[boundaries]]
-name = "inside"
-edges = [[[0.2, 0.0], [0.2, 0.5]]]
-air_temperature = 20.0
-resistance = 0.13
-[[boundaries]]
-name = "outside"
-edges = [[[0.0, 0.0], [0.0, 0.5]]]
-air_temperature = 0.0
-resistance = 0.04
-"""
+WALL = TRIANGLE_WALL
 #: ISO 6946: q = Δθ / (R_si + Σ d/λ + R_se), W/m²
 Q_WALL = 20.0 / (0.13 + 0.1 / 1.0 + 0.1 / 0.1 + 0.04)
 

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -10,7 +10,10 @@ from fvheat.output.plots import layers, style
 from fvheat.output.view import GeometryView
 
 if TYPE_CHECKING:
+    from matplotlib.axes import Axes
     from matplotlib.figure import Figure
+
+    from fvheat.output.triangle_view import AnyGeometryView
 
 
 def mesh_figure(
@@ -18,22 +21,14 @@ def mesh_figure(
 ) -> Figure:
     """Cells of ``view`` outlined and coloured by material, boundaries coloured and named."""
     from matplotlib.collections import LineCollection
-    from matplotlib.colors import BoundaryNorm, ListedColormap
-    from matplotlib.patches import Patch
 
     with style.style():
         window = layers.window_of(view, zoom)
         x0, y0, x1, y1 = window
         fig = style.new_figure(*style.field_size(x1 - x0, y1 - y0, extra_width=0.4))
         ax = fig.add_subplot()
-        n_mat = len(view.material_names)
         used = np.unique(view.material)
-        # one colour per material drawn, none repeated (a cavity never looks like a metal)
-        colours = ["#ffffff"] * n_mat
-        for k, c in zip(used, style.distinct_colours(used.size), strict=True):
-            colours[k] = c
-        cmap = ListedColormap(colours)
-        norm = BoundaryNorm(np.arange(n_mat + 1) - 0.5, n_mat)
+        colours, cmap, norm = material_colours(len(view.material_names), used)
         x, y = view.grid.x, view.grid.y
         layers.draw_cells(ax, view, view.material, window=window, cmap=cmap, norm=norm)
         # (shared with the preview, which imports this module)
@@ -45,37 +40,70 @@ def mesh_figure(
         ax.add_collection(
             LineCollection(list(layers.cell_edges(view, step)), colors="#3c3c3c", linewidths=width)
         )
-        layers.draw_outlines(ax, view)
-        handles = layers.draw_boundaries(ax, view)
-        layers.set_window(ax, window)
-        layers.add_scale_bar(ax, view, window)
-        mats = [
-            Patch(facecolor=colours[k], edgecolor="#3c3c3c", lw=0.5, label=view.material_names[k])
-            for k in used
-        ]
-        dx, dy = np.diff(x), np.diff(y)
-        sizes = np.concatenate([dx, dy])
-        style.headings(
+        sizes = np.concatenate([np.diff(x), np.diff(y)])
+        note = f"{1000 * sizes.min():.3g}–{1000 * sizes.max():.3g} mm" + (
+            "" if step == 1 else f"; every {ordinal(step)} grid line drawn (too fine to show all)"
+        )
+        finish_mesh_figure(
             fig,
             ax,
+            view,
+            window,
+            [colours[k] for k in used],
+            [view.material_names[k] for k in used],
             title,
-            f"mesh: {view.n_cells} cells on {x.size} × {y.size} grid lines, cell edges "
-            f"{1000 * sizes.min():.3g}–{1000 * sizes.max():.3g} mm"
-            + (
-                ""
-                if step == 1
-                else f"; every {ordinal(step)} grid line drawn (too fine to show all)"
-            ),
-        )
-        fig.legend(
-            handles=mats + handles,
-            loc="outside lower center",
-            ncols=style.legend_columns(fig, [h.get_label() for h in mats + handles]),
-            frameon=False,
-            title="materials and boundaries",
-            title_fontsize=7.5,
+            f"mesh: {view.n_cells} cells on {x.size} × {y.size} grid lines, cell edges {note}",
         )
     return fig
+
+
+def material_colours(n_materials: int, used: np.ndarray) -> tuple[list[str], Any, Any]:
+    """One colour per material drawn, none repeated (a cavity never looks like a metal),
+    white for the others; with the colour map and norm that draw material indices."""
+    from matplotlib.colors import BoundaryNorm, ListedColormap
+
+    colours = ["#ffffff"] * max(n_materials, 1)
+    for k, c in zip(used, style.distinct_colours(used.size), strict=True):
+        colours[k] = c
+    return (
+        colours,
+        ListedColormap(colours),
+        BoundaryNorm(np.arange(len(colours) + 1) - 0.5, len(colours)),
+    )
+
+
+def finish_mesh_figure(
+    fig: Figure,
+    ax: Axes,
+    view: AnyGeometryView,
+    window: layers.Window,
+    colours: list,
+    materials: list[str],
+    title: str,
+    subtitle: str,
+) -> None:
+    """What the mesh figures of both meshes share: material outlines, boundaries, window,
+    scale bar, headings and the legend of ``materials`` (drawn in ``colours``) and
+    boundaries."""
+    from matplotlib.patches import Patch
+
+    layers.draw_outlines(ax, view)
+    handles = layers.draw_boundaries(ax, view)
+    layers.set_window(ax, window)
+    layers.add_scale_bar(ax, view, window)
+    mats = [
+        Patch(facecolor=c, edgecolor="#3c3c3c", lw=0.5, label=name)
+        for c, name in zip(colours, materials, strict=True)
+    ]
+    style.headings(fig, ax, title, subtitle)
+    fig.legend(
+        handles=mats + handles,
+        loc="outside lower center",
+        ncols=style.legend_columns(fig, [h.get_label() for h in mats + handles]),
+        frameon=False,
+        title="materials and boundaries",
+        title_fontsize=7.5,
+    )
 
 
 def edge_width(fig: Figure, view: GeometryView, window: layers.Window) -> float:

@@ -79,8 +79,7 @@ def triangle_mesh_figure(
 ) -> Figure:
     """The triangles of ``view`` outlined and coloured by material, boundaries coloured
     and named (the mesh figure of a run and ``fvheat check --plot``)."""
-    from matplotlib.colors import BoundaryNorm, ListedColormap
-    from matplotlib.patches import Patch
+    from fvheat.output.plots.meshplot import finish_mesh_figure, material_colours
 
     shape = view.shape
     with style.style():
@@ -88,15 +87,10 @@ def triangle_mesh_figure(
         x0, y0, x1, y1 = window
         fig = style.new_figure(*style.field_size(x1 - x0, y1 - y0, extra_width=0.4))
         ax = fig.add_subplot()
-        n_mat = len(view.material_names)
         used = np.unique(shape.triangle_material)
-        colours = ["#ffffff"] * max(n_mat, 1)  # one colour per material drawn, none repeated
-        for k, c in zip(used, style.distinct_colours(used.size), strict=True):
-            colours[k] = c
-        norm = BoundaryNorm(np.arange(len(colours) + 1) - 0.5, len(colours))
+        colours, cmap, norm = material_colours(len(view.material_names), used)
         edges = shape.points[shape.triangles[:, [0, 1]]] - shape.points[shape.triangles[:, [1, 2]]]
         sizes = np.hypot(edges[..., 0], edges[..., 1]).ravel()
-        cmap = ListedColormap(colours)
         material = shape.triangle_material.astype(float)
         fine = view.n_triangles > raster.RASTER_CELLS
         if fine:  # an image of the materials; edges too fine to show at this scale
@@ -110,29 +104,17 @@ def triangle_mesh_figure(
                 edgecolors="#3c3c3c",
                 linewidth=_edge_width(fig, sizes, window),
             )
-        layers.draw_outlines(ax, view)
-        handles = layers.draw_boundaries(ax, view)
-        layers.set_window(ax, window)
-        layers.add_scale_bar(ax, view, window)
-        mats = [
-            Patch(facecolor=colours[k], edgecolor="#3c3c3c", lw=0.5, label=view.material_names[k])
-            for k in used
-        ]
-        style.headings(
+        finish_mesh_figure(
             fig,
             ax,
+            view,
+            window,
+            [colours[k] for k in used],
+            [view.material_names[k] for k in used],
             title,
             f"mesh: {view.n_cells} nodes (control volumes) on {view.n_triangles} triangles, "
             f"edges {1000 * sizes.min():.3g}–{1000 * sizes.max():.3g} mm"
             + ("; too fine to draw every edge" if fine else ""),
-        )
-        fig.legend(
-            handles=mats + handles,
-            loc="outside lower center",
-            ncols=style.legend_columns(fig, [h.get_label() for h in mats + handles]),
-            frameon=False,
-            title="materials and boundaries",
-            title_fontsize=7.5,
         )
     return fig
 
