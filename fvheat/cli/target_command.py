@@ -9,6 +9,7 @@ from pathlib import Path
 from fvheat.cautions import CAUTION
 from fvheat.output.files import atomic_write_text
 from fvheat.output.paths import check_output_folder
+from fvheat.output.workers import RUN_WORKERS, FigureWorkers
 from fvheat.run import run_to_folder
 from fvheat.target.goal import parse_goal
 from fvheat.target.runner import search_target
@@ -72,7 +73,8 @@ def target_case(
     answer = search.answer
     assert answer is not None
     final = (*overrides, f"{key}={answer.value!r}")
-    run_to_folder(case_file, out, final)
+    with FigureWorkers(RUN_WORKERS) as workers:  # the final run, drawn as `fvheat run` draws
+        run_to_folder(case_file, out, final, workers=workers)
     record = {
         "key": key,
         "value": answer.value,
