@@ -72,6 +72,9 @@ def run_to_folder(
             t1 = time.perf_counter()
             if want:
                 study.sensitivities = _sensitivities(case_file, overrides, study)
+            for sol in (study.solution, study.surface_solution):
+                if sol is not None:  # the factorisation served the adjoint: free it now
+                    sol.factor = None
             t2 = time.perf_counter()
             summary = build_summary(study, overrides)
             summary["solve_seconds"] = time.perf_counter() - t0
