@@ -38,7 +38,7 @@ def test_bench_quick_runs_and_agrees(tmp_path):
     assert (tmp_path / "out_transient_10" / "timeseries.csv").is_file()
     # every target of the output / start-up / sweep measurements is printed with a verdict
     for target in (
-        r"figures of a steady run at [\d,]+ cells: .* (PASS|FAIL)",
+        r"figures of a steady run at [\d,]+ cells, as fvheat run draws them .* (PASS|FAIL)",
         r"field files read back by meshio with every codec at [\d,]+ cells: PASS",
         r"start-up, fvheat --help: .* (PASS|FAIL)",
         r"sweep overhead per variant, balcony demo, --fields none, 1 worker: .* (PASS|FAIL)",
