@@ -105,8 +105,12 @@ def _start_mesh_figure(workers: FigureWorkers, case: Case, mesh: Mesh) -> None:
     :func:`fvheat.output.folder.write_outputs` collects and writes it."""
     from fvheat.output.plots.figures import render_mesh_figure
     from fvheat.output.triangle_view import any_geometry_view
+    from fvheat.output.workers import WorkerLost
 
-    workers.submit(render_mesh_figure, [(any_geometry_view(mesh), case.title)])
+    try:
+        workers.submit(render_mesh_figure, [(any_geometry_view(mesh), case.title)])
+    except WorkerLost:  # the figures will be drawn in this process (write_outputs says so)
+        pass
 
 
 def _sensitivities(case_file: Path, overrides: tuple[str, ...], study: Study):

@@ -108,27 +108,44 @@ def _draw_in_workers(
     """The figures drawn by ``workers`` while this process writes the field files; the
     files written, figures last."""
     from fvheat.output.plots.figures import (
+        FigureRecord,
         RenderedFigure,
+        draw_figures,
         draw_group,
         planned_figures,
         split_figures,
         states_needed,
         write_index,
     )
+    from fvheat.output.workers import WorkerLost
 
-    # the mesh figure, when the run had a worker draw it during the solve
-    early: list[RenderedFigure] = workers.results() if workers.busy else []
     folder = ResultsFolder.open(out)
     frozen = memory.freeze(states_needed(len(memory.field_times())))
-    names = [n for n in planned_figures(folder, frozen) if n not in {r.name for r in early}]
-    groups = split_figures(names, len(workers))
-    workers.submit(draw_group, [(out, frozen, names) for names in groups])
+    records: list[FigureRecord] | None = None
+    try:
+        # the mesh figure, when the run had a worker draw it during the solve
+        early: list[RenderedFigure] = workers.results() if workers.busy else []
+        names = [n for n in planned_figures(folder, frozen) if n not in {r.name for r in early}]
+        groups = split_figures(names, len(workers))
+        workers.submit(draw_group, [(out, frozen, names) for names in groups])
+    except WorkerLost as err:
+        lost: WorkerLost | None = err
+    else:
+        lost = None
     try:
         written = _write_field_files(study, out, memory, fields)
     finally:  # the figures finish (or fail) before an error of the field files goes up
-        records = [r for group in workers.results() for r in group]
-    records += [r.save(out) for r in early]
-    write_index(out, records)
+        if lost is None:
+            try:
+                records = [r for group in workers.results() for r in group]
+                records += [r.save(out) for r in early]
+            except WorkerLost as err:
+                lost = err
+    if records is None:  # a worker was killed (out of memory?): draw them here instead
+        log.warning("%s; the figures are drawn in the run's own process instead", lost)
+        records = draw_figures(folder, fields=memory)
+    else:
+        write_index(out, records)
     for r in records:
         written += [out / r.png] + ([out / r.svg] if r.svg else [])
     return written

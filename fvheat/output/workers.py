@@ -33,6 +33,11 @@ CLOSE_WAIT = 5.0
 RUN_WORKERS = 2
 
 
+class WorkerLost(RuntimeError):
+    """A figure worker ended without an answer (killed, out of memory): its figures must
+    be drawn elsewhere; the pool is not used again."""
+
+
 def available_cores() -> int:
     """Cores this process may run on."""
     try:
@@ -56,6 +61,7 @@ class FigureWorkers:
         self._conns: list[Connection] = []
         self._procs: list[Any] = []
         self._busy = 0  # jobs submitted and not collected
+        self._lost = ""  # why the pool is not used again
         ctx = multiprocessing.get_context("fork") if worker_count(n) else None
         for _ in range(worker_count(n)):
             assert ctx is not None
@@ -86,9 +92,22 @@ class FigureWorkers:
             raise RuntimeError("the figure workers' earlier jobs are not collected yet")
         if len(jobs) > len(self._conns):
             raise ValueError(f"{len(jobs)} jobs for {len(self._conns)} workers")
-        for conn, job in zip(self._conns, jobs, strict=False):
-            conn.send((fn, job))
+        if self._lost:
+            raise WorkerLost(self._lost)
+        for k, (conn, job) in enumerate(zip(self._conns, jobs, strict=False)):
+            try:
+                conn.send((fn, job))
+            except OSError:  # the worker is gone: collect what was sent, then say so
+                self._busy = k
+                self.results()
+                self._lost = f"figure worker {self._procs[k].pid} ended before its job"
+                raise WorkerLost(self._lost) from None
         self._busy = len(jobs)
+
+    @property
+    def pids(self) -> list[int]:
+        """Process ids of the workers."""
+        return [int(p.pid) for p in self._procs]
 
     @property
     def busy(self) -> int:
@@ -97,7 +116,7 @@ class FigureWorkers:
 
     def results(self) -> list[Any]:
         """The results of the submitted jobs, in order, once every one has ended. The error
-        of a failed job is raised; a worker that died is a :class:`RuntimeError`."""
+        of a failed job is raised; a worker that died is a :class:`WorkerLost`."""
         replies = []
         for conn, proc in zip(self._conns, self._procs[: self._busy], strict=False):
             try:
@@ -106,10 +125,12 @@ class FigureWorkers:
                 replies.append(("died", f"figure worker {proc.pid} ended without an answer"))
         self._busy = 0
         for kind, value in replies:
+            if kind == "died":
+                self._lost = value
+                raise WorkerLost(value)
+        for kind, value in replies:
             if kind == "error":
                 raise value
-            if kind == "died":
-                raise RuntimeError(value)
         return [value for _, value in replies]
 
     def close(self, *, wait: bool = True) -> None:

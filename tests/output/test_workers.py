@@ -111,3 +111,27 @@ def test_an_error_that_does_not_pickle_arrives_as_its_traceback():
         workers.submit(_fails_awkwardly, [()])
         with pytest.raises(RuntimeError, match="_Awkward: held a lock"):
             workers.results()
+
+
+@pytest.mark.parametrize("victim", [0, 1])
+def test_a_run_whose_worker_is_killed_draws_its_figures_itself(tmp_path, caplog, victim):
+    """A worker killed from outside (out of memory, say) costs no output: the run draws
+    the figures in its own process, the same pictures, and says so in a warning."""
+    import signal
+
+    from matplotlib.image import imread
+
+    here, there = tmp_path / "here", tmp_path / "there"
+    _run("balcony_slab", here, None)
+    with FigureWorkers(2) as workers:
+        pid = workers.pids[victim]
+        os.kill(pid, signal.SIGKILL)
+        time.sleep(0.2)  # gone before the run starts
+        with caplog.at_level("WARNING"):
+            _run("balcony_slab", there, workers)
+    assert f"figure worker {pid} ended" in caplog.text
+    index = json.loads((here / "figures" / "figures.json").read_text(encoding="utf-8"))
+    assert json.loads((there / "figures" / "figures.json").read_text(encoding="utf-8")) == index
+    for entry in index:
+        assert np.array_equal(imread(here / entry["png"]), imread(there / entry["png"]))
+    assert (there / "report.html").is_file() and (there / "fields" / "field.vtu").is_file()
