@@ -25,6 +25,7 @@ from scipy.spatial import cKDTree
 from fvheat.case.model import Case
 from fvheat.errors import CaseError
 from fvheat.mesh.geometry import points_in_polygon, segment_frame
+from fvheat.mesh.lattice import SPACING, seed_points
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.rectilinear import CORNER_TURN_DEG, on_body
 from fvheat.mesh.segments import attach_boundaries
@@ -70,14 +71,24 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
     body = float(_triangle_areas(rough["vertices"], rough["triangles"][region >= 0]).sum())
     check_node_count(case, int(body / float(_area(size.largest)) / 2), refined=refine > 1.0)
     largest = np.format_float_positional(float(_area(size.largest)), trim="-")
+    seeds = seed_points(
+        points,
+        segments,
+        SPACING * size.largest,
+        lambda p: paint_points(case, p) >= 0,
+        size,
+        size.largest,
+    )
+    pslg["vertices"] = np.vstack([points, seeds])
     tri = triangle.triangulate(pslg, flags + f"a{largest}")
     for _ in range(PASSES if size.graded else 0):
         v, t = tri["vertices"], tri["triangles"]
         target = _area(size(v[t].mean(axis=1)))
-        if np.all(_triangle_areas(v, t) <= 1.3 * target):
+        area = _triangle_areas(v, t)
+        if np.all(area <= 1.3 * target):
             break  # every triangle within 1.3 × its target area
         # the triangles this pass will make (each at most its target area), before it runs
-        planned = float((_triangle_areas(v, t) / target).clip(1.0).sum())
+        planned = float((area / target).clip(1.0).sum())
         check_node_count(case, int(planned / 2), refined=refine > 1.0)
         tri = triangle.triangulate(dict(tri, triangle_max_area=target), "r" + flags + "a")
     v, t = tri["vertices"], tri["triangles"].astype(np.int64)
@@ -150,6 +161,7 @@ class SizeFunction:
         return bool(self.groups)
 
     def __call__(self, x: np.ndarray) -> np.ndarray:
+        """h (m) at the points ``x`` (n, 2) m."""
         h = np.full(len(x), self.largest)
         slope = self.growth - 1.0
         for (p, s), tree in zip(self.groups, self.trees, strict=True):
@@ -254,8 +266,13 @@ def constraints(case: Case) -> tuple[np.ndarray, np.ndarray, float]:
 
 def paint_triangles(case: Case, v: np.ndarray, t: np.ndarray) -> np.ndarray:
     """Index of the region painting each triangle (by its centroid; −1 outside the body)."""
-    c = v[t].mean(axis=1)
-    owner = np.full(len(t), -1, dtype=np.int64)
+    return paint_points(case, v[t].mean(axis=1))
+
+
+def paint_points(case: Case, c: np.ndarray) -> np.ndarray:
+    """Index of the region painting each point (n, 2) m (the last region containing it,
+    holes excepted; −1 outside the body)."""
+    owner = np.full(len(c), -1, dtype=np.int64)
     for k, r in enumerate(case.regions):
         x0, y0, x1, y1 = r.bounds
         near = (c[:, 0] >= x0) & (c[:, 0] <= x1) & (c[:, 1] >= y0) & (c[:, 1] <= y1)
