@@ -27,6 +27,8 @@ SPACING = 0.8
 #: lattice points closer than this many spacings to a constraint (outline, boundary
 #: segment, cut, probe) are left out; triangle then fills the band along it
 CLEARANCE = 0.5
+#: no lattice when the graph's box is more than this many times the body's area
+BOX_RATIO = 8.0
 
 
 def hex_lattice(lo: np.ndarray, hi: np.ndarray, spacing: float) -> np.ndarray:
@@ -46,17 +48,24 @@ def seed_points(
     spacing: float,
     inside: Callable[[np.ndarray], np.ndarray],
     size: Callable[[np.ndarray], np.ndarray],
-    largest: float,
+    body: float,
+    others: np.ndarray | None = None,
 ) -> np.ndarray:
     """Lattice nodes (n, 2) m of ``spacing`` (m) to add to the graph ``vertices`` (m),
     ``segments`` (index pairs): those that ``inside`` accepts (on the meshed body), at least
-    :data:`CLEARANCE` spacings from every segment and vertex, and where the size function
-    ``size`` (m) is at its ``largest`` (m): nearer a corner, refinement grades the mesh."""
+    :data:`CLEARANCE` spacings from every segment and vertex (and point of ``others``,
+    (k, 2) m, nodes placed otherwise), and where the size function
+    ``size`` (m) is at its largest (``spacing`` / :data:`SPACING`): nearer a corner,
+    refinement grades the mesh. None when the lattice over the graph's box would have more
+    than :data:`BOX_RATIO` times the nodes of one over the ``body``'s area (m², a thin
+    sloped part in a large box): triangle then refines without seeds."""
     if len(vertices) == 0 or spacing <= 0.0:
         return np.zeros((0, 2))
     lo, hi = vertices.min(axis=0), vertices.max(axis=0)
+    if float(np.prod(hi - lo + spacing)) > BOX_RATIO * body:
+        return np.zeros((0, 2))
     pts = hex_lattice(lo, hi, spacing)
-    keep = np.asarray(size(pts)) >= largest * (1.0 - 1e-9)
+    keep = np.asarray(size(pts)) >= spacing / SPACING * (1.0 - 1e-9)
     pts = pts[keep]
     pts = pts[inside(pts)]
     if len(pts) == 0:
@@ -65,7 +74,7 @@ def seed_points(
     # of a sample lies within a gap of the constraint, and one within 0.96 gap of a
     # segment lies within a gap of a sample (a k-d tree query, O(n log m))
     gap = CLEARANCE * spacing
-    samples = [vertices]
+    samples = [vertices] if others is None else [vertices, others]
     if len(segments):
         a, b = vertices[segments[:, 0]], vertices[segments[:, 1]]
         count = np.ceil(np.hypot(*(b - a).T) / (0.5 * gap)).astype(np.int64) + 1

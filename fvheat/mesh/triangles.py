@@ -29,7 +29,7 @@ from fvheat.mesh.lattice import SPACING, seed_points
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.segments import attach_boundaries
 from fvheat.mesh.size import check_node_count
-from fvheat.mesh.triangle_sizes import case_scale, outline_rings, size_function
+from fvheat.mesh.triangle_sizes import SizeFunction, case_scale, outline_rings, size_function
 
 log = logging.getLogger(__name__)
 
@@ -63,28 +63,70 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
     body = float(_triangle_areas(rough["vertices"], rough["triangles"][region >= 0]).sum())
     check_node_count(case, int(body / float(_area(size.largest)) / 2), refined=refine > 1.0)
     largest = np.format_float_positional(float(_area(size.largest)), trim="-")
+    if size.graded:  # the corners' graded zones first, on a coarse mesh
+        pslg, inner = _graded(case, pslg, size, flags, refine > 1.0)
+    else:
+        inner = np.zeros((0, 2))
     seeds = seed_points(
-        points,
-        segments,
+        pslg["vertices"],
+        pslg["segments"],
         SPACING * size.largest,
         lambda p: paint_points(case, p) >= 0,
         size,
-        size.largest,
+        body,
+        inner,
     )
-    pslg["vertices"] = np.vstack([points, seeds])
+    pslg["vertices"] = np.vstack([pslg["vertices"], inner, seeds])
     tri = triangle.triangulate(pslg, flags + f"a{largest}")
+    v, t = tri["vertices"], tri["triangles"]
+    centroid, area = _centroids(v, t), _triangle_areas(v, t)
     for _ in range(PASSES if size.graded else 0):
-        v, t = tri["vertices"], tri["triangles"]
-        target = _area(size(_centroids(v, t)))
-        area = _triangle_areas(v, t)
+        target = _area(size(centroid))
         if np.all(area <= 1.3 * target):
             break  # every triangle within 1.3 × its target area
         # the triangles this pass will make (each at most its target area), before it runs
         planned = float((area / target).clip(1.0).sum())
         check_node_count(case, int(planned / 2), refined=refine > 1.0)
         tri = triangle.triangulate(dict(tri, triangle_max_area=target), "r" + flags + "a")
-    v, t = tri["vertices"], tri["triangles"].astype(np.int64)
-    return finish_mesh(case, v, t, paint_triangles(case, v, t))
+        v, t = tri["vertices"], tri["triangles"]
+        centroid, area = _centroids(v, t), _triangle_areas(v, t)
+    return finish_mesh(case, v, t.astype(np.int64), paint_points(case, centroid))
+
+
+#: the coarse mesh of :func:`_graded` has edges of this many times the largest
+COARSE = 4.0
+
+
+def _graded(
+    case: Case, pslg: dict, size: SizeFunction, flags: str, refined: bool
+) -> tuple[dict, np.ndarray]:
+    """The constraint graph with its segments split as the size function asks near the
+    corners, and the nodes (k, 2) m of the corners' graded zones (where h < largest), both
+    from a mesh refined there (the passes of :func:`build_triangle_mesh`) and coarse
+    (:data:`COARSE` × the largest edge) everywhere else: refinement passes on this small
+    mesh cost little, where on the final one each pass re-triangulates every node."""
+    import triangle
+
+    cap = COARSE * size.largest
+    bound = np.format_float_positional(float(_area(cap)), trim="-")
+    tri = triangle.triangulate(pslg, flags + "a" + bound)
+    for _ in range(PASSES):
+        v, t = tri["vertices"], tri["triangles"]
+        h = size(_centroids(v, t))
+        target = _area(np.where(h < size.largest, h, cap))
+        area = _triangle_areas(v, t)
+        if np.all(area <= 1.3 * target):
+            break
+        check_node_count(case, int((area / target).clip(1.0).sum() / 2), refined=refined)
+        tri = triangle.triangulate(dict(tri, triangle_max_area=target), "r" + flags + "a")
+    v, seg = tri["vertices"], tri["segments"]
+    on_segment = np.zeros(len(v), dtype=bool)
+    on_segment[seg] = True
+    inner = v[~on_segment & (size(v) < size.largest * (1.0 - 1e-9))]
+    used = np.flatnonzero(on_segment)
+    rank = np.zeros(len(v), dtype=np.int64)
+    rank[used] = np.arange(len(used))
+    return dict(pslg, vertices=v[used], segments=rank[seg]), inner
 
 
 def finish_mesh(case: Case, v: np.ndarray, t: np.ndarray, region: np.ndarray) -> Mesh:
@@ -274,17 +316,20 @@ def box_mesh(
 
 def boundary_edges(a: np.ndarray, b: np.ndarray, n: int) -> tuple[np.ndarray, np.ndarray]:
     """The edges a → b (vertex indices < ``n``) of consistently oriented triangles that no
-    other triangle has, in either direction: the boundary edges, sorted by (a, b). Sparse
-    matrices count the edges (a counting sort, O(edges))."""
-    import scipy.sparse as sp
-
-    one = np.ones(len(a), dtype=np.int32)
-    # entry (i, j): 3 × (edges i → j) + (edges j → i); one edge, directed a → b, gives 3
-    count = sp.coo_matrix(
-        sp.csr_matrix((3 * one, (a, b)), shape=(n, n)) + sp.csr_matrix((one, (b, a)), shape=(n, n))
-    )
-    edge = count.data == 3
-    return count.row[edge].astype(np.int64), count.col[edge].astype(np.int64)
+    other triangle has, in either direction: the boundary edges, sorted by (min, max)."""
+    big = np.int64(n)
+    lo, hi = np.minimum(a, b), np.maximum(a, b)
+    # the undirected edge, and its direction in the lowest bit; one sort finds the pairs
+    key = np.sort((lo * big + hi) * 2 + (a > b))
+    edge = key >> 1
+    single = np.ones(len(key), dtype=bool)
+    pair = edge[1:] == edge[:-1]
+    single[1:] &= ~pair
+    single[:-1] &= ~pair
+    key = key[single]
+    turned = (key & 1).astype(bool)
+    lo, hi = np.divmod(key >> 1, big)
+    return np.where(turned, hi, lo), np.where(turned, lo, hi)
 
 
 def largest_piece(mesh: Mesh) -> np.ndarray:
