@@ -9,12 +9,17 @@ large steady grids and the factorisation otherwise (limits in
 :class:`~fvheat.case.model.SolverSettings`, the case's ``[solver]`` table).
 
 Ruge–Stüben on both meshes: on the triangle mesh's P1 matrix (200 000 nodes, 7 entries a
-row) it needs 27 CG iterations to 1e-10 where the grid's 5-point matrix needs 11 (with
-pyamg's default smoothers; see :data:`PRESMOOTHER`).
+row, lattice-seeded: see mesh/lattice.py) it needs 10 CG iterations to 1e-10 with the
+second pass of the splitting (:func:`splitting`), 18 without; the grid's 5-point matrix
+13 (with the smoothers of :data:`PRESMOOTHER`). Before the lattice, the irregular
+refinement-only mesh needed 33 (27 with pyamg's default smoothers), and the second pass
+did not pay there (19 iterations, slower set-up).
 Smoothed aggregation (``pyamg.smoothed_aggregation_solver``, symmetric Gauss–Seidel) was
-measured on the same matrix: 22 iterations with the default strength (θ = 0), 12–13 with
+measured on the irregular mesh's matrix: 22 iterations with the default strength (θ = 0), 12–13 with
 θ = 0.05–0.08, but its set-up is slower, so set-up plus solve was only 0–10 % faster, and
 θ = 0.2 took 200 iterations (on the grid's matrix too): too fragile to choose by mesh kind.
+On the lattice-seeded matrix it needs 14–15 iterations (θ = 0.05–0.08, candidates not
+improved) but 0.45–0.7 s of set-up: slower than Ruge–Stüben with the second pass.
 
 Every AMG-CG solve ends with a Galerkin correction along the constant vector: for a
 symmetric positive-definite A this never increases the error in the energy norm, and it
@@ -125,6 +130,26 @@ PRESMOOTHER = ("gauss_seidel", {"sweep": "forward"})
 POSTSMOOTHER = ("gauss_seidel", {"sweep": "backward"})
 
 
+#: matrices with more than this many entries a row (on average) get the second pass of
+#: the Ruge–Stüben splitting (see :func:`splitting`)
+SECOND_PASS_ABOVE = 5.5
+
+
+def splitting(a: sp.csr_matrix) -> str | tuple[str, dict[str, bool]]:
+    """pyamg's C/F splitting for ``a``: Ruge–Stüben, with its second pass (every pair of
+    strongly connected fine points shares a coarse point) on matrices of more than
+    :data:`SECOND_PASS_ABOVE` entries a row. On the triangle mesh's P1 matrix (about 7 a
+    row; lattice-seeded, 200 000 nodes) the second pass took CG from 18 to 10 iterations
+    for about the same set-up: set-up plus solve 0.45 → 0.38 s (four alternating runs
+    each, on a machine shared with other work). The grid's 5-point matrices keep the single pass (9 instead of 13 iterations
+    there, 0.31 → 0.28 s, not taken so far: the grid's benchmark table was measured
+    without it)."""
+    n = max(a.shape[0], 1)
+    if a.nnz > SECOND_PASS_ABOVE * n:
+        return ("RS", {"second_pass": True})
+    return "RS"
+
+
 class AmgSolver:
     """CG preconditioned by a Ruge–Stüben AMG hierarchy built once for ``a``.
 
@@ -145,7 +170,10 @@ class AmgSolver:
         self.iterations = 0  # CG iterations over all solves
         with single_thread():
             self._ml = pyamg.ruge_stuben_solver(
-                self.a, presmoother=PRESMOOTHER, postsmoother=POSTSMOOTHER
+                self.a,
+                CF=splitting(self.a),
+                presmoother=PRESMOOTHER,
+                postsmoother=POSTSMOOTHER,
             )
         log.debug("AMG hierarchy: %d levels", len(self._ml.levels))
         self._precond = v_cycle(self._ml)
