@@ -38,7 +38,7 @@ class SizeFunction:
         # beyond (largest − s)/slope of every corner a group cannot lower h
         self.reach = [(largest - s) / slope if slope > 0.0 else np.inf for _, s in self.groups]
         self.near = [
-            _Near(p, r) if np.isfinite(r) else None
+            NearPoints(p, r) if np.isfinite(r) else None
             for (p, _), r in zip(self.groups, self.reach, strict=True)
         ]
 
@@ -69,7 +69,7 @@ class SizeFunction:
         return h
 
 
-class _Near:
+class NearPoints:
     """Which points may lie within ``reach`` (m) of some of the ``corners`` (k, 2) m: a
     raster of square cells no smaller than ``reach`` marks each corner's cell and its eight
     neighbours (a point within ``reach`` of a corner lies in one of them). O(points)."""

@@ -173,10 +173,10 @@ def _centroids(v: np.ndarray, t: np.ndarray) -> np.ndarray:
 
 
 def _triangle_areas(v: np.ndarray, t: np.ndarray) -> np.ndarray:
-    a, b, c = v[t[:, 0]], v[t[:, 1]], v[t[:, 2]]
-    return 0.5 * (
-        (b[:, 0] - a[:, 0]) * (c[:, 1] - a[:, 1]) - (b[:, 1] - a[:, 1]) * (c[:, 0] - a[:, 0])
-    )
+    """Signed areas (m², positive counter-clockwise) of triangles ``t`` on points ``v``."""
+    x, y = v[:, 0], v[:, 1]
+    x0, y0 = x[t[:, 0]], y[t[:, 0]]
+    return 0.5 * ((x[t[:, 1]] - x0) * (y[t[:, 2]] - y0) - (y[t[:, 1]] - y0) * (x[t[:, 2]] - x0))
 
 
 def constraints(case: Case) -> tuple[np.ndarray, np.ndarray, float]:
@@ -250,10 +250,11 @@ def box_mesh(
     xa, ya, xb, yb = x[a], y[a], x[b], y[b]
     ux, uy = xa - x[c], ya - y[c]
     wx, wy = xb - x[c], yb - y[c]
-    weight = 0.5 * (ux * wx + uy * wy) / (ux * wy - uy * wx)
+    # ½·cot θ = ½·(u·w)/(u × w), and u × w is twice the (counter-clockwise) triangle's area
+    weight = (ux * wx + uy * wy) / np.repeat(4.0 * area, 3)
     # the dual segment: centroid − edge midpoint = (2c − a − b)/6 = −(u + w)/6
     dx, dy = (ux + wx) / -6.0, (uy + wy) / -6.0
-    length = np.hypot(dx, dy)
+    length = np.sqrt(dx * dx + dy * dy)
     ax, ay = wx - ux, wy - uy  # the edge a → b
     # the dual segment turned clockwise, pointing from a towards b (a counter-clockwise
     # triangle's centroid lies left of a → b, so this is the sign that crosses to b)
@@ -261,7 +262,7 @@ def box_mesh(
     normal = np.empty((len(a), 2))
     np.multiply(dy, turn, out=normal[:, 0])
     np.multiply(dx, -turn, out=normal[:, 1])
-    half_edge = 0.5 * np.hypot(ax, ay)
+    half_edge = 0.5 * np.sqrt(ax * ax + ay * ay)
     face_centre = np.empty((len(a), 2))  # halfway along the dual segment
     np.multiply(xa + xb + dx, 0.5, out=face_centre[:, 0])
     np.multiply(ya + yb + dy, 0.5, out=face_centre[:, 1])
