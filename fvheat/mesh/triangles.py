@@ -79,17 +79,20 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
     pslg["vertices"] = np.vstack([pslg["vertices"], inner, seeds])
     tri = triangle.triangulate(pslg, flags + f"a{largest}")
     v, t = tri["vertices"], tri["triangles"]
-    centroid, area = _centroids(v, t), _triangle_areas(v, t)
+    centroid = _centroids(v, t)
     for _ in range(PASSES if size.graded else 0):
-        target = _area(size(centroid))
-        if np.all(area <= 1.3 * target):
+        h = size(centroid)
+        # elsewhere h is the largest, which the area bound of the last call already met
+        near = np.flatnonzero(h < size.largest)
+        if np.all(_triangle_areas(v, t[near]) <= 1.3 * _area(h[near])):
             break  # every triangle within 1.3 × its target area
+        target, area = _area(h), _triangle_areas(v, t)
         # the triangles this pass will make (each at most its target area), before it runs
         planned = float((area / target).clip(1.0).sum())
         check_node_count(case, int(planned / 2), refined=refine > 1.0)
         tri = triangle.triangulate(dict(tri, triangle_max_area=target), "r" + flags + "a")
         v, t = tri["vertices"], tri["triangles"]
-        centroid, area = _centroids(v, t), _triangle_areas(v, t)
+        centroid = _centroids(v, t)
     return finish_mesh(case, v, t.astype(np.int64), paint_points(case, centroid))
 
 
@@ -245,27 +248,45 @@ def box_mesh(
     a = t[:, [1, 2, 0]].ravel()
     b = t[:, [2, 0, 1]].ravel()
     c = t.ravel()
-    # coordinates gathered once, per component (these arrays are 3 × triangles long)
+    # coordinates gathered once, per component (these arrays are 3 × triangles long);
+    # the arithmetic in place, to keep the number of such arrays (and fresh pages) down
     x, y = v[:, 0], v[:, 1]
-    xa, ya, xb, yb = x[a], y[a], x[b], y[b]
-    ux, uy = xa - x[c], ya - y[c]
-    wx, wy = xb - x[c], yb - y[c]
+    xa, ya, xc, yc = x[a], y[a], x[c], y[c]
+    ux, uy = xa - xc, ya - yc
+    wx, wy = np.subtract(x[b], xc, out=xc), np.subtract(y[b], yc, out=yc)
     # ½·cot θ = ½·(u·w)/(u × w), and u × w is twice the (counter-clockwise) triangle's area
-    weight = (ux * wx + uy * wy) / np.repeat(4.0 * area, 3)
+    weight = ux * wx
+    weight += uy * wy
+    weight /= np.repeat(4.0 * area, 3)
     # the dual segment: centroid − edge midpoint = (2c − a − b)/6 = −(u + w)/6
-    dx, dy = (ux + wx) / -6.0, (uy + wy) / -6.0
-    length = np.sqrt(dx * dx + dy * dy)
-    ax, ay = wx - ux, wy - uy  # the edge a → b
+    dx, dy = ux + wx, uy + wy
+    dx /= -6.0
+    dy /= -6.0
+    length = dx * dx
+    length += dy * dy
+    np.sqrt(length, out=length)
+    ax, ay = np.subtract(wx, ux, out=wx), np.subtract(wy, uy, out=wy)  # the edge a → b
     # the dual segment turned clockwise, pointing from a towards b (a counter-clockwise
     # triangle's centroid lies left of a → b, so this is the sign that crosses to b)
-    turn = np.sign(dy * ax - dx * ay) / length
+    turn = np.multiply(dy, ax, out=ux)
+    turn -= np.multiply(dx, ay, out=uy)
+    np.sign(turn, out=turn)
+    turn /= length
     normal = np.empty((len(a), 2))
     np.multiply(dy, turn, out=normal[:, 0])
-    np.multiply(dx, -turn, out=normal[:, 1])
-    half_edge = 0.5 * np.sqrt(ax * ax + ay * ay)
-    face_centre = np.empty((len(a), 2))  # halfway along the dual segment
-    np.multiply(xa + xb + dx, 0.5, out=face_centre[:, 0])
-    np.multiply(ya + yb + dy, 0.5, out=face_centre[:, 1])
+    np.negative(turn, out=turn)
+    np.multiply(dx, turn, out=normal[:, 1])
+    half_edge = ax * ax
+    half_edge += ay * ay
+    np.sqrt(half_edge, out=half_edge)
+    half_edge *= 0.5
+    face_centre = np.empty((len(a), 2))  # halfway along the dual segment: (a + b + 2d)/2
+    xa += x[b]
+    xa += dx
+    np.multiply(xa, 0.5, out=face_centre[:, 0])
+    ya += y[b]
+    ya += dy
+    np.multiply(ya, 0.5, out=face_centre[:, 1])
     face_material = np.repeat(tri_material, 3).astype(np.int32)
 
     piece_cell = t.ravel()
