@@ -6,9 +6,9 @@ the area bound) leaves irregular triangles of about half the bound's area, with 
 five to eight neighbours. Seeded with the nodes of a hexagonal lattice away from every
 constraint, the triangulation is equilateral there and the refinement works only along
 outlines and near corners. Measured on the benchmark section (``scripts/bench.py
---triangles 200000``, same node count): triangulation 0.5 → 0.15 s, and Ruge–Stüben AMG-CG
-needs 22 iterations instead of 33 on the regular P1 matrix (its off-diagonals are equal
-and negative: an M-matrix, like the grid's).
+--triangles 200000``, same node count): triangulation 0.5 → 0.12 s, and Ruge–Stüben
+AMG-CG needs 18 iterations instead of 33 on the regular P1 matrix (its off-diagonals are
+equal and negative away from the outlines: nearly an M-matrix, like the grid's).
 """
 
 from __future__ import annotations

@@ -5,7 +5,10 @@ constraint of the triangulation (the `triangle` library: constrained, quality-bo
 Delaunay). Sizes follow ``[mesh]``: edges of about ``max_cell`` far from corners, shrinking
 to ``min_cell`` at every outline corner and boundary-segment end (``corner_cell`` at
 corners on surfaces tied to a temperature, a quarter of it at their re-entrant corners),
-growing by ``growth`` per cell in between.
+growing by ``growth`` per cell in between. Where the size is at its largest the mesh is
+seeded with a hexagonal lattice (:mod:`fvheat.mesh.lattice`: equilateral triangles), the
+corners' graded zones come from a coarse mesh refined there (:func:`_graded`), and one
+final triangulation joins them.
 Each triangle takes the material of the last region containing its centroid (triangles
 never straddle an outline, so this is exact); triangles no region covers are dropped.
 
