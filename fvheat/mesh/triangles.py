@@ -126,10 +126,13 @@ def _graded(
         check_node_count(case, int((area / target).clip(1.0).sum() / 2), refined=refined)
         tri = triangle.triangulate(dict(tri, triangle_max_area=target), "r" + flags + "a")
     v, seg = tri["vertices"], tri["segments"]
-    on_segment = np.zeros(len(v), dtype=bool)
-    on_segment[seg] = True
-    inner = v[~on_segment & (size(v) < size.largest * (1.0 - 1e-9))]
-    used = np.flatnonzero(on_segment)
+    # the graph's own vertices (triangle keeps them first, in order: probes among them)
+    # and the vertices splitting its segments
+    kept = np.zeros(len(v), dtype=bool)
+    kept[seg] = True
+    kept[: len(pslg["vertices"])] = True
+    inner = v[~kept & (size(v) < size.largest * (1.0 - 1e-9))]
+    used = np.flatnonzero(kept)
     rank = np.zeros(len(v), dtype=np.int64)
     rank[used] = np.arange(len(used))
     return dict(pslg, vertices=v[used], segments=rank[seg]), inner

@@ -83,6 +83,18 @@ def test_uniform_square_is_mostly_equilateral(tmp_path):
     assert np.mean(off > 0.0) < 0.01  # obtuse pairs only in the band along the outline
 
 
+def test_probes_stay_nodes_among_the_seeds(tmp_path):
+    """Every probe is a vertex of the constraint graph, so a node of the mesh, also inside
+    the lattice (where no segment holds it) and in a corner's graded zone."""
+    probes = [[0.5037, 0.4983], [0.011, 0.013]]
+    text = SQUARE.replace("min_cell = 0.02", "min_cell = 0.005") + "".join(
+        f'[[probes]]\nname = "p{i}"\nat = {p}\n' for i, p in enumerate(probes)
+    )
+    mesh = build_mesh(load(tmp_path, text))
+    for p in probes:
+        assert np.hypot(*(mesh.centres - np.array(p)).T).min() < 1e-12
+
+
 def test_no_seeds_in_a_box_far_larger_than_the_body():
     """A thin diagonal strip: the lattice over its box would be mostly outside it, so none
     is made (triangle refines alone)."""
