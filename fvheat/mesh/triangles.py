@@ -80,7 +80,8 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
         inner,
     )
     pslg["vertices"] = np.vstack([pslg["vertices"], inner, seeds])
-    tri = triangle.triangulate(pslg, flags + f"a{largest}")
+    # "n": the neighbours of each triangle come free, and give the boundary edges
+    tri = triangle.triangulate(pslg, flags + f"na{largest}")
     v, t = tri["vertices"], tri["triangles"]
     centroid = _centroids(v, t)
     for _ in range(PASSES if size.graded else 0):
@@ -93,10 +94,12 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
         # the triangles this pass will make (each at most its target area), before it runs
         planned = float((area / target).clip(1.0).sum())
         check_node_count(case, int(planned / 2), refined=refine > 1.0)
-        tri = triangle.triangulate(dict(tri, triangle_max_area=target), "r" + flags + "a")
+        again = {k: x for k, x in tri.items() if k != "neighbors"}
+        tri = triangle.triangulate(dict(again, triangle_max_area=target), "r" + flags + "na")
         v, t = tri["vertices"], tri["triangles"]
         centroid = _centroids(v, t)
-    return finish_mesh(case, v, t.astype(np.int64), paint_points(case, centroid))
+    region = paint_points(case, centroid)
+    return finish_mesh(case, v, t.astype(np.int64), region, tri["neighbors"])
 
 
 #: the coarse mesh of :func:`_graded` has edges of this many times the largest
@@ -138,15 +141,24 @@ def _graded(
     return dict(pslg, vertices=v[used], segments=rank[seg]), inner
 
 
-def finish_mesh(case: Case, v: np.ndarray, t: np.ndarray, region: np.ndarray) -> Mesh:
+def finish_mesh(
+    case: Case,
+    v: np.ndarray,
+    t: np.ndarray,
+    region: np.ndarray,
+    neighbours: np.ndarray | None = None,
+) -> Mesh:
     """The box-method mesh of triangles ``t`` on points ``v`` (m) painted by ``region``
     (index of the case region per triangle, −1: dropped), with the case's boundaries
-    attached and its probes checked."""
+    attached and its probes checked. ``neighbours`` (k, 3), the triangle opposite each
+    vertex (−1: none), as the triangulation gives them, spare the search for the boundary
+    edges."""
     from dataclasses import replace
 
     from fvheat.mesh.ordering import spatial_order
 
     keep = region >= 0
+    edges = None if neighbours is None else _open_edges(v, t, keep, neighbours)
     t = t[keep]
     mark = np.zeros(len(v), dtype=bool)
     mark[t] = True
@@ -162,12 +174,40 @@ def finish_mesh(case: Case, v: np.ndarray, t: np.ndarray, region: np.ndarray) ->
     tri_region = region[keep][by_node]
     names = tuple(case.materials)
     material = np.array([names.index(r.material) for r in case.regions], dtype=np.int32)
-    mesh = box_mesh(v[used], t, material[tri_region], names, tuple(b.name for b in case.boundaries))
+    if edges is not None:
+        edges = _sorted_edges(rank[edges[0]], rank[edges[1]], used.size)
+    mesh = box_mesh(
+        v[used],
+        t,
+        material[tri_region],
+        names,
+        tuple(b.name for b in case.boundaries),
+        edges,
+    )
     piece_region = np.repeat(tri_region, 3)
     mesh = replace(mesh, piece_region=piece_region, region=piece_region[largest_piece(mesh)])
     mesh = attach_boundaries(case, mesh)
     check_probes(case, mesh)
     return mesh
+
+
+def _open_edges(
+    v: np.ndarray, t: np.ndarray, keep: np.ndarray, neighbours: np.ndarray
+) -> tuple[np.ndarray, np.ndarray]:
+    """The edges a → b (the kept triangle's interior on the left) of kept triangles whose
+    neighbour across is missing or dropped: the body's boundary edges."""
+    alive = np.append(keep, False)  # index −1: no neighbour
+    tk, nk = t[keep], np.asarray(neighbours)[keep]
+    rows, j = np.nonzero(~alive[nk])
+    a, b = tk[rows, (j + 1) % 3], tk[rows, (j + 2) % 3]
+    turned = _triangle_areas(v, tk[rows]) < 0  # (triangle makes them counter-clockwise)
+    return np.where(turned, b, a), np.where(turned, a, b)
+
+
+def _sorted_edges(a: np.ndarray, b: np.ndarray, n: int) -> tuple[np.ndarray, np.ndarray]:
+    """Edges a → b in the order :func:`boundary_edges` gives them (by min, then max)."""
+    order = np.argsort(np.minimum(a, b) * np.int64(n) + np.maximum(a, b), kind="stable")
+    return a[order], b[order]
 
 
 def _area(h: np.ndarray | float) -> np.ndarray:
@@ -234,9 +274,11 @@ def box_mesh(
     tri_material: np.ndarray,
     material_names: tuple[str, ...],
     boundary_names: tuple[str, ...],
+    edges: tuple[np.ndarray, np.ndarray] | None = None,
 ) -> Mesh:
     """The vertex-centred :class:`Mesh` of triangles ``t`` (k, 3) on vertices ``v`` (m):
     control volumes bounded by the median dual (edge midpoints joined to centroids).
+    ``edges``: the boundary edges as :func:`boundary_edges` finds them, when known.
 
     Interior faces: one per triangle and edge (owner → neighbour along the edge), weight
     ½·cot of the opposite angle, material of the triangle. Pieces: one per triangle and
@@ -301,7 +343,7 @@ def box_mesh(
     volumes = np.bincount(piece_cell, weights=piece_volume, minlength=nv)
 
     # counter-clockwise triangles: the body lies left of a → b
-    ea, eb = boundary_edges(a, b, nv)
+    ea, eb = edges if edges is not None else boundary_edges(a, b, nv)
     d = v[eb] - v[ea]
     elen = np.hypot(*d.T)
     out = np.column_stack([d[:, 1], -d[:, 0]]) / elen[:, None]
