@@ -60,11 +60,11 @@ def run_to_folder(
     check_output_folder(out, "--out")
     mesh = build_mesh(case)
     warnings = check_model(case, mesh)
-    if plots and workers is not None and len(workers):
-        _start_mesh_figure(workers, case, mesh)
     created = not out.exists()
     try:
         with folder_lock(out):
+            if plots and workers is not None and len(workers):
+                _start_mesh_figure(workers, case, mesh)
             t0 = time.perf_counter()
             study = run_study(
                 case, mesh=mesh, progress=progress, check_grid=grid_check, warnings=warnings

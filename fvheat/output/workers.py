@@ -146,20 +146,26 @@ class FigureWorkers:
     def close(self, *, wait: bool = True) -> None:
         """Ask every worker to leave and stop those that do not within ``CLOSE_WAIT`` s
         (at once unless ``wait``: a run that failed does not wait for their warm-up)."""
-        sending = any(s.running() for s in self._senders)
-        for conn in self._conns:
+        # a job still being written cannot be followed by the note to leave: stop them
+        stop = not wait or any(s.running() for s in self._senders)
+        for conn, proc in zip(self._conns, self._procs, strict=True):
+            if stop:
+                proc.terminate()
+                continue
             try:
-                if not sending:  # (a job still being written: stop them below instead)
-                    conn.send(None)
+                conn.send(None)
             except (OSError, ValueError):  # already gone
                 pass
+        for sender in self._senders:  # a write to a stopped worker fails at once
+            sender.sent()
+        for conn in self._conns:
             conn.close()
         for proc in self._procs:
-            proc.join(CLOSE_WAIT if wait and not sending else 0.0)
+            proc.join(0.0 if stop else CLOSE_WAIT)
             if proc.is_alive():
                 proc.terminate()
                 proc.join()
-        self._conns, self._procs = [], []
+        self._conns, self._procs, self._senders = [], [], []
 
 
 class _Sender:
@@ -177,7 +183,7 @@ class _Sender:
         try:
             conn.send_bytes(payload)
             self._ok = True
-        except (OSError, ValueError):  # the worker is gone (or the pipe closed)
+        except Exception:  # the worker is gone or the pipe closed: results() says so
             pass
 
     def running(self) -> bool:

@@ -135,3 +135,24 @@ def test_a_run_whose_worker_is_killed_draws_its_figures_itself(tmp_path, caplog,
     for entry in index:
         assert np.array_equal(imread(here / entry["png"]), imread(there / entry["png"]))
     assert (there / "report.html").is_file() and (there / "fields" / "field.vtu").is_file()
+
+
+def _length(data: bytes) -> int:
+    return len(data)
+
+
+def test_closing_while_a_large_job_is_being_written_is_quiet(monkeypatch):
+    """A run that fails while its workers are still warming up and a large job (a 1 M-cell
+    view is 50 MB) is on its way stops them at once: no error from the writing thread, no
+    process left."""
+    import threading
+
+    seen: list[BaseException] = []
+    monkeypatch.setattr(threading, "excepthook", lambda a: seen.append(a.exc_value))
+    t0 = time.perf_counter()
+    workers = FigureWorkers(2)
+    workers.submit(_length, [(bytes(100_000_000),), (bytes(100_000_000),)])
+    workers.close(wait=False)
+    assert time.perf_counter() - t0 < 5.0
+    assert seen == []
+    assert multiprocessing.active_children() == []
