@@ -49,8 +49,8 @@ def mesh_figure(
             ax,
             view,
             window,
-            [colours[k] for k in used],
-            [view.material_names[k] for k in used],
+            colours,
+            used,
             title,
             f"mesh: {view.n_cells} cells on {x.size} × {y.size} grid lines, cell edges {note}",
         )
@@ -77,14 +77,14 @@ def finish_mesh_figure(
     ax: Axes,
     view: AnyGeometryView,
     window: layers.Window,
-    colours: list,
-    materials: list[str],
+    colours: list[str],
+    used: np.ndarray,
     title: str,
     subtitle: str,
 ) -> None:
     """What the mesh figures of both meshes share: material outlines, boundaries, window,
-    scale bar, headings and the legend of ``materials`` (drawn in ``colours``) and
-    boundaries."""
+    scale bar, headings and the legend of the materials ``used`` (indices, drawn in their
+    ``colours``) and the boundaries."""
     from matplotlib.patches import Patch
 
     layers.draw_outlines(ax, view)
@@ -92,8 +92,8 @@ def finish_mesh_figure(
     layers.set_window(ax, window)
     layers.add_scale_bar(ax, view, window)
     mats = [
-        Patch(facecolor=c, edgecolor="#3c3c3c", lw=0.5, label=name)
-        for c, name in zip(colours, materials, strict=True)
+        Patch(facecolor=colours[k], edgecolor="#3c3c3c", lw=0.5, label=view.material_names[k])
+        for k in used
     ]
     style.headings(fig, ax, title, subtitle)
     fig.legend(

@@ -109,8 +109,8 @@ def triangle_mesh_figure(
             ax,
             view,
             window,
-            [colours[k] for k in used],
-            [view.material_names[k] for k in used],
+            colours,
+            used,
             title,
             f"mesh: {view.n_cells} nodes (control volumes) on {view.n_triangles} triangles, "
             f"edges {1000 * sizes.min():.3g}–{1000 * sizes.max():.3g} mm"
