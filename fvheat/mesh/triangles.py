@@ -27,6 +27,7 @@ from scipy.spatial import cKDTree
 
 from fvheat.case.model import Case
 from fvheat.errors import CaseError
+from fvheat.mesh.box import box_mesh, largest_piece, open_edges, sorted_edges, triangle_areas
 from fvheat.mesh.geometry import points_in_polygon, segment_frame
 from fvheat.mesh.lattice import SPACING, seed_points
 from fvheat.mesh.mesh import Mesh
@@ -63,7 +64,7 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
     flags = f"pq{MIN_ANGLE_DEG:g}Q"
     # triangle reads the area bound as a plain decimal (no exponent)
     # the body at the largest size alone: about one node per two triangles, before any is made
-    body = float(_triangle_areas(rough["vertices"], rough["triangles"][region >= 0]).sum())
+    body = float(triangle_areas(rough["vertices"], rough["triangles"][region >= 0]).sum())
     check_node_count(case, int(body / float(_area(size.largest)) / 2), refined=refine > 1.0)
     largest = np.format_float_positional(float(_area(size.largest)), trim="-")
     if size.graded:  # the corners' graded zones first, on a coarse mesh
@@ -88,9 +89,9 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
         h = size(centroid)
         # elsewhere h is the largest, which the area bound of the last call already met
         near = np.flatnonzero(h < size.largest)
-        if np.all(_triangle_areas(v, t[near]) <= 1.3 * _area(h[near])):
+        if np.all(triangle_areas(v, t[near]) <= 1.3 * _area(h[near])):
             break  # every triangle within 1.3 × its target area
-        target, area = _area(h), _triangle_areas(v, t)
+        target, area = _area(h), triangle_areas(v, t)
         # the triangles this pass will make (each at most its target area), before it runs
         planned = float((area / target).clip(1.0).sum())
         check_node_count(case, int(planned / 2), refined=refine > 1.0)
@@ -123,7 +124,7 @@ def _graded(
         v, t = tri["vertices"], tri["triangles"]
         h = size(_centroids(v, t))
         target = _area(np.where(h < size.largest, h, cap))
-        area = _triangle_areas(v, t)
+        area = triangle_areas(v, t)
         if np.all(area <= 1.3 * target):
             break
         check_node_count(case, int((area / target).clip(1.0).sum() / 2), refined=refined)
@@ -158,7 +159,7 @@ def finish_mesh(
     from fvheat.mesh.ordering import spatial_order
 
     keep = region >= 0
-    edges = None if neighbours is None else _open_edges(v, t, keep, neighbours)
+    edges = None if neighbours is None else open_edges(v, t, keep, neighbours)
     t = t[keep]
     mark = np.zeros(len(v), dtype=bool)
     mark[t] = True
@@ -175,7 +176,7 @@ def finish_mesh(
     names = tuple(case.materials)
     material = np.array([names.index(r.material) for r in case.regions], dtype=np.int32)
     if edges is not None:
-        edges = _sorted_edges(rank[edges[0]], rank[edges[1]], used.size)
+        edges = sorted_edges(rank[edges[0]], rank[edges[1]], used.size)
     mesh = box_mesh(
         v[used],
         t,
@@ -191,25 +192,6 @@ def finish_mesh(
     return mesh
 
 
-def _open_edges(
-    v: np.ndarray, t: np.ndarray, keep: np.ndarray, neighbours: np.ndarray
-) -> tuple[np.ndarray, np.ndarray]:
-    """The edges a → b (the kept triangle's interior on the left) of kept triangles whose
-    neighbour across is missing or dropped: the body's boundary edges."""
-    alive = np.append(keep, False)  # index −1: no neighbour
-    tk, nk = t[keep], np.asarray(neighbours)[keep]
-    rows, j = np.nonzero(~alive[nk])
-    a, b = tk[rows, (j + 1) % 3], tk[rows, (j + 2) % 3]
-    turned = _triangle_areas(v, tk[rows]) < 0  # (triangle makes them counter-clockwise)
-    return np.where(turned, b, a), np.where(turned, a, b)
-
-
-def _sorted_edges(a: np.ndarray, b: np.ndarray, n: int) -> tuple[np.ndarray, np.ndarray]:
-    """Edges a → b in the order :func:`boundary_edges` gives them (by min, then max)."""
-    order = np.argsort(np.minimum(a, b) * np.int64(n) + np.maximum(a, b), kind="stable")
-    return a[order], b[order]
-
-
 def _area(h: np.ndarray | float) -> np.ndarray:
     """Area (m²) of an equilateral triangle of edge ``h`` (m)."""
     return np.sqrt(3.0) / 4.0 * np.asarray(h, float) ** 2
@@ -219,13 +201,6 @@ def _centroids(v: np.ndarray, t: np.ndarray) -> np.ndarray:
     """Centroids (k, 2) m of triangles ``t`` on points ``v`` (three gathers, no (k, 3, 2)
     temporary)."""
     return (v[t[:, 0]] + v[t[:, 1]] + v[t[:, 2]]) / 3.0
-
-
-def _triangle_areas(v: np.ndarray, t: np.ndarray) -> np.ndarray:
-    """Signed areas (m², positive counter-clockwise) of triangles ``t`` on points ``v``."""
-    x, y = v[:, 0], v[:, 1]
-    x0, y0 = x[t[:, 0]], y[t[:, 0]]
-    return 0.5 * ((x[t[:, 1]] - x0) * (y[t[:, 2]] - y0) - (y[t[:, 1]] - y0) * (x[t[:, 2]] - x0))
 
 
 def constraints(case: Case) -> tuple[np.ndarray, np.ndarray, float]:
@@ -266,153 +241,6 @@ def paint_points(case: Case, c: np.ndarray) -> np.ndarray:
             inside &= ~points_in_polygon(px, py, hole)
         owner[idx[inside]] = k
     return owner
-
-
-def box_mesh(
-    v: np.ndarray,
-    t: np.ndarray,
-    tri_material: np.ndarray,
-    material_names: tuple[str, ...],
-    boundary_names: tuple[str, ...],
-    edges: tuple[np.ndarray, np.ndarray] | None = None,
-) -> Mesh:
-    """The vertex-centred :class:`Mesh` of triangles ``t`` (k, 3) on vertices ``v`` (m):
-    control volumes bounded by the median dual (edge midpoints joined to centroids).
-    ``edges``: the boundary edges as :func:`boundary_edges` finds them, when known.
-
-    Interior faces: one per triangle and edge (owner → neighbour along the edge), weight
-    ½·cot of the opposite angle, material of the triangle. Pieces: one per triangle and
-    vertex, a third of the triangle's area. Boundary faces: the two halves of every
-    boundary edge, each belonging to its end vertex, centred at the quarter point, with
-    ``b_dist`` = 0. All O(triangles), vectorised.
-    """
-    t = np.asarray(t, dtype=np.int64)
-    area = _triangle_areas(v, t)
-    flip = area < 0
-    t[flip] = t[flip][:, [0, 2, 1]]
-    area = np.abs(area)
-    nv = len(v)
-    # local edge e: vertices (e+1, e+2), opposite vertex e
-    a = t[:, [1, 2, 0]].ravel()
-    b = t[:, [2, 0, 1]].ravel()
-    c = t.ravel()
-    # coordinates gathered once, per component (these arrays are 3 × triangles long);
-    # the arithmetic in place, to keep the number of such arrays (and fresh pages) down
-    x, y = v[:, 0], v[:, 1]
-    xa, ya, xc, yc = x[a], y[a], x[c], y[c]
-    ux, uy = xa - xc, ya - yc
-    wx, wy = np.subtract(x[b], xc, out=xc), np.subtract(y[b], yc, out=yc)
-    # ½·cot θ = ½·(u·w)/(u × w), and u × w is twice the (counter-clockwise) triangle's area
-    weight = ux * wx
-    weight += uy * wy
-    weight /= np.repeat(4.0 * area, 3)
-    # the dual segment: centroid − edge midpoint = (2c − a − b)/6 = −(u + w)/6
-    dx, dy = ux + wx, uy + wy
-    dx /= -6.0
-    dy /= -6.0
-    length = dx * dx
-    length += dy * dy
-    np.sqrt(length, out=length)
-    ax, ay = np.subtract(wx, ux, out=wx), np.subtract(wy, uy, out=wy)  # the edge a → b
-    # the dual segment turned clockwise, pointing from a towards b (a counter-clockwise
-    # triangle's centroid lies left of a → b, so this is the sign that crosses to b)
-    turn = np.multiply(dy, ax, out=ux)
-    turn -= np.multiply(dx, ay, out=uy)
-    np.sign(turn, out=turn)
-    turn /= length
-    normal = np.empty((len(a), 2))
-    np.multiply(dy, turn, out=normal[:, 0])
-    np.negative(turn, out=turn)
-    np.multiply(dx, turn, out=normal[:, 1])
-    half_edge = ax * ax
-    half_edge += ay * ay
-    np.sqrt(half_edge, out=half_edge)
-    half_edge *= 0.5
-    face_centre = np.empty((len(a), 2))  # halfway along the dual segment: (a + b + 2d)/2
-    xa += x[b]
-    xa += dx
-    np.multiply(xa, 0.5, out=face_centre[:, 0])
-    ya += y[b]
-    ya += dy
-    np.multiply(ya, 0.5, out=face_centre[:, 1])
-    face_material = np.repeat(tri_material, 3).astype(np.int32)
-
-    piece_cell = t.ravel()
-    piece_volume = np.repeat(area / 3.0, 3)
-    piece_material = face_material.copy()
-    volumes = np.bincount(piece_cell, weights=piece_volume, minlength=nv)
-
-    # counter-clockwise triangles: the body lies left of a → b
-    ea, eb = edges if edges is not None else boundary_edges(a, b, nv)
-    d = v[eb] - v[ea]
-    elen = np.hypot(*d.T)
-    out = np.column_stack([d[:, 1], -d[:, 0]]) / elen[:, None]
-    b_cell = np.concatenate([ea, eb])
-    b_centre = np.concatenate([0.75 * v[ea] + 0.25 * v[eb], 0.25 * v[ea] + 0.75 * v[eb]])
-    nb = b_cell.size
-    mesh = Mesh(
-        centres=v.copy(),
-        volumes=volumes,
-        material=np.zeros(nv, dtype=np.int32),
-        material_names=material_names,
-        owner=a,
-        neighbour=b,
-        face_area=length,
-        d_owner=half_edge,
-        d_neighbour=half_edge.copy(),
-        face_centre=face_centre,
-        face_normal=normal,
-        b_cell=b_cell,
-        b_area=np.concatenate([0.5 * elen, 0.5 * elen]),
-        b_dist=np.zeros(nb),
-        b_centre=b_centre,
-        b_normal=np.concatenate([out, out]),
-        b_boundary=np.full(nb, -1, dtype=np.int32),
-        b_exchange=np.ones(nb),
-        boundary_names=boundary_names,
-        kind="triangles",
-        face_material=face_material,
-        face_weight=weight,
-        piece_cell=piece_cell,
-        piece_material=piece_material,
-        piece_volume=piece_volume,
-        triangles=t,
-        triangle_material=np.asarray(tri_material, dtype=np.int32),
-    )
-    from dataclasses import replace
-
-    return replace(mesh, material=piece_material[largest_piece(mesh)])
-
-
-def boundary_edges(a: np.ndarray, b: np.ndarray, n: int) -> tuple[np.ndarray, np.ndarray]:
-    """The edges a → b (vertex indices < ``n``) of consistently oriented triangles that no
-    other triangle has, in either direction: the boundary edges, sorted by (min, max)."""
-    big = np.int64(n)
-    lo, hi = np.minimum(a, b), np.maximum(a, b)
-    # the undirected edge, and its direction in the lowest bit; one sort finds the pairs
-    key = np.sort((lo * big + hi) * 2 + (a > b))
-    edge = key >> 1
-    single = np.ones(len(key), dtype=bool)
-    pair = edge[1:] == edge[:-1]
-    single[1:] &= ~pair
-    single[:-1] &= ~pair
-    key = key[single]
-    turned = (key & 1).astype(bool)
-    lo, hi = np.divmod(key >> 1, big)
-    return np.where(turned, hi, lo), np.where(turned, lo, hi)
-
-
-def largest_piece(mesh: Mesh) -> np.ndarray:
-    """Per cell, the index of its largest piece (of equal ones the last): what the cell is
-    drawn and summarised as."""
-    assert mesh.piece_cell is not None and mesh.piece_volume is not None
-    cell, vol = mesh.piece_cell, mesh.piece_volume
-    best = np.zeros(mesh.n_cells)
-    np.maximum.at(best, cell, vol)
-    win = np.flatnonzero(vol == best[cell])
-    out = np.full(mesh.n_cells, -1, dtype=np.int64)
-    np.maximum.at(out, cell[win], win)
-    return out
 
 
 def exact_segment_faces(
