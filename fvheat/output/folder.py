@@ -81,8 +81,9 @@ def write_outputs(
     written = [write_inputs(out, sol.case, sol.mesh)]
     memory = SolvedFields(sol, study.surface_solution)
     if plots and workers is not None and len(workers):
-        written += _draw_in_workers(study, out, memory, fields, workers)
-        return [*written, *write_report(ResultsFolder.open(out))]
+        folder = ResultsFolder.open(out)
+        written += _draw_in_workers(study, folder, memory, fields, workers)
+        return [*written, *write_report(folder)]
     writer = _Background(lambda: _write_field_files(study, out, memory, fields))
     writer.start()
     try:
@@ -103,7 +104,11 @@ def write_outputs(
 
 
 def _draw_in_workers(
-    study: Study, out: Path, memory: SolvedFields, fields: str, workers: FigureWorkers
+    study: Study,
+    folder: ResultsFolder,
+    memory: SolvedFields,
+    fields: str,
+    workers: FigureWorkers,
 ) -> list[Path]:
     """The figures drawn by ``workers`` while this process writes the field files; the
     files written, figures last."""
@@ -119,7 +124,7 @@ def _draw_in_workers(
     )
     from fvheat.output.workers import WorkerLost
 
-    folder = ResultsFolder.open(out)
+    out = folder.path
     frozen = memory.freeze(states_needed(len(memory.field_times())))
     records: list[FigureRecord] | None = None
     try:

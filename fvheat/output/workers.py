@@ -68,9 +68,8 @@ class FigureWorkers:
     def __init__(self, n: int = 2) -> None:
         self._conns: list[Connection] = []
         self._procs: list[Any] = []
-        self._busy = 0  # jobs submitted and not collected
         self._lost = ""  # why the pool is not used again
-        self._senders: list[_Sender] = []
+        self._senders: list[_Sender] = []  # one per job submitted and not collected
         ctx = multiprocessing.get_context("fork") if worker_count(n) else None
         for _ in range(worker_count(n)):
             assert ctx is not None
@@ -97,7 +96,7 @@ class FigureWorkers:
     def submit(self, fn: Callable[..., Any], jobs: Sequence[tuple[Any, ...]]) -> None:
         """Start ``fn(*job)`` for every job, job ``i`` in worker ``i`` (one job per worker
         at most); :meth:`results` collects them."""
-        if self._busy:
+        if self._senders:
             raise RuntimeError("the figure workers' earlier jobs are not collected yet")
         if len(jobs) > len(self._conns):
             raise ValueError(f"{len(jobs)} jobs for {len(self._conns)} workers")
@@ -109,7 +108,6 @@ class FigureWorkers:
             _Sender(conn, ForkingPickler.dumps((fn, job)))
             for conn, job in zip(self._conns, jobs, strict=False)
         ]
-        self._busy = len(jobs)
 
     @property
     def pids(self) -> list[int]:
@@ -119,7 +117,7 @@ class FigureWorkers:
     @property
     def busy(self) -> int:
         """Jobs submitted and not collected yet."""
-        return self._busy
+        return len(self._senders)
 
     def results(self) -> list[Any]:
         """The results of the submitted jobs, in order, once every one has ended. The error
@@ -132,7 +130,6 @@ class FigureWorkers:
                 replies.append(conn.recv())
             except (EOFError, OSError):
                 replies.append(("died", f"figure worker {proc.pid} ended without an answer"))
-        self._busy = 0
         self._senders = []
         for kind, value in replies:
             if kind == "died":
