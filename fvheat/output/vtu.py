@@ -49,11 +49,13 @@ def write_raw_vtu(
     """Write ``points`` (k, 3) m, cell ``blocks`` [(type, connectivity (n, p))] with types
     of :data:`VTK_TYPES`, ``cell_data`` {name: [array per block, (n,) or (n, c)]} and
     ``point_data`` {name: (k,) or (k, c)} as one VTU file, atomically. Arrays are stored
-    as float64 / int32 / int64 / uint8, little-endian."""
-    conn = np.concatenate([np.asarray(c, np.int64).ravel() for _, c in blocks])
-    sizes = np.concatenate([np.full(len(c), np.shape(c)[1], np.int64) for _, c in blocks])
+    as float64 / int32 / int64 / uint8, little-endian; connectivity and offsets as Int32
+    while they fit."""
+    ids = _id_type(len(points), sum(np.size(c) for _, c in blocks))
+    conn = np.concatenate([np.asarray(c, ids).ravel() for _, c in blocks])
+    sizes = np.concatenate([np.full(len(c), np.shape(c)[1], ids) for _, c in blocks])
     types = np.concatenate([np.full(len(c), VTK_TYPES[k], np.uint8) for k, c in blocks])
-    offsets = np.cumsum(sizes)
+    offsets = np.cumsum(sizes, dtype=ids)
     arrays: list[tuple[str, str, np.ndarray]] = [("Points", "", np.asarray(points, float))]
     arrays += [("Cells", "connectivity", conn), ("Cells", "offsets", offsets)]
     arrays += [("Cells", "types", types)]
@@ -64,6 +66,12 @@ def write_raw_vtu(
     arrays = [(where, name, _little_endian(a)) for where, name, a in arrays]
     header = _header(len(points), len(types), arrays)
     return atomic_write_file(path, lambda tmp: _write(tmp, header, arrays))
+
+
+def _id_type(n_points: int, n_entries: int) -> type[np.signedinteger]:
+    """Connectivity and offsets as Int32 while every value fits (half the bytes of Int64,
+    the cells' largest share of a file; VTK and meshio read either), else Int64."""
+    return np.int32 if max(n_points, n_entries) < 2**31 else np.int64
 
 
 def _little_endian(a: np.ndarray) -> np.ndarray:
