@@ -66,6 +66,17 @@ class Solution:
     extremes: RunExtremes | None = None
     #: steady linear runs: the solver (factorisation) of the system matrix, for adjoint solves
     factor: LinearSolver | None = None
+    #: the phase model when conductivities depend on temperature (frozen ground, phase
+    #: change): ``system`` is at the phases of ``temperature``, other states need their own
+    phase: EnthalpyModel | None = None
+
+    def system_at(self, temperature: np.ndarray) -> System:
+        """The system with the conductivities of the phases at ``temperature`` (°C, a saved
+        state of this run): ``system`` itself for the final field or without phase-dependent
+        conductivity. Heat-flux fields of saved states are computed with it."""
+        if self.phase is None or temperature is self.temperature:
+            return self.system
+        return _at_phase(self.system, self.phase, temperature)
 
 
 def simulate(
@@ -101,7 +112,7 @@ def simulate(
         flows = system.boundary_flows(temp, 0.0)
         noise = ISOTHERMAL_K * system.surface_conductance
         balance = EnergyBalance(dict(zip(names, map(float, flows), strict=True)), 0.0, noise)
-        out = _solution(case, mesh, system, temp, 0.0, probe_op, balance, None)
+        out = _solution(case, mesh, system, model, temp, 0.0, probe_op, balance, None)
         out.factor = factor
         return out
 
@@ -191,7 +202,7 @@ def _transient(
     noise = ISOTHERMAL_K * system.surface_conductance * max(t, ts.step)
     balance = EnergyBalance(dict(zip(names, map(float, energy), strict=True)), stored, noise)
     system = _at_phase(system, model, temp)
-    solution = _solution(case, mesh, system, temp, t, probe_op, balance, history)
+    solution = _solution(case, mesh, system, model, temp, t, probe_op, balance, history)
     if periodic is not None:
         periodic.cycles, periodic.change = cycles, change
         solution.periodic = periodic
@@ -218,9 +229,11 @@ def _at_phase(system: System, model: EnthalpyModel, temp: np.ndarray) -> System:
     )
 
 
-def _solution(case, mesh, system, temp, t, probe_op, balance, history) -> Solution:
+def _solution(case, mesh, system, model, temp, t, probe_op, balance, history) -> Solution:
     values = probe_op @ temp
     probes = {p.name: float(v) for p, v in zip(case.probes, values, strict=True)}
-    return Solution(
+    out = Solution(
         case, mesh, system, temp, t, surface_results(system, temp, t), probes, balance, history
     )
+    out.phase = model if model.variable_conductivity else None
+    return out

@@ -34,6 +34,9 @@ from fvheat.simulate import Solution
 if TYPE_CHECKING:
     import meshio
 
+    from fvheat.assembly.system import System
+    from fvheat.mesh.mesh import Mesh
+
 FORMAT = "fvheat-triangle-fields-1"
 
 
@@ -129,11 +132,10 @@ def triangle_gradients(v: np.ndarray, t: np.ndarray, values: np.ndarray) -> np.n
     return np.column_stack([gx, gy])
 
 
-def triangle_flux(solution: Solution, temperature: np.ndarray) -> np.ndarray:
-    """Heat-flux vectors (t, 2) W/m² of every triangle: q = −k∇T, k the conductivity the
-    solution's system gives the triangle (with phase-dependent conductivity: at the
-    system's phase state, as the grid's flux takes the system's conductances)."""
-    mesh, system = solution.mesh, solution.system
+def triangle_flux(mesh: Mesh, system: System, temperature: np.ndarray) -> np.ndarray:
+    """Heat-flux vectors (t, 2) W/m² of every triangle of ``mesh``: q = −k∇T, k the
+    conductivity ``system`` gives the triangle (with phase-dependent conductivity: at the
+    system's phase state, see :meth:`fvheat.simulate.Solution.system_at`)."""
     k = system.k_material
     assert mesh.triangles is not None and mesh.triangle_material is not None and k is not None
     grad = triangle_gradients(mesh.centres, mesh.triangles, temperature)
@@ -149,7 +151,8 @@ def node_flux(solution: Solution, temperature: np.ndarray) -> np.ndarray:
     triangles around each node (over its control volume's pieces)."""
     mesh = solution.mesh
     assert mesh.piece_cell is not None and mesh.piece_volume is not None
-    q = triangle_flux(solution, temperature)[np.arange(mesh.piece_cell.size) // 3]
+    system = solution.system_at(temperature)
+    q = triangle_flux(mesh, system, temperature)[np.arange(mesh.piece_cell.size) // 3]
     w = mesh.piece_volume
     sums = [
         np.bincount(mesh.piece_cell, weights=w * q[:, i], minlength=mesh.n_cells) for i in (0, 1)

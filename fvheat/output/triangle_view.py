@@ -243,7 +243,8 @@ class TriangleViews:
 
         sol, g = self.solution, self.geometry
         temp = np.asarray(temperature, float)
-        flow = surface_faces(sol.system, temp, time).flow
+        system = sol.system_at(temp)  # the conductances of this state's phases
+        flow = surface_faces(system, temp, time).flow
         half = flow.size // 2
         d = g.face_ends[:, 1] - g.face_ends[:, 0]
         return TriangleFieldView(
@@ -253,7 +254,7 @@ class TriangleViews:
             face_boundary=g.face_boundary,
             boundary_names=g.boundary_names,
             temperature=temp,
-            flux=triangle_flux(sol, temp),
+            flux=triangle_flux(sol.mesh, system, temp),
             face_temperature=edge_temperature(temp, g.face_nodes),
             face_flux=(flow[:half] + flow[half:]) / np.hypot(d[:, 0], d[:, 1]),
             time=float(time),

@@ -93,14 +93,15 @@ def field_view(
         raise NotImplementedError("field output needs a rectilinear grid")
     temp = solution.temperature if temperature is None else np.asarray(temperature, float)
     t = solution.time if time is None else float(time)
-    faces = surface_faces(solution.system, temp, t)
+    system = solution.system_at(temp)  # the conductances of this state's phases
+    faces = surface_faces(system, temp, t)
     return FieldView(
         grid=mesh.grid,
         centres=mesh.centres,
         material=mesh.material,
         material_names=mesh.material_names,
         temperature=temp,
-        flux=cell_heat_flux(solution.system, temp, t),
+        flux=cell_heat_flux(system, temp, t),
         face_ends=face_ends(mesh.b_centre, mesh.b_normal, mesh.b_area),
         face_boundary=mesh.b_boundary,
         boundary_names=mesh.boundary_names,
