@@ -35,7 +35,9 @@ class TriangleLocator:
 
     def __init__(self, points: np.ndarray, triangles: np.ndarray) -> None:
         p = np.asarray(points, float)[np.asarray(triangles)]  # (t, 3, 2)
-        self.lo, self.hi = p.min(axis=1), p.max(axis=1)
+        # bounding boxes widened by the inside test's tolerance (m)
+        pad = EPS * np.max(p.max(axis=1) - p.min(axis=1), axis=1, initial=0.0)[:, None]
+        self.lo, self.hi = p.min(axis=1) - pad, p.max(axis=1) + pad
         d1, d2 = p[:, 1] - p[:, 0], p[:, 2] - p[:, 0]
         det = d1[:, 0] * d2[:, 1] - d1[:, 1] * d2[:, 0]
         det = np.where(det == 0.0, np.inf, det)  # a degenerate triangle holds no point
@@ -76,11 +78,13 @@ class TriangleLocator:
         holding each point, shape (rows, cols), −1 outside, and its barycentric
         coordinates (rows, cols, 3)."""
         lo, hi = self.lo, self.hi
-        pad = EPS * np.max(hi - lo, axis=1)  # the inside test's tolerance, in metres
-        i0 = np.searchsorted(xs, lo[:, 0] - pad, side="left")
-        w = np.searchsorted(xs, hi[:, 0] + pad, side="right") - i0
-        j0 = np.searchsorted(ys, lo[:, 1] - pad, side="left")
-        count = w * (np.searchsorted(ys, hi[:, 1] + pad, side="right") - j0)
+        near = np.flatnonzero(
+            (hi[:, 0] >= xs[0]) & (lo[:, 0] <= xs[-1]) & (hi[:, 1] >= ys[0]) & (lo[:, 1] <= ys[-1])
+        )  # triangles whose box meets the lattice's
+        i0 = np.searchsorted(xs, lo[near, 0], side="left")
+        w = np.searchsorted(xs, hi[near, 0], side="right") - i0
+        j0 = np.searchsorted(ys, lo[near, 1], side="left")
+        count = w * (np.searchsorted(ys, hi[near, 1], side="right") - j0)
         cols = xs.size
         found = np.full(ys.size * cols, -1, dtype=np.int64)
         bary = np.zeros((ys.size * cols, 3))
@@ -90,11 +94,12 @@ class TriangleLocator:
         bounds = np.unique(np.concatenate([[0], ends, [count.size]]))
         for a, b in zip(bounds[-2::-1], bounds[:0:-1], strict=True):
             c = count[a:b]
-            tri = np.repeat(np.arange(a, b), c)
-            k = np.arange(tri.size) - np.repeat(np.cumsum(c) - c, c)
-            col = i0[tri] + k % w[tri]
-            row = j0[tri] + k // w[tri]
-            self._test(found, bary, row * cols + col, tri, np.column_stack([xs[col], ys[row]]))
+            at = np.repeat(np.arange(a, b), c)  # index into near
+            k = np.arange(at.size) - np.repeat(np.cumsum(c) - c, c)
+            col = i0[at] + k % w[at]
+            row = j0[at] + k // w[at]
+            q = np.column_stack([xs[col], ys[row]])
+            self._test(found, bary, row * cols + col, near[at], q)
         return found.reshape(ys.size, cols), bary.reshape(ys.size, cols, 3)
 
     def _test(
