@@ -113,6 +113,7 @@ def _draw_in_workers(
     """The figures drawn by ``workers`` while this process writes the field files; the
     files written, figures last."""
     from fvheat.output.plots.figures import (
+        FIGURE_COST,
         FigureRecord,
         RenderedFigure,
         draw_figures,
@@ -127,12 +128,15 @@ def _draw_in_workers(
     out = folder.path
     frozen = memory.freeze(states_needed(len(memory.field_times())))
     records: list[FigureRecord] | None = None
+    # the jobs sent during the solve: the mesh figure (see fvheat.run), perhaps still
+    # being drawn; the other figures go first to the worker that is free
+    early = workers.busy
+    names = [n for n in planned_figures(folder, frozen) if not (early and n == "mesh")]
+    start = [FIGURE_COST["mesh"] if w else 0.0 for w in workers.working()]
+    groups = split_figures(names, len(workers), start)
+    to = [i for i, group in enumerate(groups) if group]
     try:
-        # the mesh figure, when the run had a worker draw it during the solve
-        early: list[RenderedFigure] = workers.results() if workers.busy else []
-        names = [n for n in planned_figures(folder, frozen) if n not in {r.name for r in early}]
-        groups = split_figures(names, len(workers))
-        workers.submit(draw_group, [(out, frozen, names) for names in groups])
+        workers.submit(draw_group, [(out, frozen, groups[i]) for i in to], to)
     except WorkerLost as err:
         lost: WorkerLost | None = err
     else:
@@ -142,8 +146,10 @@ def _draw_in_workers(
     finally:  # the figures finish (or fail) before an error of the field files goes up
         if lost is None:
             try:
-                records = [r for group in workers.results() for r in group]
-                records += [r.save(out) for r in early]
+                replies = workers.results()
+                rendered: list[RenderedFigure] = replies[:early]
+                records = [r for group in replies[early:] for r in group]
+                records += [r.save(out) for r in rendered]
             except WorkerLost as err:
                 lost = err
     if records is None:  # a worker was killed (out of memory?): draw them here instead

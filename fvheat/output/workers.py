@@ -69,7 +69,8 @@ class FigureWorkers:
         self._conns: list[Connection] = []
         self._procs: list[Any] = []
         self._lost = ""  # why the pool is not used again
-        self._senders: list[_Sender] = []  # one per job submitted and not collected
+        # (worker, writer) per job submitted and not collected, in the order submitted
+        self._jobs: list[tuple[int, _Sender]] = []
         ctx = multiprocessing.get_context("fork") if worker_count(n) else None
         for _ in range(worker_count(n)):
             assert ctx is not None
@@ -93,21 +94,26 @@ class FigureWorkers:
     def __exit__(self, kind: type[BaseException] | None, *exc: object) -> None:
         self.close(wait=kind is None)
 
-    def submit(self, fn: Callable[..., Any], jobs: Sequence[tuple[Any, ...]]) -> None:
-        """Start ``fn(*job)`` for every job, job ``i`` in worker ``i`` (one job per worker
-        at most); :meth:`results` collects them."""
-        if self._senders:
-            raise RuntimeError("the figure workers' earlier jobs are not collected yet")
-        if len(jobs) > len(self._conns):
-            raise ValueError(f"{len(jobs)} jobs for {len(self._conns)} workers")
+    def submit(
+        self,
+        fn: Callable[..., Any],
+        jobs: Sequence[tuple[Any, ...]],
+        to: Sequence[int] | None = None,
+    ) -> None:
+        """Start ``fn(*job)`` for every job, job ``i`` in worker ``to[i]`` (default: worker
+        ``i``), after the jobs that worker has already; :meth:`results` collects them."""
+        to = list(range(len(jobs))) if to is None else list(to)
+        if len(to) != len(jobs) or any(not 0 <= i < len(self._conns) for i in to):
+            raise ValueError(f"{len(jobs)} jobs for workers {to} of {len(self._conns)}")
         if self._lost:
             raise WorkerLost(self._lost)
-        # pickled here, written by a thread: a worker still warming up reads its job only
-        # afterwards, and the run must not wait for that (a 1 M-cell view is 50 MB)
-        self._senders = [
-            _Sender(conn, ForkingPickler.dumps((fn, job)))
-            for conn, job in zip(self._conns, jobs, strict=False)
-        ]
+        for i, job in zip(to, jobs, strict=True):
+            earlier = [sender for w, sender in self._jobs if w == i]
+            # pickled here, written by a thread (after the worker's earlier jobs): a worker
+            # still busy reads its job only afterwards, and the run must not wait for that
+            # (a 1 M-cell view is 50 MB)
+            payload = ForkingPickler.dumps((fn, job))
+            self._jobs.append((i, _Sender(self._conns[i], payload, earlier[-1:])))
 
     @property
     def pids(self) -> list[int]:
@@ -117,20 +123,32 @@ class FigureWorkers:
     @property
     def busy(self) -> int:
         """Jobs submitted and not collected yet."""
-        return len(self._senders)
+        return len(self._jobs)
+
+    def working(self) -> list[bool]:
+        """Per worker: whether it has a job whose answer has not arrived yet (a worker with
+        one job whose answer waits to be collected is not working)."""
+        return [
+            any(w == i for w, _ in self._jobs) and not conn.poll()
+            for i, conn in enumerate(self._conns)
+        ]
 
     def results(self) -> list[Any]:
-        """The results of the submitted jobs, in order, once every one has ended. The error
-        of a failed job is raised; a worker that died is a :class:`WorkerLost`."""
+        """The results of the submitted jobs, in the order submitted, once every one has
+        ended. The error of a failed job is raised; a worker that died is a
+        :class:`WorkerLost`."""
         replies = []
-        for conn, proc, sender in zip(self._conns, self._procs, self._senders, strict=False):
+        dead: set[int] = set()
+        for i, sender in self._jobs:
             try:
-                if not sender.sent():
+                if i in dead or not sender.sent():
                     raise EOFError
-                replies.append(conn.recv())
+                replies.append(self._conns[i].recv())
             except (EOFError, OSError):
-                replies.append(("died", f"figure worker {proc.pid} ended without an answer"))
-        self._senders = []
+                dead.add(i)
+                pid = self._procs[i].pid
+                replies.append(("died", f"figure worker {pid} ended without an answer"))
+        self._jobs = []
         for kind, value in replies:
             if kind == "died":
                 self._lost = value
@@ -144,7 +162,7 @@ class FigureWorkers:
         """Ask every worker to leave and stop those that do not within ``CLOSE_WAIT`` s
         (at once unless ``wait``: a run that failed does not wait for their warm-up)."""
         # a job still being written cannot be followed by the note to leave: stop them
-        stop = not wait or any(s.running() for s in self._senders)
+        stop = not wait or any(s.running() for _, s in self._jobs)
         for conn, proc in zip(self._conns, self._procs, strict=True):
             if stop:
                 proc.terminate()
@@ -153,7 +171,7 @@ class FigureWorkers:
                 conn.send(None)
             except (OSError, ValueError):  # already gone
                 pass
-        for sender in self._senders:  # a write to a stopped worker fails at once
+        for _, sender in self._jobs:  # a write to a stopped worker fails at once
             sender.sent()
         for conn in self._conns:
             conn.close()
@@ -162,21 +180,28 @@ class FigureWorkers:
             if proc.is_alive():
                 proc.terminate()
                 proc.join()
-        self._conns, self._procs, self._senders = [], [], []
+        self._conns, self._procs, self._jobs = [], [], []
 
 
 class _Sender:
     """Writes one pickled job to a worker's pipe in a thread (a blocking write releases
-    the interpreter lock); :meth:`sent` waits for it and says whether it arrived."""
+    the interpreter lock), once the writers ``after`` (of the worker's earlier jobs) are
+    done; :meth:`sent` waits for it and says whether it arrived."""
 
-    def __init__(self, conn: Connection, payload: memoryview | bytes) -> None:
+    def __init__(
+        self, conn: Connection, payload: memoryview | bytes, after: Sequence[_Sender] = ()
+    ) -> None:
         self._ok = False
         self._thread = threading.Thread(
-            target=self._send, args=(conn, payload), name="fvheat-figure-job", daemon=True
+            target=self._send, args=(conn, payload, after), name="fvheat-figure-job", daemon=True
         )
         self._thread.start()
 
-    def _send(self, conn: Connection, payload: memoryview | bytes) -> None:
+    def _send(
+        self, conn: Connection, payload: memoryview | bytes, after: Sequence[_Sender]
+    ) -> None:
+        if not all(earlier.sent() for earlier in after):
+            return  # the pipe broke on an earlier job: results() says so
         try:
             conn.send_bytes(payload)
             self._ok = True

@@ -70,6 +70,40 @@ def test_an_error_in_a_worker_is_raised_in_the_run():
         assert len(set(pids)) == 2 and os.getpid() not in pids
 
 
+def _sleep_then_pid(seconds: float) -> int:
+    time.sleep(seconds)
+    return os.getpid()
+
+
+def test_jobs_queue_behind_a_busy_worker_and_come_back_in_the_order_sent():
+    """A job sent to a worker that is still busy runs after its earlier job; a free worker
+    starts at once; the answers come back in the order the jobs were sent."""
+    with FigureWorkers(2) as workers:
+        workers.submit(_pid, [(), ()])
+        first, second = workers.results()
+        workers.submit(_sleep_then_pid, [(1.0,)], to=[0])
+        time.sleep(0.3)
+        assert workers.working() == [True, False]
+        t0 = time.perf_counter()
+        workers.submit(_sleep_then_pid, [(0.0,), (0.2,)], to=[1, 0])
+        assert workers.results() == [first, second, first]
+        # the free worker did not wait for the busy one; the busy one's second job did
+        assert 0.6 < time.perf_counter() - t0 < 3.0
+        assert workers.working() == [False, False]
+
+
+def test_figures_go_first_to_the_worker_that_is_free():
+    """split_figures: the largest figure to the worker with nothing left to draw, the
+    worker still drawing (the mesh figure) gets less."""
+    from fvheat.output.plots.figures import FIGURE_COST, split_figures
+
+    names = ["temperature", "heat_flux", "temperature_surface"]
+    busy = split_figures(names, 2, [FIGURE_COST["mesh"], 0.0])
+    assert busy[1][0] == "temperature" and len(busy[1]) == 2 and len(busy[0]) == 1
+    assert split_figures(names, 2) == [["temperature", "heat_flux"], ["temperature_surface"]]
+    assert split_figures(["probes"], 2) == [["probes"], []]
+
+
 def test_a_worker_that_dies_is_an_error_not_a_hang():
     with FigureWorkers(1) as workers:
         workers.submit(_dies, [()])

@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import json
 import logging
-from collections.abc import Callable, Collection
+from collections.abc import Callable, Collection, Sequence
 from dataclasses import asdict, dataclass
 from pathlib import Path
 from typing import Any
@@ -252,16 +252,19 @@ def planned_figures(folder: ResultsFolder, source: FieldSource) -> list[str]:
     return names
 
 
-def split_figures(names: list[str], n: int) -> list[list[str]]:
-    """``names`` in ``n`` groups of about equal drawing cost (largest first, each to the
-    cheapest group so far); empty groups left out."""
+def split_figures(names: list[str], n: int, start: Sequence[float] = ()) -> list[list[str]]:
+    """``names`` in ``n`` groups (some perhaps empty) of about equal drawing cost: largest
+    first, each to the group that would finish first, group ``i`` starting with the cost
+    ``start[i]`` (the figures its worker is still drawing, in :data:`FIGURE_COST` units;
+    default none)."""
     groups: list[list[str]] = [[] for _ in range(max(n, 1))]
-    cost = [0.0] * len(groups)
+    cost = [float(c) for c in start][: len(groups)]
+    cost += [0.0] * (len(groups) - len(cost))
     for name in sorted(names, key=lambda k: -FIGURE_COST.get(k, 1.0)):
         i = cost.index(min(cost))
         groups[i].append(name)
         cost[i] += FIGURE_COST.get(name, 1.0)
-    return [g for g in groups if g]
+    return groups
 
 
 def states_needed(n_states: int) -> list[int]:
