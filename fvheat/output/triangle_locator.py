@@ -77,6 +77,11 @@ class TriangleLocator:
         """For the lattice of increasing ``xs`` (cols,) × ``ys`` (rows,), m: the triangle
         holding each point, shape (rows, cols), −1 outside, and its barycentric
         coordinates (rows, cols, 3)."""
+        cols = xs.size
+        found = np.full(ys.size * cols, -1, dtype=np.int64)
+        bary = np.zeros((ys.size * cols, 3))
+        if found.size == 0:
+            return found.reshape(ys.size, cols), bary.reshape(ys.size, cols, 3)
         lo, hi = self.lo, self.hi
         near = np.flatnonzero(
             (hi[:, 0] >= xs[0]) & (lo[:, 0] <= xs[-1]) & (hi[:, 1] >= ys[0]) & (lo[:, 1] <= ys[-1])
@@ -85,9 +90,6 @@ class TriangleLocator:
         w = np.searchsorted(xs, hi[near, 0], side="right") - i0
         j0 = np.searchsorted(ys, lo[near, 1], side="left")
         count = w * (np.searchsorted(ys, hi[near, 1], side="right") - j0)
-        cols = xs.size
-        found = np.full(ys.size * cols, -1, dtype=np.int64)
-        bary = np.zeros((ys.size * cols, 3))
         # triangles in runs of about BATCH candidate points, the last run first: the first
         # triangle listed wins a shared point
         ends = np.searchsorted(np.cumsum(count), np.arange(BATCH, int(count.sum()), BATCH))

@@ -78,3 +78,9 @@ def test_vertices_take_the_first_triangle_listed_in_both_searches(mesh):
     # all of them: too many distinct coordinates for a lattice, the bucket grid
     assert used.size**2 > max(LATTICE_MOST, 4 * used.size)
     assert np.array_equal(loc.locate(pts[used, 0], pts[used, 1])[0], owners[used])
+
+
+def test_no_points_no_work(mesh):
+    pts, tri = mesh
+    found, bary = TriangleLocator(pts, tri).locate(np.empty(0), np.empty(0))
+    assert found.shape == (0,) and bary.shape == (0, 3)
