@@ -6,7 +6,9 @@ workers at a lower priority, so that they never take the solver's core), and the
 first draws the mesh figure in memory as soon as the mesh is made. Once
 ``summary.json`` is written the run sends each worker the fields its figures need (views
 of the saved states, pickled: about 50 MB and 0.03 s at 1 M cells) and a group of figure
-names; the workers draw in parallel while the run itself writes the field files. Each
+names; the workers draw in parallel while the run itself writes the field files. A job
+sent to a worker still busy (with the mesh figure, in a small case) waits behind the
+earlier one, so the run gives that worker less and never waits to send. Each
 figure file is written atomically, as when drawn in the run's own process, and the run
 writes the figure index from the workers' records.
 
