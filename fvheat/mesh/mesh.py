@@ -154,7 +154,7 @@ class Mesh:
                 triangles=int(self.triangles.shape[0]),
                 smallest_cell=float(length.min()),
                 largest_cell=float(length.max()),
-                min_angle_deg=float(_min_angle(edges).min()),
+                min_angle_deg=_min_angle(edges),
             )
         return out
 
@@ -174,8 +174,9 @@ def _max_ratio(h: np.ndarray) -> float:
     return float(np.max(np.maximum(r, 1.0 / r)))
 
 
-def _min_angle(edges: np.ndarray) -> np.ndarray:
-    """Smallest angle (degrees) of each triangle from its edge vectors (t, 3, 2)."""
+def _min_angle(edges: np.ndarray) -> float:
+    """Smallest angle (degrees) of the triangles with edge vectors (t, 3, 2): the arccos of
+    the largest cosine (arccos falls), taken once."""
     a, b = edges, -np.roll(edges, -1, axis=1)
     cos = np.einsum("tij,tij->ti", a, b) / (np.hypot(*a.T).T * np.hypot(*b.T).T)
-    return np.degrees(np.arccos(np.clip(cos, -1.0, 1.0))).min(axis=1)
+    return float(np.degrees(np.arccos(np.clip(cos.max(), -1.0, 1.0))))
