@@ -1,4 +1,5 @@
-"""Field files for general-purpose viewers (VTU through meshio) and ``cells.csv``.
+"""Field files for general-purpose viewers (VTU, written by :mod:`fvheat.output.vtu`,
+read by VTK viewers and meshio) and ``cells.csv``.
 
 Layout in the results folder::
 
@@ -35,7 +36,7 @@ from xml.sax.saxutils import quoteattr
 import numpy as np
 
 from fvheat.mesh.mesh import RectGrid
-from fvheat.output.files import atomic_write, atomic_write_file, atomic_write_text
+from fvheat.output.files import atomic_write, atomic_write_text
 from fvheat.output.view import FieldView, GeometryView
 from fvheat.simulate import Solution
 
@@ -153,7 +154,7 @@ def from_meshio(mesh: meshio.Mesh, meta: dict[str, Any], time: float = 0.0) -> F
 
 #: VTU data are zlib-compressed while a file holds at most COMPRESS_CELLS cells and a run's
 #: field files at most COMPRESS_BUDGET cell values in all; beyond, they are written
-#: uncompressed (compression costs four times the write)
+#: uncompressed (compressing costs several times the write)
 COMPRESS_CELLS = 250_000
 COMPRESS_BUDGET = 2_500_000
 
@@ -167,18 +168,11 @@ def compress_fields(cells_per_file: int, files: int) -> bool:
 def write_vtu(
     path: str | Path, view: FieldView, *, compress: bool = True, topology: Topology | None = None
 ) -> Path:
-    """Write one field as binary VTU, atomically: zlib-compressed through meshio when
-    ``compress``, else with raw appended arrays (:mod:`fvheat.output.vtu`)."""
-    if not compress:
-        from fvheat.output.vtu import write_raw_vtu
+    """Write one field as binary VTU with the arrays appended, zlib-compressed when
+    ``compress``, atomically (:mod:`fvheat.output.vtu`)."""
+    from fvheat.output.vtu import write_raw_vtu
 
-        return write_raw_vtu(path, *vtu_arrays(view, topology))
-    import meshio
-
-    m = to_meshio(view, topology)
-    return atomic_write_file(
-        path, lambda tmp: meshio.vtu.write(tmp, m, binary=True, compression="zlib")
-    )
+    return write_raw_vtu(path, *vtu_arrays(view, topology), compress=compress)
 
 
 def write_pvd(path: str | Path, entries: list[tuple[float, str]]) -> Path:

@@ -23,7 +23,6 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from fvheat.output.files import atomic_write_file
 from fvheat.output.triangle_view import (
     TriangleFieldView,
     TriangleShape,
@@ -71,17 +70,10 @@ def vtu_arrays(
 def vtu_writer(view: TriangleFieldView) -> tuple[Callable[[Path, Any, bool], Path], int]:
     """A writer ``(path, view, compress) -> path`` of binary VTU files of views on the mesh
     of ``view``, and the cells per file the compression rule counts (triangles)."""
-    import meshio
+    from fvheat.output.vtu import write_raw_vtu
 
     def write(path: Path, v: TriangleFieldView, compress: bool) -> Path:
-        if not compress:  # large: raw appended arrays, at disk speed
-            from fvheat.output.vtu import write_raw_vtu
-
-            return write_raw_vtu(path, *vtu_arrays(v))
-        m = to_meshio(v)
-        return atomic_write_file(
-            path, lambda tmp: meshio.vtu.write(tmp, m, binary=True, compression="zlib")
-        )
+        return write_raw_vtu(path, *vtu_arrays(v), compress=compress)
 
     return write, view.n_triangles
 

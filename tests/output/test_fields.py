@@ -161,3 +161,31 @@ def test_fvheat_reads_its_raw_vtu_as_meshio_does(tmp_path, steady):
         for name, blocks in theirs.cell_data.items():
             for a, b in zip(ours.cell_data[name], blocks, strict=True):
                 assert a.dtype == b.dtype and np.array_equal(a, b, equal_nan=True), name
+
+
+@pytest.mark.parametrize("compress", [False, True])
+def test_block_edges_and_empty_arrays_read_back_as_meshio_reads_them(tmp_path, compress):
+    """Arrays of exactly one zlib block, of several blocks with a short last one, and an
+    empty cell block: meshio (an independent reader) and fvheat's reader get the arrays
+    written, bit for bit."""
+    from fvheat.output.vtu import ZLIB_BLOCK, read_vtu, write_raw_vtu
+
+    rng = np.random.default_rng(3)
+    n = ZLIB_BLOCK // 8  # float64 values in one block exactly
+    points, node_values = rng.random((n, 3)), rng.random(n)
+    quads = rng.integers(0, n, size=(3 * n // 4 + 5, 4))
+    values = rng.random(len(quads))
+    path = write_raw_vtu(
+        tmp_path / "f.vtu",
+        points,
+        [("quad", quads), ("line", np.empty((0, 2), np.int64))],
+        {"t": [values, np.empty(0)]},
+        {"p": node_values},
+        compress=compress,
+    )
+    assert (b"vtkZLibDataCompressor" in path.read_bytes()[:2000]) == compress
+    for mesh in (read_vtu(path), meshio.read(path)):
+        assert np.array_equal(mesh.points, points)
+        assert mesh.cells[0].type == "quad" and np.array_equal(mesh.cells[0].data, quads)
+        assert np.array_equal(mesh.cell_data["t"][0], values)
+        assert np.array_equal(mesh.point_data["p"], node_values)
