@@ -617,7 +617,7 @@ def measure_more(args: argparse.Namespace, work: Path, sizes: list[int]) -> dict
         more["codecs"] = (n * n, bt.codecs(work / f"steady_{n}.toml", work, names))
         for c in more["codecs"][1]:
             print(
-                f"  VTU {c.name:>4s}, {n * n:,} cells: write {c.write:.2f} s, read {c.read:.2f} s, "
+                f"  VTU {c.name:>8s}, {n * n:,} cells: write {c.write:.2f} s, read {c.read:.2f} s, "
                 f"{c.mib:.1f} MiB, read back equal: {c.same}",
                 flush=True,
             )

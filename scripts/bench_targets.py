@@ -89,8 +89,9 @@ def codecs(
     case: Path, work: Path, names: tuple[str, ...] = ("none", "zlib", "lzma")
 ) -> list[Codec]:
     """Write the solved field of ``case`` as VTU through meshio with each compression
-    (and "raw": fvheat's own raw appended writer, which it uses for large fields), read
-    it back with meshio; times, sizes and whether the temperatures came back equal."""
+    (and fvheat's own appended writer: "raw", uncompressed, which it uses for large
+    fields, and "raw-zlib", its zlib blocks for small ones), read it back with meshio;
+    times, sizes and whether the temperatures came back equal."""
     import meshio
     import numpy as np
 
@@ -104,11 +105,11 @@ def codecs(
     topology = vtu_topology(view)
     mesh = to_meshio(view, topology)
     out = []
-    for name in ("raw", *names):
+    for name in ("raw", "raw-zlib", *names):
         path = work / f"codec_{name}.vtu"
         t0 = time.perf_counter()
-        if name == "raw":
-            write_raw_vtu(path, *vtu_arrays(view, topology))
+        if name.startswith("raw"):
+            write_raw_vtu(path, *vtu_arrays(view, topology), compress=name == "raw-zlib")
         else:
             compression = None if name == "none" else name
             meshio.vtu.write(path, mesh, binary=True, compression=compression)
