@@ -29,7 +29,7 @@ from fvheat.case.model import Case
 from fvheat.errors import CaseError
 from fvheat.mesh.box import box_mesh, largest_piece, open_edges, sorted_edges, triangle_areas
 from fvheat.mesh.geometry import points_in_polygon, segment_frame
-from fvheat.mesh.lattice import SPACING, seed_points
+from fvheat.mesh.lattice import SPACING, Seeds, lattice_seeds
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.segments import attach_boundaries
 from fvheat.mesh.size import check_node_count
@@ -71,7 +71,7 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
         pslg, inner = _graded(case, pslg, size, flags, refine > 1.0)
     else:
         inner = np.zeros((0, 2))
-    seeds = seed_points(
+    seeds = lattice_seeds(
         pslg["vertices"],
         pslg["segments"],
         SPACING * size.largest,
@@ -80,10 +80,14 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
         body,
         inner,
     )
-    pslg["vertices"] = np.vstack([pslg["vertices"], inner, seeds])
     # "n": the neighbours of each triangle come free, and give the boundary edges
-    tri = triangle.triangulate(pslg, flags + f"na{largest}")
-    v, t = tri["vertices"], tri["triangles"]
+    joined = _seeded(pslg, inner, seeds, flags + f"na{largest}")
+    if joined is None:  # every seed a vertex of one triangulation
+        graph = dict(pslg, vertices=np.vstack([pslg["vertices"], inner, seeds.points]))
+        tri = triangle.triangulate(graph, flags + f"na{largest}")
+        v, t, patch = tri["vertices"], tri["triangles"], np.zeros((0, 2), dtype=np.int64)
+    else:
+        tri, v, t, patch = joined
     centroid = _centroids(v, t)
     for _ in range(PASSES if size.graded else 0):
         h = size(centroid)
@@ -95,12 +99,72 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
         # the triangles this pass will make (each at most its target area), before it runs
         planned = float((area / target).clip(1.0).sum())
         check_node_count(case, int(planned / 2), refined=refine > 1.0)
-        again = {k: x for k, x in tri.items() if k != "neighbors"}
-        tri = triangle.triangulate(dict(again, triangle_max_area=target), "r" + flags + "na")
-        v, t = tri["vertices"], tri["triangles"]
+        graph = {"vertices": v, "triangles": t, "segments": _constraint_segments(tri)}
+        tri = triangle.triangulate(dict(graph, triangle_max_area=target), "r" + flags + "na")
+        v, t, patch = tri["vertices"], tri["triangles"], np.zeros((0, 2), dtype=np.int64)
         centroid = _centroids(v, t)
     region = paint_points(case, centroid)
-    return finish_mesh(case, v, t.astype(np.int64), region, tri["neighbors"])
+    # the band triangulated by triangle comes first; the patch has no edge on the outline
+    band = len(tri["triangles"])
+    edges = open_edges(v, t[:band], region[:band] >= 0, tri["neighbors"])
+    if len(patch):  # the band's open edges along the patch are inside the body
+        n = np.int64(len(v))
+        inside = np.isin(edges[0] * n + edges[1], patch[:, 1] * n + patch[:, 0])
+        edges = (edges[0][~inside], edges[1][~inside])
+    return finish_mesh(case, v, t.astype(np.int64), region, edges)
+
+
+#: segment marker of the constraint graph's segments and of the lattice patch's edges
+CONSTRAINT, PATCH = 1, 2
+
+
+def _constraint_segments(tri: dict) -> np.ndarray:
+    """The segments (m, 2) of triangle's output ``tri`` that split the constraint graph's
+    (not the lattice patch's edges)."""
+    if "segment_markers" not in tri:
+        return tri["segments"]
+    return tri["segments"][np.ravel(tri["segment_markers"]) != PATCH]
+
+
+def _seeded(
+    pslg: dict, inner: np.ndarray, seeds: Seeds, flags: str
+) -> tuple[dict, np.ndarray, np.ndarray, np.ndarray] | None:
+    """The final triangulation with the lattice patch taken as it is: triangle meshes the
+    graph ``pslg`` with the ``inner`` nodes (k, 2) m of the graded zones and the seeds
+    outside the patch, the patch's boundary edges as segments and the patch as a hole; the
+    patch's own triangles are then added. triangle's output, the vertices (m) and
+    triangles (the band's first, as triangle numbers them), and the patch's boundary edges
+    (patch on the left); None when there is no patch or triangle split one of its edges
+    (a vertex it placed came too near)."""
+    import triangle
+
+    if len(seeds.triangles) == 0:
+        return None
+    first = len(pslg["vertices"]) + len(inner)
+    band = ~seeds.inner
+    number = np.empty(len(seeds.points), dtype=np.int64)
+    number[band] = first + np.arange(int(band.sum()))
+    patch = number[seeds.edges]
+    segments = np.vstack([pslg["segments"], patch])
+    markers = np.full(len(segments), PATCH, dtype=np.int32)
+    markers[: len(pslg["segments"])] = CONSTRAINT
+    holes = seeds.holes if "holes" not in pslg else np.vstack([pslg["holes"], seeds.holes])
+    graph = dict(
+        pslg,
+        vertices=np.vstack([pslg["vertices"], inner, seeds.points[band]]),
+        segments=segments,
+        segment_markers=markers,
+        holes=holes,
+    )
+    tri = triangle.triangulate(graph, flags)
+    if np.count_nonzero(np.ravel(tri["segment_markers"]) == PATCH) != len(patch):
+        log.debug("lattice patch: an edge was split, one triangulation of every seed instead")
+        return None
+    nv = len(tri["vertices"])
+    number[seeds.inner] = nv + np.arange(int(seeds.inner.sum()))
+    v = np.vstack([tri["vertices"], seeds.points[seeds.inner]])
+    t = np.vstack([tri["triangles"], number[seeds.triangles]])
+    return tri, v, t, patch
 
 
 #: the coarse mesh of :func:`_graded` has edges of this many times the largest
@@ -147,19 +211,18 @@ def finish_mesh(
     v: np.ndarray,
     t: np.ndarray,
     region: np.ndarray,
-    neighbours: np.ndarray | None = None,
+    edges: tuple[np.ndarray, np.ndarray] | None = None,
 ) -> Mesh:
     """The box-method mesh of triangles ``t`` on points ``v`` (m) painted by ``region``
     (index of the case region per triangle, −1: dropped), with the case's boundaries
-    attached and its probes checked. ``neighbours`` (k, 3), the triangle opposite each
-    vertex (−1: none), as the triangulation gives them, spare the search for the boundary
-    edges."""
+    attached and its probes checked. ``edges``, the boundary edges a → b of the kept
+    triangles (their interior on the left, as :func:`open_edges` finds them from the
+    triangulation's neighbours), spare the search for them."""
     from dataclasses import replace
 
     from fvheat.mesh.ordering import spatial_order
 
     keep = region >= 0
-    edges = None if neighbours is None else open_edges(v, t, keep, neighbours)
     t = t[keep]
     mark = np.zeros(len(v), dtype=bool)
     mark[t] = True
