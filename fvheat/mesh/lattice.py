@@ -61,21 +61,27 @@ def seed_points(
     body: float,
     others: np.ndarray | None = None,
 ) -> np.ndarray:
-    """The lattice nodes (n, 2) m of :func:`lattice_seeds` (same arguments)."""
-    return lattice_seeds(vertices, segments, spacing, inside, size, body, others).points
+    """The lattice nodes (n, 2) m of :func:`lattice_seeds` (same arguments, ``inside``
+    telling which points are on the meshed body)."""
+
+    def paint(p: np.ndarray) -> np.ndarray:
+        return np.where(inside(p), 0, -1)
+
+    return lattice_seeds(vertices, segments, spacing, paint, size, body, others).points
 
 
 def lattice_seeds(
     vertices: np.ndarray,
     segments: np.ndarray,
     spacing: float,
-    inside: Callable[[np.ndarray], np.ndarray],
+    paint: Callable[[np.ndarray], np.ndarray],
     size: Callable[[np.ndarray], np.ndarray],
     body: float,
     others: np.ndarray | None = None,
 ) -> Seeds:
     """Lattice nodes of ``spacing`` (m) to add to the graph ``vertices`` (m), ``segments``
-    (index pairs): those that ``inside`` accepts (on the meshed body), at least
+    (index pairs): those on the meshed body (``paint``: the region index of each point,
+    −1 outside it), at least
     :data:`CLEARANCE` spacings from every segment and vertex (and point of ``others``,
     (k, 2) m, nodes placed otherwise), and where the size function ``size`` (m) is at its
     largest (``spacing`` / :data:`SPACING`): nearer a corner, refinement grades the mesh.
@@ -90,9 +96,12 @@ def lattice_seeds(
         return Seeds.empty()
     pts, rows, cols = lattice_grid(lo, hi, spacing)
     idx = np.flatnonzero(np.asarray(size(pts)) >= spacing / SPACING * (1.0 - 1e-9))
-    idx = idx[inside(pts[idx])]
+    region = np.asarray(paint(pts[idx]))
+    idx = idx[region >= 0]
     if len(idx) == 0:
         return Seeds.empty()
+    label = np.full(rows * cols, -1, dtype=np.int64)
+    label[idx] = region[region >= 0]
     # the constraints as points at most half a gap apart: a lattice point within a gap
     # of a sample lies within a gap of the constraint, and one within 0.96 gap of a
     # segment lies within a gap of a sample (a k-d tree query, O(n log m))
@@ -111,6 +120,8 @@ def lattice_seeds(
     near = np.flatnonzero(NearPoints(every, gap)(pts[idx]))
     d, _ = cKDTree(every).query(pts[idx[near]], distance_upper_bound=gap)
     idx = np.delete(idx, near[np.isfinite(d)])
+    if len(idx) == 0:
+        return Seeds.empty()
     # a point inside a lattice triangle lies within spacing/√3 of one of its corners, a
     # segment crossing it within 0.44 spacing (< 0.96 gap): the triangles of nodes farther
     # than that from every vertex and point hold no constraint
@@ -120,7 +131,7 @@ def lattice_seeds(
     clear = np.zeros(rows * cols, dtype=bool)
     clear[idx] = True
     clear[idx[near[np.isfinite(d)]]] = False
-    return _patch(pts, rows, cols, idx, clear)
+    return _patch(pts, rows, cols, idx, clear, label)
 
 
 #: nodes of patch triangles lie farther than this many spacings from every isolated
@@ -145,27 +156,35 @@ class Seeds:
     edges: np.ndarray
     #: (h, 2) m: the centroids of the patch triangles on its boundary
     holes: np.ndarray
+    #: (k,) the region of each patch triangle (by ``paint``: no outline crosses it)
+    region: np.ndarray
 
     @staticmethod
     def empty() -> Seeds:
         """No seeds."""
         none = np.zeros((0, 2))
         index = np.zeros((0, 3), dtype=np.int64)
-        return Seeds(none, index, np.zeros(0, dtype=bool), index[:, :2], none)
+        return Seeds(
+            none, index, np.zeros(0, dtype=bool), index[:, :2], none, np.zeros(0, np.int64)
+        )
 
 
-def _patch(pts: np.ndarray, rows: int, cols: int, idx: np.ndarray, clear: np.ndarray) -> Seeds:
-    """The :class:`Seeds` of the lattice ``pts`` (``rows`` × ``cols``) keeping the nodes
-    ``idx``: the patch is every lattice triangle of three ``clear`` nodes. O(nodes)."""
+def _patch(
+    pts: np.ndarray, rows: int, cols: int, idx: np.ndarray, clear: np.ndarray, label: np.ndarray
+) -> Seeds:
+    """The :class:`Seeds` of the lattice ``pts`` (``rows`` × ``cols``, region ``label`` per
+    node) keeping the nodes ``idx``: the patch is every lattice triangle of three
+    ``clear`` nodes. O(nodes)."""
     base = (np.arange(rows - 1)[:, None] * cols + np.arange(cols - 1)[None, :]).ravel()
     even = (base // cols) % 2 == 0
     a, b, c, d = base, base + 1, base + cols, base + cols + 1
     # between an even row and the shifted odd row above it: (a, b, c) and (b, d, c); between
     # an odd row and the even row above: (a, b, d) and (a, d, c); all counter-clockwise
-    first = np.column_stack([a, b, np.where(even, c, d)])
-    second = np.column_stack([np.where(even, b, a), d, c])
-    tri = np.concatenate([first, second])
-    tri = tri[clear[tri].all(axis=1)]
+    third, other = np.where(even, c, d), np.where(even, b, a)
+    one = clear[a] & clear[b] & clear[third]
+    two = clear[other] & clear[d] & clear[c]
+    first = np.column_stack([a[one], b[one], third[one]])
+    tri = np.concatenate([first, np.column_stack([other[two], d[two], c[two]])])
     rank = np.full(rows * cols, -1, dtype=np.int64)
     rank[idx] = np.arange(len(idx))
     count = np.bincount(tri.ravel(), minlength=rows * cols)
@@ -173,7 +192,8 @@ def _patch(pts: np.ndarray, rows: int, cols: int, idx: np.ndarray, clear: np.nda
     # boundary edges: among the triangles touching a node outside the patch's inside, the
     # edges whose mirror triangle (apex reflected through the edge: a + b − c, a lattice
     # node) has a node out of the lattice or not clear
-    cand = tri[(count[tri] < 6).any(axis=1)]
+    low = count < 6
+    cand = tri[low[tri[:, 0]] | low[tri[:, 1]] | low[tri[:, 2]]]
     j, i = np.divmod(cand, cols)
     q = i - (j >> 1)  # axial coordinates: position linear in (q, j)
     edges, holes = [], []
@@ -187,4 +207,4 @@ def _patch(pts: np.ndarray, rows: int, cols: int, idx: np.ndarray, clear: np.nda
         holes.append(np.flatnonzero(~ok))
     at = np.unique(np.concatenate(holes))
     hole = (pts[cand[at, 0]] + pts[cand[at, 1]] + pts[cand[at, 2]]) / 3.0
-    return Seeds(pts[idx], rank[tri], inner, rank[np.concatenate(edges)], hole)
+    return Seeds(pts[idx], rank[tri], inner, rank[np.concatenate(edges)], hole, label[tri[:, 0]])

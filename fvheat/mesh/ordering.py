@@ -36,4 +36,7 @@ def spatial_order(points: np.ndarray) -> np.ndarray:
     span = max(float(np.ptp(pts, axis=0).max()), 1e-300)
     q = np.clip((pts - lo) / span * (2**BITS - 1), 0, 2**BITS - 1).astype(np.uint64)
     key = _spread(q[:, 0]) | (_spread(q[:, 1]) << np.uint64(1))
-    return np.lexsort((pts[:, 1], pts[:, 0], key)).astype(np.int64)
+    order = np.argsort(key, kind="stable")
+    if np.any(key[order[1:]] == key[order[:-1]]):  # points sharing a cell: by x, then y
+        order = np.lexsort((pts[:, 1], pts[:, 0], key))
+    return order.astype(np.int64)

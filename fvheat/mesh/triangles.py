@@ -27,7 +27,7 @@ from scipy.spatial import cKDTree
 
 from fvheat.case.model import Case
 from fvheat.errors import CaseError
-from fvheat.mesh.box import box_mesh, largest_piece, open_edges, sorted_edges, triangle_areas
+from fvheat.mesh.box import box_mesh, open_edges, sorted_edges, triangle_areas
 from fvheat.mesh.geometry import points_in_polygon, segment_frame
 from fvheat.mesh.lattice import SPACING, Seeds, lattice_seeds
 from fvheat.mesh.mesh import Mesh
@@ -75,7 +75,7 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
         pslg["vertices"],
         pslg["segments"],
         SPACING * size.largest,
-        lambda p: paint_points(case, p) >= 0,
+        lambda p: paint_points(case, p),
         size,
         body,
         inner,
@@ -88,30 +88,45 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
         v, t, patch = tri["vertices"], tri["triangles"], np.zeros((0, 2), dtype=np.int64)
     else:
         tri, v, t, patch = joined
-    centroid = _centroids(v, t)
+    # the band triangulated by triangle comes first, then the lattice patch's triangles,
+    # whose region is known and which meet the size function (see _patch_within_sizes)
+    band = len(tri["triangles"])
+    checked = band if _patch_within_sizes(size) else len(t)
+    centroid = _centroids(v, t[:checked])
     for _ in range(PASSES if size.graded else 0):
         h = size(centroid)
         # elsewhere h is the largest, which the area bound of the last call already met
         near = np.flatnonzero(h < size.largest)
         if np.all(triangle_areas(v, t[near]) <= 1.3 * _area(h[near])):
             break  # every triangle within 1.3 × its target area
-        target, area = _area(h), triangle_areas(v, t)
+        centroid = _centroids(v, t)
+        target, area = _area(size(centroid)), triangle_areas(v, t)
         # the triangles this pass will make (each at most its target area), before it runs
         planned = float((area / target).clip(1.0).sum())
         check_node_count(case, int(planned / 2), refined=refine > 1.0)
         graph = {"vertices": v, "triangles": t, "segments": _constraint_segments(tri)}
         tri = triangle.triangulate(dict(graph, triangle_max_area=target), "r" + flags + "na")
         v, t, patch = tri["vertices"], tri["triangles"], np.zeros((0, 2), dtype=np.int64)
+        band = checked = len(t)
         centroid = _centroids(v, t)
-    region = paint_points(case, centroid)
-    # the band triangulated by triangle comes first; the patch has no edge on the outline
-    band = len(tri["triangles"])
+    region = paint_points(case, centroid[:band])
+    if band < len(t):
+        region = np.concatenate([region, seeds.region])
     edges = open_edges(v, t[:band], region[:band] >= 0, tri["neighbors"])
     if len(patch):  # the band's open edges along the patch are inside the body
         n = np.int64(len(v))
         inside = np.isin(edges[0] * n + edges[1], patch[:, 1] * n + patch[:, 0])
         edges = (edges[0][~inside], edges[1][~inside])
     return finish_mesh(case, v, t.astype(np.int64), region, edges)
+
+
+def _patch_within_sizes(size: SizeFunction) -> bool:
+    """Whether every triangle of a lattice patch is certainly within 1.3 × the target area
+    of the size function ``size``: its nodes have h = largest (L), every point of it lies
+    within SPACING·L/√3 of a node and h changes by at most (growth − 1) per metre, so
+    h ≥ L·(1 − (growth − 1)·SPACING/√3) in it, against the SPACING·L/√1.3 its edges need."""
+    slope = size.growth - 1.0
+    return 1.0 - slope * SPACING / np.sqrt(3.0) >= SPACING / np.sqrt(1.3)
 
 
 #: segment marker of the constraint graph's segments and of the lattice patch's edges
@@ -218,7 +233,6 @@ def finish_mesh(
     attached and its probes checked. ``edges``, the boundary edges a → b of the kept
     triangles (their interior on the left, as :func:`open_edges` finds them from the
     triangulation's neighbours), spare the search for them."""
-    from dataclasses import replace
 
     from fvheat.mesh.ordering import spatial_order
 
@@ -247,9 +261,8 @@ def finish_mesh(
         names,
         tuple(b.name for b in case.boundaries),
         edges,
+        tri_region,
     )
-    piece_region = np.repeat(tri_region, 3)
-    mesh = replace(mesh, piece_region=piece_region, region=piece_region[largest_piece(mesh)])
     mesh = attach_boundaries(case, mesh)
     check_probes(case, mesh)
     return mesh
