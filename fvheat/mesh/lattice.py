@@ -116,21 +116,22 @@ def lattice_seeds(
         u = (np.arange(int(count.sum())) - first[seg]) / (count[seg] - 1)
         samples.append(a[seg] + u[:, None] * (b - a)[seg])
     every = np.concatenate(samples)
-    # most lattice points are far from every constraint: a raster leaves them out first
-    near = np.flatnonzero(NearPoints(every, gap)(pts[idx]))
-    d, _ = cKDTree(every).query(pts[idx[near]], distance_upper_bound=gap)
-    idx = np.delete(idx, near[np.isfinite(d)])
-    if len(idx) == 0:
-        return Seeds.empty()
     # a point inside a lattice triangle lies within spacing/√3 of one of its corners, a
     # segment crossing it within 0.44 spacing (< 0.96 gap): the triangles of nodes farther
-    # than that from every vertex and point hold no constraint
+    # than ``reach`` from every vertex and point hold no constraint
     reach = POINT_CLEARANCE * spacing
-    near = np.flatnonzero(NearPoints(isolated, reach)(pts[idx]))
-    d, _ = cKDTree(isolated).query(pts[idx[near]], distance_upper_bound=reach)
+    # most lattice points are far from every constraint: a raster leaves them out first
+    near = idx[NearPoints(every, max(gap, reach))(pts[idx])]
+    d, _ = cKDTree(every).query(pts[near], distance_upper_bound=gap)
     clear = np.zeros(rows * cols, dtype=bool)
     clear[idx] = True
-    clear[idx[near[np.isfinite(d)]]] = False
+    clear[near[np.isfinite(d)]] = False
+    idx = idx[clear[idx]]
+    if len(idx) == 0:
+        return Seeds.empty()
+    near = near[~np.isfinite(d)]
+    d, _ = cKDTree(isolated).query(pts[near], distance_upper_bound=reach)
+    clear[near[np.isfinite(d)]] = False
     return _patch(pts, rows, cols, idx, clear, label)
 
 

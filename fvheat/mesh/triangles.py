@@ -368,7 +368,8 @@ def find_triangles(mesh: Mesh, points: np.ndarray) -> tuple[np.ndarray, np.ndarr
             # first the triangles around the nearest node (a probe is a node of the
             # meshes fvheat makes), then, if none holds the point, every triangle
             node = int(np.argmin(np.hypot(v[:, 0] - pts[i, 0], v[:, 1] - pts[i, 1])))
-            for cand in (np.flatnonzero((t == node).any(axis=1)), np.arange(len(t))):
+            # (a node is once at most in a triangle: the triangles around it, in order)
+            for cand in (np.flatnonzero(t.ravel() == node) // 3, np.arange(len(t))):
                 b = _barycentric_many(v[t[cand]], np.broadcast_to(pts[i], (len(cand), 2)))
                 best = int(np.argmax(b.min(axis=1)))
                 if b[best].min() >= -tol:
