@@ -49,49 +49,26 @@ def box_mesh(
     t[flip] = t[flip][:, [0, 2, 1]]
     area = np.abs(area)
     nv = len(v)
-    # local edge e: vertices (e+1, e+2), opposite vertex e
-    a = t[:, [1, 2, 0]].ravel()
-    b = t[:, [2, 0, 1]].ravel()
-    c = t.ravel()
-    # coordinates gathered once, per component (these arrays are 3 × triangles long);
-    # the arithmetic in place, to keep the number of such arrays (and fresh pages) down
-    x, y = v[:, 0], v[:, 1]
-    xa, ya, xc, yc = x[a], y[a], x[c], y[c]
-    ux, uy = xa - xc, ya - yc
-    wx, wy = np.subtract(x[b], xc, out=xc), np.subtract(y[b], yc, out=yc)
-    # ½·cot θ = ½·(u·w)/(u × w), and u × w is twice the (counter-clockwise) triangle's area
-    weight = ux * wx
-    weight += uy * wy
-    weight /= np.repeat(4.0 * area, 3)
-    # the dual segment: centroid − edge midpoint = (2c − a − b)/6 = −(u + w)/6
-    dx, dy = ux + wx, uy + wy
-    dx /= -6.0
-    dy /= -6.0
-    length = dx * dx
-    length += dy * dy
-    np.sqrt(length, out=length)
-    ax, ay = np.subtract(wx, ux, out=wx), np.subtract(wy, uy, out=wy)  # the edge a → b
-    # the dual segment turned clockwise, pointing from a towards b (a counter-clockwise
-    # triangle's centroid lies left of a → b, so this is the sign that crosses to b)
-    turn = np.multiply(dy, ax, out=ux)
-    turn -= np.multiply(dx, ay, out=uy)
-    np.sign(turn, out=turn)
-    turn /= length
-    normal = np.empty((len(a), 2))
-    np.multiply(dy, turn, out=normal[:, 0])
-    np.negative(turn, out=turn)
-    np.multiply(dx, turn, out=normal[:, 1])
-    half_edge = ax * ax
-    half_edge += ay * ay
-    np.sqrt(half_edge, out=half_edge)
-    half_edge *= 0.5
-    face_centre = np.empty((len(a), 2))  # halfway along the dual segment: (a + b + 2d)/2
-    xa += x[b]
-    xa += dx
-    np.multiply(xa, 0.5, out=face_centre[:, 0])
-    ya += y[b]
-    ya += dy
-    np.multiply(ya, 0.5, out=face_centre[:, 1])
+    nf = 3 * len(t)
+    a, b = np.empty(nf, dtype=np.int64), np.empty(nf, dtype=np.int64)
+    weight, length, half_edge = np.empty(nf), np.empty(nf), np.empty(nf)
+    normal, face_centre = np.empty((nf, 2)), np.empty((nf, 2))
+    # in blocks of triangles: the temporaries stay small (in cache, no fresh pages)
+    for lo in range(0, len(t), BLOCK):
+        hi = min(len(t), lo + BLOCK)
+        f = slice(3 * lo, 3 * hi)
+        _faces(
+            v,
+            t[lo:hi],
+            area[lo:hi],
+            a[f],
+            b[f],
+            weight[f],
+            length[f],
+            half_edge[f],
+            normal[f],
+            face_centre[f],
+        )
     face_material = np.repeat(np.asarray(tri_material, dtype=np.int32), 3)
     face_material.flags.writeable = False
     half_edge.flags.writeable = False
@@ -145,6 +122,68 @@ def box_mesh(
     return replace(
         mesh, material=face_material[best], piece_region=piece_region, region=piece_region[best]
     )
+
+
+#: triangles per block of :func:`box_mesh`'s face arithmetic
+BLOCK = 1 << 15
+
+
+def _faces(
+    v: np.ndarray,
+    t: np.ndarray,
+    area: np.ndarray,
+    a: np.ndarray,
+    b: np.ndarray,
+    weight: np.ndarray,
+    length: np.ndarray,
+    half_edge: np.ndarray,
+    normal: np.ndarray,
+    face_centre: np.ndarray,
+) -> None:
+    """The face pieces of counter-clockwise triangles ``t`` (areas ``area``, m²) on ``v``
+    (m), written into the given arrays (3 per triangle, piece 3i + e on edge e): end
+    points ``a`` → ``b``, cotangent weight, dual segment length (m), half edge length (m),
+    unit normal towards ``b`` and centre (m)."""
+    # local edge e: vertices (e+1, e+2), opposite vertex e
+    a.reshape(-1, 3)[:] = t[:, [1, 2, 0]]
+    b.reshape(-1, 3)[:] = t[:, [2, 0, 1]]
+    c = t.ravel()
+    x, y = v[:, 0], v[:, 1]
+    xa, ya, xc, yc = x[a], y[a], x[c], y[c]
+    ux, uy = xa - xc, ya - yc
+    wx, wy = np.subtract(x[b], xc, out=xc), np.subtract(y[b], yc, out=yc)
+    # ½·cot θ = ½·(u·w)/(u × w), and u × w is twice the (counter-clockwise) triangle's area
+    np.multiply(ux, wx, out=weight)
+    weight += uy * wy
+    weight /= np.repeat(4.0 * area, 3)
+    # the dual segment: centroid − edge midpoint = (2c − a − b)/6 = −(u + w)/6
+    dx, dy = ux + wx, uy + wy
+    dx /= -6.0
+    dy /= -6.0
+    np.multiply(dx, dx, out=length)
+    length += dy * dy
+    np.sqrt(length, out=length)
+    ax, ay = np.subtract(wx, ux, out=wx), np.subtract(wy, uy, out=wy)  # the edge a → b
+    # the dual segment turned clockwise, pointing from a towards b (a counter-clockwise
+    # triangle's centroid lies left of a → b, so this is the sign that crosses to b)
+    turn = np.multiply(dy, ax, out=ux)
+    turn -= np.multiply(dx, ay, out=uy)
+    np.sign(turn, out=turn)
+    turn /= length
+    np.multiply(dy, turn, out=normal[:, 0])
+    np.negative(turn, out=turn)
+    np.multiply(dx, turn, out=normal[:, 1])
+    np.multiply(ax, ax, out=half_edge)
+    half_edge += ay * ay
+    np.sqrt(half_edge, out=half_edge)
+    half_edge *= 0.5
+    # halfway along the dual segment: (a + b + 2d)/2
+    xa += x[b]
+    xa += dx
+    np.multiply(xa, 0.5, out=face_centre[:, 0])
+    ya += y[b]
+    ya += dy
+    np.multiply(ya, 0.5, out=face_centre[:, 1])
 
 
 def boundary_edges(a: np.ndarray, b: np.ndarray, n: int) -> tuple[np.ndarray, np.ndarray]:

@@ -117,7 +117,7 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
         n = np.int64(len(v))
         inside = np.isin(edges[0] * n + edges[1], patch[:, 1] * n + patch[:, 0])
         edges = (edges[0][~inside], edges[1][~inside])
-    return finish_mesh(case, v, t.astype(np.int64), region, edges)
+    return finish_mesh(case, v, np.asarray(t, dtype=np.int64), region, edges)
 
 
 def _patch_within_sizes(size: SizeFunction) -> bool:
