@@ -44,18 +44,20 @@ def box_mesh(
     ``piece_material``): fewer fresh pages.
     """
     t = np.asarray(t, dtype=np.int64)
-    area = triangle_areas(v, t)
-    flip = area < 0
-    t[flip] = t[flip][:, [0, 2, 1]]
-    area = np.abs(area)
     nv = len(v)
     nf = 3 * len(t)
+    area = np.empty(len(t))
     a, b = np.empty(nf, dtype=np.int64), np.empty(nf, dtype=np.int64)
     weight, length, half_edge = np.empty(nf), np.empty(nf), np.empty(nf)
     normal, face_centre = np.empty((nf, 2)), np.empty((nf, 2))
     # in blocks of triangles: the temporaries stay small (in cache, no fresh pages)
     for lo in range(0, len(t), BLOCK):
         hi = min(len(t), lo + BLOCK)
+        block = t[lo:hi]  # (a view: turned counter-clockwise in place)
+        signed = triangle_areas(v, block)
+        flip = signed < 0
+        block[flip] = block[flip][:, [0, 2, 1]]
+        np.abs(signed, out=area[lo:hi])
         f = slice(3 * lo, 3 * hi)
         _faces(
             v,
