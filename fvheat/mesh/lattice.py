@@ -9,6 +9,12 @@ outlines and near corners. Measured on the benchmark section (``scripts/bench.py
 --triangles 200000``, same node count): triangulation 0.5 → 0.12 s, and Ruge–Stüben
 AMG-CG needs 18 iterations instead of 33 on the regular P1 matrix (its off-diagonals are
 equal and negative away from the outlines: nearly an M-matrix, like the grid's).
+
+The lattice's own triangles are that triangulation wherever no constraint touches them, so
+:func:`lattice_seeds` also hands them over (the *patch*, found by index arithmetic on the
+lattice rows) and ``triangle`` meshes only the band between the constraints and the patch
+(:func:`fvheat.mesh.triangles._seeded`): at 200 000 nodes the final triangulation took
+0.007 s instead of 0.17 s.
 """
 
 from __future__ import annotations

@@ -8,9 +8,12 @@ corners on surfaces tied to a temperature, a quarter of it at their re-entrant c
 growing by ``growth`` per cell in between. Where the size is at its largest the mesh is
 seeded with a hexagonal lattice (:mod:`fvheat.mesh.lattice`: equilateral triangles), the
 corners' graded zones come from a coarse mesh refined there (:func:`_graded`), and one
-final triangulation joins them.
+final triangulation joins them; the lattice's triangles clear of every constraint (its
+patch) are taken as they are, and that triangulation covers only the band between them and
+the constraints (:func:`_seeded`).
 Each triangle takes the material of the last region containing its centroid (triangles
-never straddle an outline, so this is exact); triangles no region covers are dropped.
+never straddle an outline, so this is exact; a patch triangle its nodes'); triangles no
+region covers are dropped.
 
 The faces are those of the box method (:func:`box_faces`): every triangle contributes a
 piece of dual edge (edge midpoint → centroid) to each of its three edges with the
