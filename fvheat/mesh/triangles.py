@@ -240,7 +240,8 @@ def finish_mesh(
     from fvheat.mesh.ordering import spatial_order
 
     keep = region >= 0
-    t = t[keep]
+    if not keep.all():  # (a copy only when some are dropped)
+        t, region = t[keep], region[keep]
     mark = np.zeros(len(v), dtype=bool)
     mark[t] = True
     used = np.flatnonzero(mark)
@@ -252,7 +253,7 @@ def finish_mesh(
     t = rank[t]
     by_node = np.argsort(t.min(axis=1), kind="stable")
     t = t[by_node]
-    tri_region = region[keep][by_node]
+    tri_region = region[by_node]
     names = tuple(case.materials)
     material = np.array([names.index(r.material) for r in case.regions], dtype=np.int32)
     if edges is not None:
