@@ -223,3 +223,25 @@ def test_mesh_with_a_patch_is_conforming(tmp_path, monkeypatch):
         on_outline[:, 0, 0] & on_outline[:, 1, 0] | on_outline[:, 0, 1] & on_outline[:, 1, 1]
     )
     assert np.hypot(*(v - [0.811, 0.137]).T).min() < 1e-12
+
+
+def test_without_the_patch_the_same_nodes(tmp_path, monkeypatch):
+    """When triangle would split a patch edge, every seed goes into one triangulation: the
+    mesh then has the same lattice nodes, and, the lattice's triangles being Delaunay,
+    the same equilateral triangles (geometric identity), and the same heat flow to
+    round-off where the band's triangles agree (here they do: a square)."""
+    import fvheat.mesh.triangles as triangles
+    from fvheat.simulate import simulate
+
+    case = load(tmp_path, SQUARE)
+    joined = build_mesh(case)
+    monkeypatch.setattr(triangles, "_seeded", lambda *a: None)
+    single = build_mesh(case)
+    assert single.n_cells == joined.n_cells
+    # numbered by position; a node triangle places in the band may differ by round-off
+    np.testing.assert_allclose(single.centres, joined.centres, rtol=0.0, atol=1e-15)
+    assert joined.triangles is not None and single.triangles is not None
+    key = [np.unique(np.sort(m.triangles, axis=1), axis=0) for m in (joined, single)]
+    np.testing.assert_array_equal(key[0], key[1])
+    flows = [simulate(case, mesh=m).surfaces["a"].heat_flow for m in (joined, single)]
+    assert flows[0] == pytest.approx(flows[1], rel=1e-9)
