@@ -37,6 +37,12 @@ def spatial_order(points: np.ndarray) -> np.ndarray:
     q = np.clip((pts - lo) / span * (2**BITS - 1), 0, 2**BITS - 1).astype(np.uint64)
     key = _spread(q[:, 0]) | (_spread(q[:, 1]) << np.uint64(1))
     order = np.argsort(key, kind="stable")
-    if np.any(key[order[1:]] == key[order[:-1]]):  # points sharing a cell: by x, then y
-        order = np.lexsort((pts[:, 1], pts[:, 0], key))
+    k = key[order]
+    tie = np.zeros(len(k), dtype=bool)
+    tie[1:] = k[1:] == k[:-1]
+    if tie.any():  # points sharing a cell (few): among them by x, then y
+        tie[:-1] |= tie[1:]
+        at = np.flatnonzero(tie)
+        sub = order[at]
+        order[at] = sub[np.lexsort((pts[sub, 1], pts[sub, 0], key[sub]))]
     return order.astype(np.int64)
