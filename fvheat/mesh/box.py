@@ -28,71 +28,56 @@ def box_mesh(
     material_names: tuple[str, ...],
     boundary_names: tuple[str, ...],
     edges: tuple[np.ndarray, np.ndarray] | None = None,
+    tri_region: np.ndarray | None = None,
 ) -> Mesh:
     """The vertex-centred :class:`Mesh` of triangles ``t`` (k, 3) on vertices ``v`` (m):
     control volumes bounded by the median dual (edge midpoints joined to centroids).
-    ``edges``: the boundary edges as :func:`boundary_edges` finds them, when known.
+    ``edges``: the boundary edges as :func:`boundary_edges` finds them, when known;
+    ``tri_region``: the region of each triangle, when known (``piece_region``, ``region``).
 
     Interior faces: one per triangle and edge (owner → neighbour along the edge), weight
     ½·cot of the opposite angle, material of the triangle. Pieces: one per triangle and
     vertex, a third of the triangle's area. Boundary faces: the two halves of every
     boundary edge, each belonging to its end vertex, centred at the quarter point, with
-    ``b_dist`` = 0. All O(triangles), vectorised.
+    ``b_dist`` = 0. All O(triangles), vectorised. Arrays equal by construction are one
+    array, read-only (``d_owner`` and ``d_neighbour``, ``face_material`` and
+    ``piece_material``): fewer fresh pages.
     """
     t = np.asarray(t, dtype=np.int64)
-    area = triangle_areas(v, t)
-    flip = area < 0
-    t[flip] = t[flip][:, [0, 2, 1]]
-    area = np.abs(area)
     nv = len(v)
-    # local edge e: vertices (e+1, e+2), opposite vertex e
-    a = t[:, [1, 2, 0]].ravel()
-    b = t[:, [2, 0, 1]].ravel()
-    c = t.ravel()
-    # coordinates gathered once, per component (these arrays are 3 × triangles long);
-    # the arithmetic in place, to keep the number of such arrays (and fresh pages) down
-    x, y = v[:, 0], v[:, 1]
-    xa, ya, xc, yc = x[a], y[a], x[c], y[c]
-    ux, uy = xa - xc, ya - yc
-    wx, wy = np.subtract(x[b], xc, out=xc), np.subtract(y[b], yc, out=yc)
-    # ½·cot θ = ½·(u·w)/(u × w), and u × w is twice the (counter-clockwise) triangle's area
-    weight = ux * wx
-    weight += uy * wy
-    weight /= np.repeat(4.0 * area, 3)
-    # the dual segment: centroid − edge midpoint = (2c − a − b)/6 = −(u + w)/6
-    dx, dy = ux + wx, uy + wy
-    dx /= -6.0
-    dy /= -6.0
-    length = dx * dx
-    length += dy * dy
-    np.sqrt(length, out=length)
-    ax, ay = np.subtract(wx, ux, out=wx), np.subtract(wy, uy, out=wy)  # the edge a → b
-    # the dual segment turned clockwise, pointing from a towards b (a counter-clockwise
-    # triangle's centroid lies left of a → b, so this is the sign that crosses to b)
-    turn = np.multiply(dy, ax, out=ux)
-    turn -= np.multiply(dx, ay, out=uy)
-    np.sign(turn, out=turn)
-    turn /= length
-    normal = np.empty((len(a), 2))
-    np.multiply(dy, turn, out=normal[:, 0])
-    np.negative(turn, out=turn)
-    np.multiply(dx, turn, out=normal[:, 1])
-    half_edge = ax * ax
-    half_edge += ay * ay
-    np.sqrt(half_edge, out=half_edge)
-    half_edge *= 0.5
-    face_centre = np.empty((len(a), 2))  # halfway along the dual segment: (a + b + 2d)/2
-    xa += x[b]
-    xa += dx
-    np.multiply(xa, 0.5, out=face_centre[:, 0])
-    ya += y[b]
-    ya += dy
-    np.multiply(ya, 0.5, out=face_centre[:, 1])
-    face_material = np.repeat(tri_material, 3).astype(np.int32)
+    nf = 3 * len(t)
+    area = np.empty(len(t))
+    a, b = np.empty(nf, dtype=np.int64), np.empty(nf, dtype=np.int64)
+    weight, length, half_edge = np.empty(nf), np.empty(nf), np.empty(nf)
+    normal, face_centre = np.empty((nf, 2)), np.empty((nf, 2))
+    # in blocks of triangles: the temporaries stay small (in cache, no fresh pages)
+    for lo in range(0, len(t), BLOCK):
+        hi = min(len(t), lo + BLOCK)
+        block = t[lo:hi]  # (a view: turned counter-clockwise in place)
+        signed = triangle_areas(v, block)
+        flip = signed < 0
+        block[flip] = block[flip][:, [0, 2, 1]]
+        np.abs(signed, out=area[lo:hi])
+        f = slice(3 * lo, 3 * hi)
+        _faces(
+            v,
+            t[lo:hi],
+            area[lo:hi],
+            a[f],
+            b[f],
+            weight[f],
+            length[f],
+            half_edge[f],
+            normal[f],
+            face_centre[f],
+        )
+    face_material = np.repeat(np.asarray(tri_material, dtype=np.int32), 3)
+    face_material.flags.writeable = False
+    half_edge.flags.writeable = False
 
     piece_cell = t.ravel()
-    piece_volume = np.repeat(area / 3.0, 3)
-    piece_material = face_material.copy()
+    area /= 3.0
+    piece_volume = np.repeat(area, 3)
     volumes = np.bincount(piece_cell, weights=piece_volume, minlength=nv)
 
     # counter-clockwise triangles: the body lies left of a → b
@@ -112,7 +97,7 @@ def box_mesh(
         neighbour=b,
         face_area=length,
         d_owner=half_edge,
-        d_neighbour=half_edge.copy(),
+        d_neighbour=half_edge,
         face_centre=face_centre,
         face_normal=normal,
         b_cell=b_cell,
@@ -127,12 +112,81 @@ def box_mesh(
         face_material=face_material,
         face_weight=weight,
         piece_cell=piece_cell,
-        piece_material=piece_material,
+        piece_material=face_material,
         piece_volume=piece_volume,
         triangles=t,
         triangle_material=np.asarray(tri_material, dtype=np.int32),
     )
-    return replace(mesh, material=piece_material[largest_piece(mesh)])
+    best = largest_piece(mesh)
+    if tri_region is None:
+        return replace(mesh, material=face_material[best])
+    piece_region = np.repeat(tri_region, 3)
+    return replace(
+        mesh, material=face_material[best], piece_region=piece_region, region=piece_region[best]
+    )
+
+
+#: triangles per block of :func:`box_mesh`'s face arithmetic (its temporaries, some 100 kB
+#: each, stay in the core's cache: 0.14 → 0.12 s at 400 000 triangles against 32 768)
+BLOCK = 1 << 12
+
+
+def _faces(
+    v: np.ndarray,
+    t: np.ndarray,
+    area: np.ndarray,
+    a: np.ndarray,
+    b: np.ndarray,
+    weight: np.ndarray,
+    length: np.ndarray,
+    half_edge: np.ndarray,
+    normal: np.ndarray,
+    face_centre: np.ndarray,
+) -> None:
+    """The face pieces of counter-clockwise triangles ``t`` (areas ``area``, m²) on ``v``
+    (m), written into the given arrays (3 per triangle, piece 3i + e on edge e): end
+    points ``a`` → ``b``, cotangent weight, dual segment length (m), half edge length (m),
+    unit normal towards ``b`` and centre (m)."""
+    # local edge e: vertices (e+1, e+2), opposite vertex e
+    a.reshape(-1, 3)[:] = t[:, [1, 2, 0]]
+    b.reshape(-1, 3)[:] = t[:, [2, 0, 1]]
+    c = t.ravel()
+    x, y = v[:, 0], v[:, 1]
+    xa, ya, xc, yc = x[a], y[a], x[c], y[c]
+    ux, uy = xa - xc, ya - yc
+    wx, wy = np.subtract(x[b], xc, out=xc), np.subtract(y[b], yc, out=yc)
+    # ½·cot θ = ½·(u·w)/(u × w), and u × w is twice the (counter-clockwise) triangle's area
+    np.multiply(ux, wx, out=weight)
+    weight += uy * wy
+    weight /= np.repeat(4.0 * area, 3)
+    # the dual segment: centroid − edge midpoint = (2c − a − b)/6 = −(u + w)/6
+    dx, dy = ux + wx, uy + wy
+    dx /= -6.0
+    dy /= -6.0
+    np.multiply(dx, dx, out=length)
+    length += dy * dy
+    np.sqrt(length, out=length)
+    ax, ay = np.subtract(wx, ux, out=wx), np.subtract(wy, uy, out=wy)  # the edge a → b
+    # the dual segment turned clockwise, pointing from a towards b (a counter-clockwise
+    # triangle's centroid lies left of a → b, so this is the sign that crosses to b)
+    turn = np.multiply(dy, ax, out=ux)
+    turn -= np.multiply(dx, ay, out=uy)
+    np.sign(turn, out=turn)
+    turn /= length
+    np.multiply(dy, turn, out=normal[:, 0])
+    np.negative(turn, out=turn)
+    np.multiply(dx, turn, out=normal[:, 1])
+    np.multiply(ax, ax, out=half_edge)
+    half_edge += ay * ay
+    np.sqrt(half_edge, out=half_edge)
+    half_edge *= 0.5
+    # halfway along the dual segment: (a + b + 2d)/2
+    xa += x[b]
+    xa += dx
+    np.multiply(xa, 0.5, out=face_centre[:, 0])
+    ya += y[b]
+    ya += dy
+    np.multiply(ya, 0.5, out=face_centre[:, 1])
 
 
 def boundary_edges(a: np.ndarray, b: np.ndarray, n: int) -> tuple[np.ndarray, np.ndarray]:

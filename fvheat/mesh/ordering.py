@@ -36,4 +36,13 @@ def spatial_order(points: np.ndarray) -> np.ndarray:
     span = max(float(np.ptp(pts, axis=0).max()), 1e-300)
     q = np.clip((pts - lo) / span * (2**BITS - 1), 0, 2**BITS - 1).astype(np.uint64)
     key = _spread(q[:, 0]) | (_spread(q[:, 1]) << np.uint64(1))
-    return np.lexsort((pts[:, 1], pts[:, 0], key)).astype(np.int64)
+    order = np.argsort(key, kind="stable")
+    k = key[order]
+    tie = np.zeros(len(k), dtype=bool)
+    tie[1:] = k[1:] == k[:-1]
+    if tie.any():  # points sharing a cell (few): among them by x, then y
+        tie[:-1] |= tie[1:]
+        at = np.flatnonzero(tie)
+        sub = order[at]
+        order[at] = sub[np.lexsort((pts[sub, 1], pts[sub, 0], key[sub]))]
+    return order.astype(np.int64)

@@ -8,9 +8,12 @@ corners on surfaces tied to a temperature, a quarter of it at their re-entrant c
 growing by ``growth`` per cell in between. Where the size is at its largest the mesh is
 seeded with a hexagonal lattice (:mod:`fvheat.mesh.lattice`: equilateral triangles), the
 corners' graded zones come from a coarse mesh refined there (:func:`_graded`), and one
-final triangulation joins them.
+final triangulation joins them; the lattice's triangles clear of every constraint (its
+patch) are taken as they are, and that triangulation covers only the band between them and
+the constraints (:func:`_seeded`).
 Each triangle takes the material of the last region containing its centroid (triangles
-never straddle an outline, so this is exact); triangles no region covers are dropped.
+never straddle an outline, so this is exact; a patch triangle its nodes'); triangles no
+region covers are dropped.
 
 The faces are those of the box method (:func:`box_faces`): every triangle contributes a
 piece of dual edge (edge midpoint → centroid) to each of its three edges with the
@@ -27,9 +30,9 @@ from scipy.spatial import cKDTree
 
 from fvheat.case.model import Case
 from fvheat.errors import CaseError
-from fvheat.mesh.box import box_mesh, largest_piece, open_edges, sorted_edges, triangle_areas
+from fvheat.mesh.box import box_mesh, open_edges, sorted_edges, triangle_areas
 from fvheat.mesh.geometry import points_in_polygon, segment_frame
-from fvheat.mesh.lattice import SPACING, seed_points
+from fvheat.mesh.lattice import SPACING, Seeds, lattice_seeds
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.segments import attach_boundaries
 from fvheat.mesh.size import check_node_count
@@ -71,36 +74,115 @@ def build_triangle_mesh(case: Case, refine: float = 1.0) -> Mesh:
         pslg, inner = _graded(case, pslg, size, flags, refine > 1.0)
     else:
         inner = np.zeros((0, 2))
-    seeds = seed_points(
+    seeds = lattice_seeds(
         pslg["vertices"],
         pslg["segments"],
         SPACING * size.largest,
-        lambda p: paint_points(case, p) >= 0,
+        lambda p: paint_points(case, p),
         size,
         body,
         inner,
     )
-    pslg["vertices"] = np.vstack([pslg["vertices"], inner, seeds])
     # "n": the neighbours of each triangle come free, and give the boundary edges
-    tri = triangle.triangulate(pslg, flags + f"na{largest}")
-    v, t = tri["vertices"], tri["triangles"]
-    centroid = _centroids(v, t)
+    joined = _seeded(pslg, inner, seeds, flags + f"na{largest}")
+    if joined is None:  # every seed a vertex of one triangulation
+        graph = dict(pslg, vertices=np.vstack([pslg["vertices"], inner, seeds.points]))
+        tri = triangle.triangulate(graph, flags + f"na{largest}")
+        v, t, patch = tri["vertices"], tri["triangles"], np.zeros((0, 2), dtype=np.int64)
+    else:
+        tri, v, t, patch = joined
+    # the band triangulated by triangle comes first, then the lattice patch's triangles,
+    # whose region is known and which meet the size function (see _patch_within_sizes)
+    band = len(tri["triangles"])
+    checked = band if _patch_within_sizes(size) else len(t)
+    centroid = _centroids(v, t[:checked])
     for _ in range(PASSES if size.graded else 0):
         h = size(centroid)
         # elsewhere h is the largest, which the area bound of the last call already met
         near = np.flatnonzero(h < size.largest)
         if np.all(triangle_areas(v, t[near]) <= 1.3 * _area(h[near])):
             break  # every triangle within 1.3 × its target area
-        target, area = _area(h), triangle_areas(v, t)
+        centroid = _centroids(v, t)
+        target, area = _area(size(centroid)), triangle_areas(v, t)
         # the triangles this pass will make (each at most its target area), before it runs
         planned = float((area / target).clip(1.0).sum())
         check_node_count(case, int(planned / 2), refined=refine > 1.0)
-        again = {k: x for k, x in tri.items() if k != "neighbors"}
-        tri = triangle.triangulate(dict(again, triangle_max_area=target), "r" + flags + "na")
-        v, t = tri["vertices"], tri["triangles"]
+        graph = {"vertices": v, "triangles": t, "segments": _constraint_segments(tri)}
+        tri = triangle.triangulate(dict(graph, triangle_max_area=target), "r" + flags + "na")
+        v, t, patch = tri["vertices"], tri["triangles"], np.zeros((0, 2), dtype=np.int64)
+        band = checked = len(t)
         centroid = _centroids(v, t)
-    region = paint_points(case, centroid)
-    return finish_mesh(case, v, t.astype(np.int64), region, tri["neighbors"])
+    region = paint_points(case, centroid[:band])
+    if band < len(t):
+        region = np.concatenate([region, seeds.region])
+    edges = open_edges(v, t[:band], region[:band] >= 0, tri["neighbors"])
+    if len(patch):  # the band's open edges along the patch are inside the body
+        n = np.int64(len(v))
+        inside = np.isin(edges[0] * n + edges[1], patch[:, 1] * n + patch[:, 0])
+        edges = (edges[0][~inside], edges[1][~inside])
+    return finish_mesh(case, v, np.asarray(t, dtype=np.int64), region, edges)
+
+
+def _patch_within_sizes(size: SizeFunction) -> bool:
+    """Whether every triangle of a lattice patch is certainly within 1.3 × the target area
+    of the size function ``size``: its nodes have h = largest (L), every point of it lies
+    within SPACING·L/√3 of a node and h changes by at most (growth − 1) per metre, so
+    h ≥ L·(1 − (growth − 1)·SPACING/√3) in it, against the SPACING·L/√1.3 its edges need."""
+    slope = size.growth - 1.0
+    return 1.0 - slope * SPACING / np.sqrt(3.0) >= SPACING / np.sqrt(1.3)
+
+
+#: segment marker of the constraint graph's segments and of the lattice patch's edges
+CONSTRAINT, PATCH = 1, 2
+
+
+def _constraint_segments(tri: dict) -> np.ndarray:
+    """The segments (m, 2) of triangle's output ``tri`` that split the constraint graph's
+    (not the lattice patch's edges)."""
+    if "segment_markers" not in tri:
+        return tri["segments"]
+    return tri["segments"][np.ravel(tri["segment_markers"]) != PATCH]
+
+
+def _seeded(
+    pslg: dict, inner: np.ndarray, seeds: Seeds, flags: str
+) -> tuple[dict, np.ndarray, np.ndarray, np.ndarray] | None:
+    """The final triangulation with the lattice patch taken as it is: triangle meshes the
+    graph ``pslg`` with the ``inner`` nodes (k, 2) m of the graded zones and the seeds
+    outside the patch, the patch's boundary edges as segments and the patch as a hole; the
+    patch's own triangles are then added. triangle's output, the vertices (m) and
+    triangles (the band's first, as triangle numbers them), and the patch's boundary edges
+    (patch on the left); None when there is no patch or triangle split one of its edges
+    (a vertex it placed came too near)."""
+    import triangle
+
+    if len(seeds.triangles) == 0:
+        return None
+    first = len(pslg["vertices"]) + len(inner)
+    band = ~seeds.inner
+    number = np.empty(len(seeds.points), dtype=np.int64)
+    number[band] = first + np.arange(int(band.sum()))
+    patch = number[seeds.edges]
+    segments = np.vstack([pslg["segments"], patch])
+    markers = np.full(len(segments), PATCH, dtype=np.int32)
+    markers[: len(pslg["segments"])] = CONSTRAINT
+    holes = seeds.holes if "holes" not in pslg else np.vstack([pslg["holes"], seeds.holes])
+    graph = dict(
+        pslg,
+        vertices=np.vstack([pslg["vertices"], inner, seeds.points[band]]),
+        segments=segments,
+        segment_markers=markers,
+        holes=holes,
+    )
+    tri = triangle.triangulate(graph, flags)
+    if np.count_nonzero(np.ravel(tri["segment_markers"]) == PATCH) != len(patch):
+        log.debug("lattice patch: an edge was split, one triangulation of every seed instead")
+        return None
+    nv = len(tri["vertices"])
+    number[seeds.inner] = nv + np.arange(int(seeds.inner.sum()))
+    v = np.vstack([tri["vertices"], seeds.points[seeds.inner]])
+    t = np.vstack([tri["triangles"], number[seeds.triangles]])
+    return tri, v, t, patch
 
 
 #: the coarse mesh of :func:`_graded` has edges of this many times the largest
@@ -147,20 +229,19 @@ def finish_mesh(
     v: np.ndarray,
     t: np.ndarray,
     region: np.ndarray,
-    neighbours: np.ndarray | None = None,
+    edges: tuple[np.ndarray, np.ndarray] | None = None,
 ) -> Mesh:
     """The box-method mesh of triangles ``t`` on points ``v`` (m) painted by ``region``
     (index of the case region per triangle, −1: dropped), with the case's boundaries
-    attached and its probes checked. ``neighbours`` (k, 3), the triangle opposite each
-    vertex (−1: none), as the triangulation gives them, spare the search for the boundary
-    edges."""
-    from dataclasses import replace
+    attached and its probes checked. ``edges``, the boundary edges a → b of the kept
+    triangles (their interior on the left, as :func:`open_edges` finds them from the
+    triangulation's neighbours), spare the search for them."""
 
     from fvheat.mesh.ordering import spatial_order
 
     keep = region >= 0
-    edges = None if neighbours is None else open_edges(v, t, keep, neighbours)
-    t = t[keep]
+    if not keep.all():  # (a copy only when some are dropped)
+        t, region = t[keep], region[keep]
     mark = np.zeros(len(v), dtype=bool)
     mark[t] = True
     used = np.flatnonzero(mark)
@@ -172,7 +253,7 @@ def finish_mesh(
     t = rank[t]
     by_node = np.argsort(t.min(axis=1), kind="stable")
     t = t[by_node]
-    tri_region = region[keep][by_node]
+    tri_region = region[by_node]
     names = tuple(case.materials)
     material = np.array([names.index(r.material) for r in case.regions], dtype=np.int32)
     if edges is not None:
@@ -184,9 +265,8 @@ def finish_mesh(
         names,
         tuple(b.name for b in case.boundaries),
         edges,
+        tri_region,
     )
-    piece_region = np.repeat(tri_region, 3)
-    mesh = replace(mesh, piece_region=piece_region, region=piece_region[largest_piece(mesh)])
     mesh = attach_boundaries(case, mesh)
     check_probes(case, mesh)
     return mesh
@@ -292,7 +372,8 @@ def find_triangles(mesh: Mesh, points: np.ndarray) -> tuple[np.ndarray, np.ndarr
             # first the triangles around the nearest node (a probe is a node of the
             # meshes fvheat makes), then, if none holds the point, every triangle
             node = int(np.argmin(np.hypot(v[:, 0] - pts[i, 0], v[:, 1] - pts[i, 1])))
-            for cand in (np.flatnonzero((t == node).any(axis=1)), np.arange(len(t))):
+            # (a node is once at most in a triangle: the triangles around it, in order)
+            for cand in (np.flatnonzero(t.ravel() == node) // 3, np.arange(len(t))):
                 b = _barycentric_many(v[t[cand]], np.broadcast_to(pts[i], (len(cand), 2)))
                 best = int(np.argmax(b.min(axis=1)))
                 if b[best].min() >= -tol:

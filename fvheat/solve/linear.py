@@ -9,8 +9,8 @@ large steady grids and the factorisation otherwise (limits in
 :class:`~fvheat.case.model.SolverSettings`, the case's ``[solver]`` table).
 
 Ruge–Stüben on both meshes: on the triangle mesh's P1 matrix (200 000 nodes, 7 entries a
-row, lattice-seeded: see mesh/lattice.py) it needs 11 CG iterations to 1e-10 with the
-second pass of the splitting and direct interpolation (:func:`coarsening`), 18 with
+row, lattice-seeded: see mesh/lattice.py) it needs 10 CG iterations to 1e-10 with the
+second pass of the splitting, direct interpolation and θ = 0.35 (:func:`coarsening`), 18 with
 pyamg's defaults; the grid's 5-point matrix 13 (with the smoothers of
 :data:`PRESMOOTHER`). Before the lattice, the irregular refinement-only mesh needed 33
 (27 with pyamg's default smoothers).
@@ -133,6 +133,8 @@ POSTSMOOTHER = ("gauss_seidel", {"sweep": "backward"})
 #: matrices with more than this many entries a row (on average) get the second pass of
 #: the Ruge–Stüben splitting and direct interpolation (see :func:`coarsening`)
 SECOND_PASS_ABOVE = 5.5
+#: strength-of-connection threshold of those matrices (see :func:`coarsening`)
+BOX_THETA = 0.35
 
 
 def coarsening(a: sp.csr_matrix) -> dict[str, Any]:
@@ -145,9 +147,20 @@ def coarsening(a: sp.csr_matrix) -> dict[str, Any]:
     machine shared with other work: lattice-seeded mesh 0.45 s (18) → 0.33 s (11);
     refinement-only mesh 0.87 s (33) → 0.77 s (15); a graded sloped section at 100 000
     nodes 0.24 → 0.17 s. The grid's 5-point matrices keep classical Ruge–Stüben (it would
-    gain 0.34 → 0.31 s there, not taken: the grid's benchmark table was measured without)."""
+    gain 0.34 → 0.31 s there, not taken: the grid's benchmark table was measured without).
+
+    Their strength threshold is :data:`BOX_THETA` (pyamg's default 0.25). Set-up + solve
+    (CPU s, medians of 5–7, CG iterations) at θ = 0.25 → 0.35: benchmark section 200 000
+    nodes 0.52 (11) → 0.46 (10); eaves demo 90 000 nodes 0.24 (12) → 0.22 (11); window
+    frame demo 99 000 nodes 0.39 (20) → 0.33 (16); balcony demo 144 000 nodes 0.39 (12)
+    both; a sloped section 0.24 (11) both; a refinement-only mesh (no lattice) 1.03 (15)
+    → 1.06 (15). θ = 0.5 and 0.6 were slower on all but the benchmark section."""
     if a.nnz > SECOND_PASS_ABOVE * max(a.shape[0], 1):
-        return {"CF": ("RS", {"second_pass": True}), "interpolation": "direct"}
+        return {
+            "CF": ("RS", {"second_pass": True}),
+            "interpolation": "direct",
+            "strength": ("classical", {"theta": BOX_THETA}),
+        }
     return {"CF": "RS", "interpolation": "classical"}
 
 

@@ -9,6 +9,7 @@ negative off-diagonal entries (½·cot 60° per triangle, an M-matrix), common F
 from __future__ import annotations
 
 import numpy as np
+import pytest
 from casefiles import load
 
 from fvheat.assembly.system import System
@@ -134,3 +135,113 @@ def test_size_function_equals_its_definition():
             ref = np.minimum(ref, s + 0.25 * np.hypot(*(x - c).T))
     assert np.allclose(size(x), ref, rtol=0, atol=1e-15)
     assert np.any(ref < 0.03) and np.any(ref == 0.03)
+
+
+def test_patch_is_the_lattice_clear_of_every_constraint():
+    """The patch (lattice triangles taken without triangle): equilateral, counter-clockwise,
+    none touching a constraint (segment, vertex or extra point, checked with shapely), its
+    boundary edges exactly the edges of one patch triangle (counted directly), its inner
+    nodes exactly those with six patch triangles, a hole point inside a patch triangle."""
+    import shapely
+
+    from fvheat.mesh.lattice import lattice_seeds
+
+    rng = np.random.default_rng(7)
+    outline = np.array([[0.0, 0.0], [1.0, 0.0], [1.0, 0.6], [0.55, 1.0], [0.0, 1.0]])
+    inner = np.array([[0.3, 0.3], [0.62, 0.41], [0.4, 0.72]])  # a sloped open polyline
+    v = np.vstack([outline, inner])
+    seg = np.array([[0, 1], [1, 2], [2, 3], [3, 4], [4, 0], [5, 6], [6, 7]])
+    spacing = 0.03
+    dy = spacing * np.sqrt(3.0) / 2.0
+    # two at the centres of lattice triangles (the lattice starts at the graph's corner):
+    # farther than half a spacing from their corners
+    centres = np.array([[5.5 * spacing, (6 + 1 / 3) * dy], [26.5 * spacing, (24 + 1 / 3) * dy]])
+    others = np.vstack([rng.uniform(0.05, 0.95, (6, 2)), centres])
+    body = shapely.Polygon(outline)
+
+    def paint(p: np.ndarray) -> np.ndarray:
+        return np.where(shapely.contains_xy(body, p[:, 0], p[:, 1]), 0, -1)
+
+    s = lattice_seeds(
+        v, seg, spacing, paint, lambda p: np.full(len(p), spacing / SPACING), 0.8, others
+    )
+    t, p = s.triangles, s.points
+    assert len(t) > 500
+    a, b, c = p[t[:, 0]], p[t[:, 1]], p[t[:, 2]]
+    cross = (b - a)[:, 0] * (c - a)[:, 1] - (b - a)[:, 1] * (c - a)[:, 0]
+    assert np.allclose(cross, np.sqrt(3.0) / 2.0 * spacing**2, rtol=1e-9)  # equilateral, ccw
+    polys = shapely.polygons(p[t])
+    lines = shapely.linestrings(v[seg])
+    points = shapely.points(np.vstack([v, others]))
+    for geoms in (lines, points):
+        tree = shapely.STRtree(geoms)
+        hit, _ = tree.query(polys, predicate="intersects")
+        assert hit.size == 0
+    assert np.all(s.region == 0)
+    count: dict[tuple[int, int], int] = {}
+    for tri in t:
+        for e in range(3):
+            key = (int(tri[(e + 1) % 3]), int(tri[(e + 2) % 3]))
+            count[key] = count.get(key, 0) + 1
+    single = {k for k in count if (k[1], k[0]) not in count}
+    assert {tuple(map(int, e)) for e in s.edges} == single and len(s.edges) == len(single)
+    around = np.bincount(t.ravel(), minlength=len(p))
+    np.testing.assert_array_equal(s.inner, around == 6)
+    assert len(s.holes) and shapely.contains_xy(shapely.union_all(polys), *s.holes.T).all()
+
+
+def test_mesh_with_a_patch_is_conforming(tmp_path, monkeypatch):
+    """The band triangulated by triangle and the patch joined: every edge has one or two
+    triangles, once in each direction (consistently oriented), the edges of one triangle
+    lie on the outline, and the areas add up to the body's (geometric identities)."""
+    text = SQUARE.replace(
+        "[[boundaries]]",
+        '[[regions]]\nmaterial = "m"\npolygon = [[0.2, 0.2], [0.7, 0.3], [0.4, 0.8]]\n'
+        '[[probes]]\nname = "p"\nat = [0.811, 0.137]\n\n[[boundaries]]',
+        1,
+    )
+    import fvheat.mesh.triangles as triangles
+
+    joined = []
+    seeded = triangles._seeded
+    monkeypatch.setattr(triangles, "_seeded", lambda *a: joined.append(seeded(*a)) or joined[-1])
+    mesh = build_mesh(load(tmp_path, text))
+    assert joined and joined[0] is not None  # the patch taken as it is
+    assert mesh.triangles is not None
+    v, t = mesh.centres, mesh.triangles
+    a, b, c = v[t[:, 0]], v[t[:, 1]], v[t[:, 2]]
+    cross = (b - a)[:, 0] * (c - a)[:, 1] - (b - a)[:, 1] * (c - a)[:, 0]
+    assert np.all(cross > 0.0)
+    assert 0.5 * cross.sum() == pytest.approx(1.0, rel=1e-12)
+    directed = np.concatenate([t[:, [1, 2]], t[:, [2, 0]], t[:, [0, 1]]])
+    key = directed[:, 0] * len(v) + directed[:, 1]
+    assert len(np.unique(key)) == len(key)  # no edge twice in one direction
+    back = np.isin(directed[:, 1] * len(v) + directed[:, 0], key)
+    ends = v[directed[~back]]
+    on_outline = (np.abs(ends) < 1e-12) | (np.abs(ends - 1.0) < 1e-12)
+    assert np.all(
+        on_outline[:, 0, 0] & on_outline[:, 1, 0] | on_outline[:, 0, 1] & on_outline[:, 1, 1]
+    )
+    assert np.hypot(*(v - [0.811, 0.137]).T).min() < 1e-12
+
+
+def test_without_the_patch_the_same_nodes(tmp_path, monkeypatch):
+    """When triangle would split a patch edge, every seed goes into one triangulation: the
+    mesh then has the same lattice nodes, and, the lattice's triangles being Delaunay,
+    the same equilateral triangles (geometric identity), and the same heat flow to
+    round-off where the band's triangles agree (here they do: a square)."""
+    import fvheat.mesh.triangles as triangles
+    from fvheat.simulate import simulate
+
+    case = load(tmp_path, SQUARE)
+    joined = build_mesh(case)
+    monkeypatch.setattr(triangles, "_seeded", lambda *a: None)
+    single = build_mesh(case)
+    assert single.n_cells == joined.n_cells
+    # numbered by position; a node triangle places in the band may differ by round-off
+    np.testing.assert_allclose(single.centres, joined.centres, rtol=0.0, atol=1e-15)
+    assert joined.triangles is not None and single.triangles is not None
+    key = [np.unique(np.sort(m.triangles, axis=1), axis=0) for m in (joined, single)]
+    np.testing.assert_array_equal(key[0], key[1])
+    flows = [simulate(case, mesh=m).surfaces["a"].heat_flow for m in (joined, single)]
+    assert flows[0] == pytest.approx(flows[1], rel=1e-9)
