@@ -8,12 +8,12 @@ linearly with the cell count (a factorisation's grow faster). ``"auto"`` picks A
 large steady grids and the factorisation otherwise (limits in
 :class:`~fvheat.case.model.SolverSettings`, the case's ``[solver]`` table).
 
-Ruge–Stüben on both meshes: on the triangle mesh's P1 matrix (200 000 nodes, 7 entries a
-row, lattice-seeded: see mesh/lattice.py) it needs 10 CG iterations to 1e-10 with the
-second pass of the splitting, direct interpolation and θ = 0.35 (:func:`coarsening`), 18 with
-pyamg's defaults; the grid's 5-point matrix 13 (with the smoothers of
-:data:`PRESMOOTHER`). Before the lattice, the irregular refinement-only mesh needed 33
-(27 with pyamg's default smoothers).
+Ruge–Stüben on both meshes, with the second pass of the splitting and direct
+interpolation (:func:`coarsening`): on the triangle mesh's P1 matrix (200 000 nodes, 7
+entries a row, lattice-seeded: see mesh/lattice.py) it needs 10 CG iterations to 1e-10
+(with θ = 0.35), 18 with pyamg's defaults; the grid's 5-point matrix 12 (15 with
+classical interpolation; the smoothers of :data:`PRESMOOTHER` in both). Before the
+lattice, the irregular refinement-only mesh needed 33 (27 with pyamg's default smoothers).
 Smoothed aggregation (``pyamg.smoothed_aggregation_solver``, symmetric Gauss–Seidel) was
 measured on the irregular mesh's matrix: 22 iterations with the default strength (θ = 0), 12–13 with
 θ = 0.05–0.08, but its set-up is slower, so set-up plus solve was only 0–10 % faster, and
@@ -130,38 +130,43 @@ PRESMOOTHER = ("gauss_seidel", {"sweep": "forward"})
 POSTSMOOTHER = ("gauss_seidel", {"sweep": "backward"})
 
 
-#: matrices with more than this many entries a row (on average) get the second pass of
-#: the Ruge–Stüben splitting and direct interpolation (see :func:`coarsening`)
-SECOND_PASS_ABOVE = 5.5
+#: matrices with more than this many entries a row on average (the box method's P1
+#: matrices, about 7; the grid's have 5) take :data:`BOX_THETA` (see :func:`coarsening`)
+DENSE_ROWS = 5.5
 #: strength-of-connection threshold of those matrices (see :func:`coarsening`)
 BOX_THETA = 0.35
 
 
 def coarsening(a: sp.csr_matrix) -> dict[str, Any]:
     """pyamg's C/F splitting and interpolation for ``a`` (keyword arguments of
-    ``ruge_stuben_solver``). Matrices of more than :data:`SECOND_PASS_ABOVE` entries a row
-    (the box method's P1 matrices, about 7) get the splitting's second pass (every pair of
-    strongly connected fine points shares a coarse point) and direct interpolation, which
-    the denser coarse grid makes enough and which is cheaper to build than the classical
-    one. Measured at 200 000 nodes, set-up + solve (CG iterations), alternating runs on a
-    machine shared with other work: lattice-seeded mesh 0.45 s (18) → 0.33 s (11);
-    refinement-only mesh 0.87 s (33) → 0.77 s (15); a graded sloped section at 100 000
-    nodes 0.24 → 0.17 s. The grid's 5-point matrices keep classical Ruge–Stüben (it would
-    gain 0.34 → 0.31 s there, not taken: the grid's benchmark table was measured without).
+    ``ruge_stuben_solver``): the splitting's second pass (every pair of strongly connected
+    fine points shares a coarse point) and direct interpolation, which the denser coarse
+    grid makes enough and which is cheaper to build than the classical one.
 
-    Their strength threshold is :data:`BOX_THETA` (pyamg's default 0.25). Set-up + solve
-    (CPU s, medians of 5–7, CG iterations) at θ = 0.25 → 0.35: benchmark section 200 000
-    nodes 0.52 (11) → 0.46 (10); eaves demo 90 000 nodes 0.24 (12) → 0.22 (11); window
-    frame demo 99 000 nodes 0.39 (20) → 0.33 (16); balcony demo 144 000 nodes 0.39 (12)
-    both; a sloped section 0.24 (11) both; a refinement-only mesh (no lattice) 1.03 (15)
-    → 1.06 (15). θ = 0.5 and 0.6 were slower on all but the benchmark section."""
-    if a.nnz > SECOND_PASS_ABOVE * max(a.shape[0], 1):
-        return {
-            "CF": ("RS", {"second_pass": True}),
-            "interpolation": "direct",
-            "strength": ("classical", {"theta": BOX_THETA}),
-        }
-    return {"CF": "RS", "interpolation": "classical"}
+    On the box method's P1 matrices, measured at 200 000 nodes, set-up + solve (CG
+    iterations), alternating runs on a machine shared with other work: lattice-seeded mesh
+    0.45 s (18) → 0.33 s (11); refinement-only mesh 0.87 s (33) → 0.77 s (15); a graded
+    sloped section at 100 000 nodes 0.24 → 0.17 s. On the grid's 5-point matrices (CPU s,
+    best of two, classical → second pass + direct; CG iterations): benchmark section
+    90 000 cells 0.19 (14) → 0.16 (11), 250 000 cells 0.61 (15) → 0.52 (12), 1 M cells
+    (wall) 3.07 (16) → 2.72 (13); the demo junctions on finer grids, graded, with metal
+    and insulation side by side: balcony 31 800 cells 0.09–0.10 (24–26) → 0.07 (12),
+    frost slab edge 39 800 cells 0.11 (21) → 0.09 (13), window jamb 42 300 cells 0.13 (25)
+    → 0.10 (14), window frame 40 200 cells 0.15 (29) → 0.13 (17), ground floor 104 000
+    cells 0.33 (25) → 0.27 (15). The hierarchy's operator complexity grows on graded grids
+    (2.3–2.5 → 2.8–3.0: about a fifth more of its memory), not on uniform ones (2.2).
+
+    Matrices of more than :data:`DENSE_ROWS` entries a row also take the strength threshold
+    :data:`BOX_THETA` (pyamg's default 0.25, which the grid's keep: 0.35 was no faster there).
+    Set-up + solve (CPU s, medians of 5–7, CG iterations) at θ = 0.25 → 0.35: benchmark
+    section 200 000 nodes 0.52 (11) → 0.46 (10); eaves demo 90 000 nodes 0.24 (12) → 0.22
+    (11); window frame demo 99 000 nodes 0.39 (20) → 0.33 (16); balcony demo 144 000 nodes
+    0.39 (12) both; a sloped section 0.24 (11) both; a refinement-only mesh (no lattice)
+    1.03 (15) → 1.06 (15). θ = 0.5 and 0.6 were slower on all but the benchmark section."""
+    options: dict[str, Any] = {"CF": ("RS", {"second_pass": True}), "interpolation": "direct"}
+    if a.nnz > DENSE_ROWS * max(a.shape[0], 1):
+        options["strength"] = ("classical", {"theta": BOX_THETA})
+    return options
 
 
 class AmgSolver:
