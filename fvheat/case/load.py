@@ -47,6 +47,7 @@ from fvheat.case.parameters import parse_parameters, substitute
 from fvheat.case.probes import parse_probe_lines, parse_probes
 from fvheat.case.project import parse_project
 from fvheat.case.regions import parse_regions
+from fvheat.case.resistances import check_fixed_surfaces_assessed
 from fvheat.case.sensitivities import check_sensitivities, parse_sensitivities
 from fvheat.case.signals import Series
 from fvheat.case.solver import parse_solver
@@ -247,6 +248,7 @@ register_section("solver", parse_solver)
 register_section("sensitivities", parse_sensitivities)
 register_section("ground", parse_ground)  # last: adds its soil to the regions, boundaries
 register_check(check_junction_side_kinds)
+register_check(check_fixed_surfaces_assessed)
 register_check(check_sensitivities)
 
 

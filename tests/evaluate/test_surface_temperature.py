@@ -27,7 +27,16 @@ import pytest
 
 from fvheat.evaluate.humidity import dew_point, surface_relative_humidity
 
-from .helpers import iso6946_u, materials_toml, num, regions_toml, seg, study, surface_toml
+from .helpers import (
+    iso6946_u,
+    materials_toml,
+    num,
+    regions_toml,
+    seg,
+    study,
+    surface_toml,
+    write_case,
+)
 
 T_IN, T_OUT = 20.0, -5.0
 R_SI, R_SE, R_COND = 0.13, 0.04, 0.25
@@ -109,6 +118,41 @@ def test_f_rsi_from_heat_loss_only_when_asked(tmp_path):
     s = study(tmp_path, wall_toml(BRICK, f"condensation_resistance = {R_SI}"))
     assert s.junction.f_rsi == pytest.approx(1.0 - u * R_SI, rel=1e-9)
     assert s.surface_solution is None
+
+
+def _fixed_inside(text: str) -> str:
+    """The wall with its inside surface held at T_IN (no surface resistance)."""
+    old = f"air_temperature = {num(T_IN)}\nresistance = {num(R_SI)}"
+    assert old in text
+    return text.replace(old, f"temperature = {num(T_IN)}")
+
+
+@pytest.mark.parametrize("layers", [BRICK, INSULATED], ids=["brick", "insulated"])
+def test_f_rsi_on_a_fixed_inside_surface(tmp_path, layers):
+    """An inside surface given a fixed temperature still gets R_si = 0.25 in the
+    surface-temperature solve: f_Rsi = 1 − U_c·0.25 with U_c = 1/(0.25 + Σd/λ + R_se)
+    (ISO 13788 definition, ISO 6946 layer sum; 1e-9), not 1 (the surface at θ_i); L2D
+    from the heat-loss solve, U = 1/(Σd/λ + R_se) without R_si (1e-9)."""
+    s = study(tmp_path, _fixed_inside(wall_toml(layers)))
+    j = s.junction
+    u_cond = iso6946_u(_dl(layers), R_COND, R_SE)
+    assert j.f_rsi == pytest.approx(1.0 - u_cond * R_COND, rel=1e-9)
+    assert j.theta_si_min == pytest.approx(T_IN - u_cond * R_COND * (T_IN - T_OUT), rel=1e-9)
+    assert j.l2d == pytest.approx(iso6946_u(_dl(layers), 0.0, R_SE) * HEIGHT, rel=1e-9)
+
+
+def test_f_rsi_from_heat_loss_on_a_fixed_surface_refused(tmp_path, capsys):
+    """ "heat_loss" f_Rsi on a fixed inside surface would be 1 by construction: exit 2, one
+    line naming the file and the key (case-file contract)."""
+    from fvheat.cli.main import main
+
+    text = _fixed_inside(wall_toml(BRICK, 'condensation_resistance = "heat_loss"'))
+    path = write_case(tmp_path, text)
+    assert main(["run", str(path), "--out", str(tmp_path / "out"), "--quiet"]) == 2
+    lines = capsys.readouterr().err.strip().splitlines()
+    assert len(lines) == 1
+    assert lines[0].startswith(f"fvheat: error: {path}: junction.condensation_resistance: ")
+    assert not (tmp_path / "out" / "summary.json").exists()
 
 
 @pytest.mark.parametrize("layers", [BRICK, INSULATED], ids=["brick", "insulated"])
