@@ -201,6 +201,23 @@ def test_adiabatic_gap_between_inside_surfaces_warned(tmp_path):
     assert "(0, 0.4) to (0, 0.5) m" in w
 
 
+@pytest.mark.parametrize("kind", ["rectilinear", "triangles"])
+def test_adiabatic_gap_round_the_corner_measured_whole(tmp_path, kind):
+    """A 315 mm wall whose inside surface runs on over the top edge from x = 0.1 to 0.2 m:
+    the 100 mm between the corner and that segment are left out, one warning with the
+    whole gap (plain geometry). The top edge beyond 0.2 m reaches the outside surface: a
+    cut-off plane, no warning. On the triangle mesh bisected edge ends (0.0953515625 m and
+    the like) once split such runs by round-off into pieces, each judged alone: a gap
+    reported as 4.6 mm of its 100, and pieces of the cut-off plane reported as gaps."""
+    wall = WALL.replace("0.2, 1.0]", "0.315, 1.0]")
+    inside = surface("inside", "[[[0.0, 0.0], [0.0, 1.0]], [[0.1, 1.0], [0.2, 1.0]]]", 20.0)
+    outside = surface("outside", "[[[0.315, 0.0], [0.315, 1.0]]]", -5.0, 0.04)
+    _, _, warnings = checked(tmp_path, wall + inside + outside, [f'mesh.kind="{kind}"'])
+    (w,) = warnings
+    assert w.startswith("100 mm of exterior edge between 'inside'"), w
+    assert "(0, 1) to (0.1, 1) m" in w
+
+
 def test_cut_off_planes_are_not_gaps(tmp_path):
     """The top and bottom edges of the wall lie on the model's extent: cut-off planes."""
     _, _, warnings = checked(tmp_path, WALL + INSIDE + OUTSIDE)
