@@ -207,3 +207,17 @@ def test_junction_humidity_check(tmp_path, layers, condenses, mould):
     assert d["mould_risk_rh_80"] is mould
     assert d["f_Rsi_pass"] is (not condenses)
     assert d["surface_rh_at_theta_si_min"] == j.surface_rh
+
+
+def test_inside_colder_than_outside_warned(tmp_path):
+    """With θ_i < θ_e (a cooled room in summer) f_Rsi, taken at the coldest inside point,
+    is not the temperature factor of ISO 13788 (defined for heat flowing out): a warning
+    says so. For the plane wall the value is still 1 − U_c·0.25, the surface being
+    uniform (ISO 13788 / ISO 6946 as above, 1e-9); the heating case has no such warning."""
+    summer = wall_toml(BRICK).replace(f"air_temperature = {num(T_OUT)}", "air_temperature = 30.0")
+    j = study(tmp_path, summer).junction
+    u_cond = iso6946_u(_dl(BRICK), R_COND, R_SE)
+    assert j.f_rsi == pytest.approx(1.0 - u_cond * R_COND, rel=1e-9)
+    assert any("colder than the outside" in w and "f_Rsi" in w for w in j.warnings)
+    winter = study(tmp_path, wall_toml(BRICK), name="winter.toml").junction
+    assert not any("colder than the outside" in w for w in winter.warnings)
