@@ -221,3 +221,39 @@ def test_inside_colder_than_outside_warned(tmp_path):
     assert any("colder than the outside" in w and "f_Rsi" in w for w in j.warnings)
     winter = study(tmp_path, wall_toml(BRICK), name="winter.toml").junction
     assert not any("colder than the outside" in w for w in winter.warnings)
+
+
+@pytest.mark.parametrize("flux", [60.0, -40.0])
+def test_imposed_flux_left_out_of_junction_results(tmp_path, flux):
+    """Solar gain absorbed on the outside surface (heat_flux) changes the heat flows but
+    not L2D, ψ or f_Rsi, which ISO 10211 / ISO 13788 define from the two environments'
+    temperatures alone (from memory): L2D = U·l, ψ = 0 and f_Rsi = 1 − U_c·0.25 for the
+    plane wall (ISO 6946 layer sum, 1e-9), a warning saying the fluxes were left out. The
+    gain itself reaches the heat flows: the inside one is U·l·Δθ − flux·l·R_out/R_total
+    (1-D superposition, 1e-9). Before, ψ took that share (ψ = −0.058 at 60 W/m²)."""
+    text = wall_toml(INSULATED).replace(
+        f"air_temperature = {num(T_OUT)}", f"air_temperature = {num(T_OUT)}\nheat_flux = {flux}"
+    )
+    s = study(tmp_path, text)
+    j = s.junction
+    u = iso6946_u(_dl(INSULATED), R_SI, R_SE)
+    u_cond = iso6946_u(_dl(INSULATED), R_COND, R_SE)
+    assert j.l2d == pytest.approx(u * HEIGHT, rel=1e-9)
+    assert abs(j.psi) < 1e-9
+    assert j.f_rsi == pytest.approx(1.0 - u_cond * R_COND, rel=1e-9)
+    assert any("heat fluxes are left out" in w for w in j.warnings)
+    # the inside surface receives the share R_se·U of the absorbed gain (a resistance divider)
+    q_in = u * HEIGHT * (T_IN - T_OUT) - flux * HEIGHT * R_SE * u
+    assert s.solution.surfaces["inside"].heat_flow == pytest.approx(q_in, rel=1e-9)
+
+
+def test_sensitivities_with_imposed_flux_refused(tmp_path):
+    """The adjoint works on the run's own solve, the junction on one without the fluxes:
+    refused in one line (exit 2) rather than mixed."""
+    from fvheat.cli.main import main
+
+    text = wall_toml(BRICK).replace(
+        f"air_temperature = {num(T_OUT)}", f"air_temperature = {num(T_OUT)}\nheat_flux = 50.0"
+    )
+    path = write_case(tmp_path, text)
+    assert main(["run", str(path), "--out", str(tmp_path / "o"), "--quiet", "--sensitivities"]) == 2
