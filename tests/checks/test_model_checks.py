@@ -86,7 +86,11 @@ def test_segment_end_off_the_body_does_not_change_the_mesh(tmp_path):
     _, mesh0, _ = checked(tmp_path, base)
     with pytest.raises(CaseError, match="lies on no exterior edge"):
         checked(tmp_path, stray)
-    # the same stray end on a segment that is partly on the body (along the top edge)
+    # the same stray end on a segment that is partly on the body (along the top edge); the
+    # mesh is that of the segment ending on the body's corner (the top meeting the inside
+    # surface, at another temperature, refines the grid there either way)
+    top = surface("top", "[[[0.0, 1.0], [0.203, 1.0]]]", -5.0, 0.04)
+    _, mesh0, _ = checked(tmp_path, base + top)
     for end, warned in ((0.2031, False), (0.25, True)):
         stray = base + surface("top", f"[[[0.0, 1.0], [{end}, 1.0]]]", -5.0, 0.04)
         _, mesh1, warnings = checked(tmp_path, stray)
