@@ -8,6 +8,7 @@ from typing import Any
 
 from fvheat.case.model import Case
 from fvheat.case.resistances import with_surface_resistances
+from fvheat.case.signals import Constant
 from fvheat.checks import check_model
 from fvheat.evaluate.coupling import CouplingResult, coupling_coefficients
 from fvheat.evaluate.junction import JUNCTION_QUANTITIES, JunctionResult, evaluate_junction
@@ -127,6 +128,24 @@ def steady_case(case: Case) -> Case:
     return replace(case, time=None)
 
 
+def has_fluxes(case: Case) -> bool:
+    """Whether a boundary of ``case`` imposes a heat flux (solar gain, a heated surface)."""
+    return any(b.heat_flux is not None for b in case.boundaries)
+
+
+def without_fluxes(case: Case) -> Case:
+    """``case`` with every imposed heat flux left out (a flux-only boundary adiabatic): L2D,
+    ψ and f_Rsi are those of the environments' temperatures alone (ISO 10211 defines L2D as
+    the heat flow per kelvin between two environments; from memory)."""
+    bounds = tuple(
+        replace(b, heat_flux=Constant(0.0) if b.kind == "flux" else None)
+        if b.heat_flux is not None
+        else b
+        for b in case.boundaries
+    )
+    return replace(case, boundaries=bounds)
+
+
 def grid_check(case: Case, solution: Solution, junction: JunctionResult | None = None) -> GridCheck:
     """Solve again with every cell size halved and compare Σ|Φ| over all boundaries; with
     the ``junction`` results of ``solution``, evaluate the junction on the refined mesh too
@@ -179,14 +198,23 @@ def run_study(
     study = Study(solution, warnings=warnings)
     if j is None and not want_grid:
         return study
-    base = solution if not case.transient else simulate(steady_case(case), mesh=mesh)
+    # the junction's solves: steady, t = 0 conditions, imposed heat fluxes left out
+    fluxes = j is not None and j.pair and has_fluxes(case)
+    jcase = without_fluxes(steady_case(case)) if fluxes else steady_case(case)
+    base = solution if not (case.transient or fluxes) else simulate(jcase, mesh=mesh)
     if j is not None and j.environments:
         study.coupling = coupling_coefficients(steady_case(case), base.system)
     if j is not None and j.pair:
-        surf = surface_case(case)
+        surf = surface_case(jcase)
         if surf is not None:
-            study.surface_solution = simulate(steady_case(surf), mesh=mesh)
-        study.junction = evaluate_junction(steady_case(case), base, study.surface_solution)
+            study.surface_solution = simulate(surf, mesh=mesh)
+        study.junction = evaluate_junction(jcase, base, study.surface_solution)
+        if fluxes:
+            study.junction.warnings.append(
+                "imposed heat fluxes are left out of L2D, ψ, f_Rsi and θ_si,min (ISO 10211: "
+                "the two environments' temperatures alone); the boundary heat flows include "
+                "them"
+            )
     if want_grid:
-        study.grid = grid_check(steady_case(case), base, study.junction)
+        study.grid = grid_check(jcase, base, study.junction)
     return study

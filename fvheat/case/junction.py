@@ -160,6 +160,9 @@ def _names(value: Any, path: str, known: set[str]) -> tuple[str, ...]:
             raise Invalid(
                 path, f"no boundary is called {v!r}; boundaries: {', '.join(sorted(known))}"
             )
+    twice = sorted({v for v in value if value.count(v) > 1})
+    if twice:  # a boundary listed twice would count its heat flow twice in L2D
+        raise Invalid(path, f"{', '.join(map(repr, twice))} listed more than once")
     return tuple(value)
 
 

@@ -42,11 +42,12 @@ from fvheat.case.model import (
     Case,
     MeshSettings,
 )
-from fvheat.case.overrides import apply_overrides
-from fvheat.case.parameters import parse_parameters, substitute
+from fvheat.case.overrides import apply_overrides, check_created_used, created_names
+from fvheat.case.parameters import parse_parameters, referenced, substitute
 from fvheat.case.probes import parse_probe_lines, parse_probes
 from fvheat.case.project import parse_project
 from fvheat.case.regions import parse_regions
+from fvheat.case.resistances import check_fixed_surfaces_assessed
 from fvheat.case.sensitivities import check_sensitivities, parse_sensitivities
 from fvheat.case.signals import Series
 from fvheat.case.solver import parse_solver
@@ -109,8 +110,10 @@ def parse_case(data: dict, source: Path, overrides: Sequence[str] = ()) -> Case:
     the folder relative CSV paths are resolved against.
     """
     source = Path(source)
+    created = created_names(data, overrides) if isinstance(data, dict) else []
     if overrides:
         data = apply_overrides(data, overrides, str(source))
+    raw = data
     ctx = Context(source=source)
     units = "m"
     try:
@@ -131,6 +134,9 @@ def parse_case(data: dict, source: Path, overrides: Sequence[str] = ()) -> Case:
             file=str(source),
             key=_one_line(err.key) or None,
         ) from None
+    if created:
+        used = {r.material for r in case.regions}
+        check_created_used(created, used, referenced(raw), str(source))
     log.debug(
         "loaded case %s: %d regions, %d boundaries", source, len(case.regions), len(case.boundaries)
     )
@@ -247,6 +253,7 @@ register_section("solver", parse_solver)
 register_section("sensitivities", parse_sensitivities)
 register_section("ground", parse_ground)  # last: adds its soil to the regions, boundaries
 register_check(check_junction_side_kinds)
+register_check(check_fixed_surfaces_assessed)
 register_check(check_sensitivities)
 
 

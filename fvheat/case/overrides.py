@@ -137,3 +137,40 @@ def read_value(data: dict, path: str, source: str) -> Any:
         else:
             raise CaseError(f"{here} has no key {key!r}", file=source, key=path)
     return node
+
+
+def created_names(data: dict, overrides: Sequence[str]) -> list[tuple[str, str, str]]:
+    """(``--set`` path, table, name) of each override that sets a property of a material,
+    or a parameter, the case ``data`` (before the overrides) does not define: a mistyped
+    name, most likely (a whole material given as a table, ``materials.x={...}``, is a
+    definition and not listed)."""
+    out = []
+    for override in overrides:
+        path = override.partition("=")[0].strip()
+        keys = _segments(path)
+        depth = {"materials": 3, "parameters": 2}.get(keys[0], 0)
+        if not depth or len(keys) < depth:
+            continue
+        have = data.get(keys[0])
+        if not isinstance(have, dict) or keys[1] not in have:
+            out.append((path, keys[0], keys[1]))
+    return out
+
+
+def check_created_used(
+    created: list[tuple[str, str, str]], materials: set[str], parameters: set[str], source: str
+) -> None:
+    """Refuse (:class:`CaseError`) an override that created a material no region uses or a
+    parameter nothing refers to: it would change nothing, and a sweep over it would show
+    the same result in every row."""
+    for path, section, name in created:
+        used = materials if section == "materials" else parameters
+        if name in used:
+            continue
+        what = "no region uses it" if section == "materials" else "nothing refers to it"
+        raise CaseError(
+            f"the case file defines no {section[:-1]} {name!r} and {what}, so this changes "
+            "nothing: check the name",
+            file=source,
+            key=f"--set {path}",
+        )

@@ -76,3 +76,22 @@ def _lookup(name: str, path: str, values: dict[str, float]) -> float:
         known = ", ".join(values) or "none is defined"
         raise Invalid(path, f"no parameter {name!r} in [parameters] ({known})")
     return values[name]
+
+
+def referenced(data: Any) -> set[str]:
+    """The parameter names referred to anywhere in ``data`` outside ``[parameters]``."""
+    out: set[str] = set()
+    stack = [v for k, v in data.items() if k != SECTION] if isinstance(data, dict) else [data]
+    while stack:
+        value = stack.pop()
+        if isinstance(value, str):
+            m = _STRING.fullmatch(value.strip())
+            if m:
+                out.add(m.group(1))
+        elif isinstance(value, list):
+            stack.extend(value)
+        elif isinstance(value, dict):
+            if "parameter" in value and isinstance(value["parameter"], str):
+                out.add(value["parameter"])
+            stack.extend(value.values())
+    return out

@@ -49,15 +49,46 @@ def read_resistances(
 def with_surface_resistances(case: Case, resistances: SurfaceResistances) -> Case | None:
     """The case with the named boundaries exchanging through the given surface resistances
     only (no radiation), or None when that changes nothing (``"heat_loss"`` asked, or every
-    named boundary already has exactly that resistance) and no second solve is needed."""
+    named boundary already has exactly that resistance) and no second solve is needed.
+
+    A named boundary with a fixed surface temperature exchanges with air at that
+    temperature through the resistance: a fixed surface would otherwise stay at θ_i and
+    give f_Rsi = 1 whatever the construction."""
     r = resistances.values
     if r is None:
         return None
     changed = False
     bounds = []
     for b in case.boundaries:
-        if b.name in r and b.kind == "surface":
+        if b.name in r and b.kind == "temperature":
+            changed = True
+            b = replace(
+                b,
+                kind="surface",
+                air_temperature=b.temperature,
+                temperature=None,
+                convection=1.0 / r[b.name],
+                resistance=r[b.name],
+                emissivity=0.0,
+            )
+        elif b.name in r and b.kind == "surface":
             changed |= not (b.resistance == r[b.name] and b.emissivity == 0.0)
             b = replace(b, convection=1.0 / r[b.name], resistance=r[b.name], emissivity=0.0)
         bounds.append(b)
     return replace(case, boundaries=tuple(bounds)) if changed else None
+
+
+def check_fixed_surfaces_assessed(case: Case) -> None:
+    """f_Rsi asked from the heat-loss solve (``"heat_loss"``) on an inside surface whose
+    temperature is fixed would be 1 by construction: refused."""
+    j = case.junction
+    if j is None or not j.inside or j.surface_resistances.values is not None:
+        return
+    fixed = [n for n in j.f_rsi_boundaries or j.inside if case.boundary(n).kind == "temperature"]
+    if fixed:
+        raise Invalid(
+            "junction.condensation_resistance",
+            f"{HEAT_LOSS!r} takes f_Rsi from the heat-loss solve, where "
+            f"{', '.join(map(repr, fixed))} has a fixed surface temperature (f_Rsi would be 1 "
+            "whatever the construction): give a surface resistance, e.g. 0.25 (ISO 13788)",
+        )

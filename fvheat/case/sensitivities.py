@@ -31,6 +31,12 @@ def sensitivity_problem(case: Case) -> str | None:
     """Why adjoint sensitivities do not apply to ``case`` (one line), or None."""
     if case.transient:
         return "sensitivities are computed for steady runs only; remove [time] or ask without"
+    j = case.junction
+    if j is not None and j.inside and any(b.heat_flux is not None for b in case.boundaries):
+        return (
+            "sensitivities are not available for a junction with imposed heat fluxes (its "
+            "ψ and f_Rsi come from a separate solve without them)"
+        )
     for name, m in case.materials.items():
         frozen = None if m.frozen is None else m.frozen.conductivity
         if m.phase_change is not None and frozen is not None and frozen != m.conductivity:

@@ -8,6 +8,7 @@ import scipy.sparse as sp
 from scipy.sparse.csgraph import connected_components
 
 from fvheat.case.model import Case
+from fvheat.mesh.geometry import coincident_ids
 from fvheat.mesh.mesh import Mesh, face_ends
 from fvheat.mesh.segments import FaceLocator, segment_faces
 
@@ -47,9 +48,8 @@ def adiabatic_gap_warnings(case: Case, mesh: Mesh) -> list[str]:
         return []
     ends = face_ends(mesh.b_centre, mesh.b_normal, mesh.b_area)
     scale = max(float(np.ptp(mesh.centres)), 1.0)
-    keys = np.rint(ends / (1e-9 * scale)).astype(np.int64).reshape(-1, 2)
-    _, vertex = np.unique(keys, axis=0, return_inverse=True)
-    vertex = vertex.reshape(-1, 2)  # vertex ids of both ends of every boundary face
+    # vertex ids of both ends of every boundary face (ends within 1e-9 of the size joined)
+    vertex = coincident_ids(ends.reshape(-1, 2) / (1e-9 * scale)).reshape(-1, 2)
     nv = int(vertex.max()) + 1
     # the boundary faces meeting at each vertex
     faces_at = sp.coo_matrix(

@@ -299,6 +299,13 @@ def evaluate_junction(
         result.dew_point = float(dew_point(theta_i, j.indoor_humidity))
         result.surface_rh = float(surface_relative_humidity(theta_i, j.indoor_humidity, theta_si))
     result.warnings += cutoff_warnings(case, heat_loss, flanks)
+    if dtheta < 0:
+        result.warnings.append(
+            f"the inside ({theta_i:g} °C) is colder than the outside ({theta_e:g} °C): f_Rsi "
+            "(ISO 13788) describes heat flowing out; here it is taken at the coldest inside "
+            "point, the one nearest θ_i, and says nothing of the construction (L2D and ψ "
+            "hold either way); swap the temperatures to assess f_Rsi"
+        )
     varying = varying_sides(case)
     if varying:
         result.warnings.append(

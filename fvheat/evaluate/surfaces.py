@@ -19,6 +19,7 @@ import numpy as np
 
 from fvheat.assembly.boundary import SurfaceTerms
 from fvheat.assembly.system import System
+from fvheat.mesh.geometry import coincident_ids
 from fvheat.mesh.mesh import Mesh, face_ends
 
 
@@ -131,20 +132,20 @@ def surface_points(mesh: Mesh, s: SurfaceTerms, ts: np.ndarray) -> SurfacePoints
 
 
 def _point_keys(points: np.ndarray, normal: np.ndarray, scale: float) -> np.ndarray:
-    """Integer keys of (point, normal) pairs: equal for points within round-off."""
-    return np.rint(np.column_stack([points / (1e-9 * scale), normal * 1e6])).astype(np.int64)
+    """Keys of (point, normal) pairs in units of their tolerance (1e-9 of the model's
+    size, 1e-6 in the normal): rows less than 1 apart are the same point on the same line."""
+    return np.column_stack([points / (1e-9 * scale), normal * 1e6])
 
 
 def _match(find: np.ndarray, among: np.ndarray) -> np.ndarray:
-    """For each key row of ``find``, the index of an equal row of ``among`` (−1 if none)."""
+    """For each key row of ``find``, the index of a row of ``among`` within round-off of
+    it (−1 if none)."""
     if among.shape[0] == 0:
         return np.full(find.shape[0], -1)
-    both = np.concatenate([among, find])
-    _, inverse = np.unique(both, axis=0, return_inverse=True)
-    inverse = inverse.ravel()
-    owner = np.full(inverse.max() + 1, -1)
-    owner[inverse[: among.shape[0]]] = np.arange(among.shape[0])
-    return owner[inverse[among.shape[0] :]]
+    ids = coincident_ids(np.concatenate([among, find]))
+    owner = np.full(int(ids.max()) + 1, -1)
+    owner[ids[: among.shape[0]]] = np.arange(among.shape[0])
+    return owner[ids[among.shape[0] :]]
 
 
 def surface_results(system: System, temp: np.ndarray, t: float) -> dict[str, SurfaceResult]:

@@ -124,3 +124,23 @@ def points_on_segments(
         gap = np.hypot(*(rel - u[:, None] * d).T)
         hit[cand[gap <= tol]] = True
     return hit
+
+
+def coincident_ids(keys: np.ndarray) -> np.ndarray:
+    """One id per row of ``keys`` (n, d), the same for rows less than 1 apart.
+
+    ``keys`` are coordinates already divided by their tolerance (points in units of
+    1e-9 of the model's size, say). Rounding them to integers would split a pair lying
+    on either side of a half-unit by round-off (a dyadic coordinate such as
+    0.0953515625 m sits exactly on one); pairs within the tolerance are joined instead.
+    """
+    from scipy.sparse import coo_matrix
+    from scipy.sparse.csgraph import connected_components
+    from scipy.spatial import cKDTree
+
+    n = keys.shape[0]
+    if n == 0:
+        return np.zeros(0, dtype=np.int64)
+    pairs = cKDTree(keys).query_pairs(1.0, output_type="ndarray")
+    graph = coo_matrix((np.ones(len(pairs)), (pairs[:, 0], pairs[:, 1])), shape=(n, n))
+    return connected_components(graph, directed=False)[1].astype(np.int64)

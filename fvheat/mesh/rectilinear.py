@@ -1,7 +1,8 @@
 """Rectilinear non-uniform grid generator: Case → Mesh.
 
 Grid lines fall on every region corner and boundary-segment end; cells shrink towards
-re-entrant corners of exchanging surfaces (where the inside surface is coldest); between
+re-entrant corners of exchanging surfaces (where the inside surface is coldest) and points
+where the surface's temperature condition changes; between
 them cells are graded (:func:`fvheat.mesh.grading.graded_lines`). Each grid cell takes the
 material of the last region containing its centre (regions are painted in order); cells no
 region covers are outside the body. Exterior faces are matched to boundary segments; faces
@@ -193,20 +194,38 @@ def reentrant_corners(case: Case, x: np.ndarray, y: np.ndarray, mat: np.ndarray)
     body, lying on a boundary that ties the surface to a temperature (surface exchange or
     fixed temperature). The inside surface is coldest at such corners (a window reveal
     meeting the frame, a slab soffit meeting the wall), where its temperature changes
-    steeply.
+    steeply. Then the points of :func:`condition_changes`.
     """
+    keys, tol = key_lines(case)
+    changes = condition_changes(case, tol)
     act = np.pad(mat >= 0, 1).astype(np.int8)
     count = act[:-1, :-1] + act[:-1, 1:] + act[1:, :-1] + act[1:, 1:]
     j, i = np.nonzero(count == 3)
     if j.size == 0:
-        return np.zeros((0, 2))
-    keys, tol = key_lines(case)
+        return changes
     on_keys = _near_any(x[i], keys[0], tol) & _near_any(y[j], keys[1], tol)
     pts = np.column_stack([x[i], y[j]])[on_keys]
     segs = [e for b in case.boundaries if b.kind != "flux" for e in b.edges]
     if not segs or pts.size == 0:
-        return np.zeros((0, 2))
-    return pts[points_on_segments(pts, segs, tol)]
+        return changes
+    return np.concatenate([pts[points_on_segments(pts, segs, tol)], changes])
+
+
+def condition_changes(case: Case, tol: float) -> np.ndarray:
+    """Points (k, 2) m where a boundary tying the surface to one temperature meets one tying
+    it to another (an inside surface running on into an unheated space's, or round a corner
+    into the outside's): the surface temperature changes steeply there too, and the lowest
+    inside surface temperature can lie at that very point (0.2 K too warm with a plain
+    grid on a wall beside an unheated stair, 5 K at a corner where inside meets outside)."""
+    tied = [b for b in case.boundaries if b.ties_temperature]
+    out = []
+    for a, ba in enumerate(tied):
+        ends = np.array([p for e in ba.edges for p in e], dtype=float).reshape(-1, 2)
+        for bb in tied[a + 1 :]:
+            if ba.reference_temperature == bb.reference_temperature:
+                continue
+            out.append(ends[points_on_segments(ends, list(bb.edges), tol)])
+    return np.concatenate(out) if out else np.zeros((0, 2))
 
 
 def _near_any(values: np.ndarray, keys: np.ndarray, tol: float) -> np.ndarray:

@@ -17,6 +17,7 @@ import numpy as np
 from fvheat.errors import CaseError
 from fvheat.output.fields import FIELDS_DIR, META_FILE, read_field, read_surface_field
 from fvheat.output.inputs import INPUTS_FILE
+from fvheat.output.summary_shape import summary_problem
 from fvheat.output.triangle_fields import FORMAT as TRIANGLE_FORMAT
 from fvheat.output.triangle_view import AnyFieldView, TriangleFieldView, TriangleShape
 
@@ -61,8 +62,9 @@ class ResultsFolder:
             summary = json.loads(f.read_text(encoding="utf-8"))
         except (OSError, ValueError) as err:
             raise CaseError(f"cannot read it: {err}", file=str(f)) from None
-        if not isinstance(summary, dict) or "boundaries" not in summary:
-            raise CaseError("not an fvheat summary (no 'boundaries')", file=str(f))
+        problem = summary_problem(summary)
+        if problem is not None:
+            raise CaseError(problem, file=str(f))
         return cls(path, summary)
 
     @property

@@ -85,7 +85,9 @@ def condensation_parameters(case: Case) -> list[Parameter]:
     if j is None or j.surface_resistances.values is None:
         return []
     kinds = {b.name: b.kind for b in case.boundaries}
-    r = {n: v for n, v in j.surface_resistances.values.items() if kinds.get(n) == "surface"}
+    # fixed-temperature surfaces exchange through it too (case/resistances.py)
+    exchanging = ("surface", "temperature")
+    r = {n: v for n, v in j.surface_resistances.values.items() if kinds.get(n) in exchanging}
     if not r:
         return []
     if len(set(r.values())) == 1:

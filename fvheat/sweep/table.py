@@ -17,6 +17,7 @@ from typing import Any
 
 from fvheat.errors import CaseError
 from fvheat.output.files import atomic_write_text
+from fvheat.output.summary_shape import summary_problem
 from fvheat.sweep.results import main_results
 from fvheat.sweep.store import DB_NAME, SweepStore
 from fvheat.sweep.values import display_value
@@ -82,8 +83,9 @@ def from_run(folder: str | Path) -> Table:
         ) from None
     except (OSError, UnicodeDecodeError, json.JSONDecodeError) as err:
         raise CaseError(f"cannot read the summary: {err}", file=str(summary_path)) from err
-    if not isinstance(summary, dict) or "boundaries" not in summary:
-        raise CaseError("not a fvheat summary (no boundaries)", file=str(summary_path))
+    problem = summary_problem(summary)
+    if problem is not None:
+        raise CaseError(problem, file=str(summary_path))
     params: dict[str, str] = {}
     for o in summary.get("overrides", []):
         key, _, text = o.partition("=")

@@ -200,3 +200,77 @@ def test_set_by_name_equals_set_by_index_on_demo_cases(case_file):
         (b.name, b.edges, b.kind) for b in c.boundaries
     ]
     assert getattr(a.boundaries[i], key).at(0.0) == getattr(c.boundaries[i], key).at(0.0) == 3.5
+
+
+# --set reaching into a material or parameter the file does not define: a typo that would
+# change nothing (every row of a sweep over it the same) is refused; a new material that a
+# region uses, a library material a region names, and a defined but unused one are fine
+# (case-file contract: --set overrides keys of the case; no external source needed)
+CORNER = """
+title = "plain wall"
+[parameters]
+depth = 0.3
+[mesh]
+max_cell = 0.05
+[materials.masonry]
+conductivity = 0.6
+[materials.spare]
+conductivity = 0.1
+[[regions]]
+material = "masonry"
+box = [0.0, 0.0, "${depth}", 1.0]
+[[boundaries]]
+name = "inside"
+edges = [[[0.0, 0.0], [0.0, 1.0]]]
+air_temperature = 20.0
+resistance = 0.13
+[[boundaries]]
+name = "outside"
+edges = [[[0.3, 0.0], [0.3, 1.0]]]
+air_temperature = 0.0
+resistance = 0.04
+"""
+
+
+@pytest.mark.parametrize(
+    ("override", "words"),
+    [
+        ("materials.masonr.conductivity=0.3", "defines no material 'masonr' and no region"),
+        ("parameters.dept=0.2", "defines no parameter 'dept' and nothing refers to it"),
+    ],
+)
+def test_typo_in_a_created_name_refused(tmp_path, override, words):
+    path = tmp_path / "case.toml"
+    path.write_text(CORNER, encoding="utf-8")
+    with pytest.raises(CaseError) as err:
+        load_case(path, [override])
+    text = str(err.value)
+    assert f"--set {override.split('=')[0]}" in text and words in text
+
+
+@pytest.mark.parametrize(
+    "overrides",
+    [
+        ["materials.masonry.conductivity=0.5"],
+        ["materials.spare.conductivity=0.2"],  # defined in the file, unused: a variant's
+        ["parameters.depth=0.3"],
+        ["regions.0.material=clay", "materials.clay.conductivity=0.9"],
+    ],
+)
+def test_overrides_of_defined_or_used_names_accepted(tmp_path, overrides):
+    path = tmp_path / "case.toml"
+    path.write_text(CORNER, encoding="utf-8")
+    assert load_case(path, overrides).regions
+
+
+def test_typo_in_a_sweep_refused_before_any_run(tmp_path, capsys):
+    from fvheat.cli.main import main
+
+    path = tmp_path / "case.toml"
+    path.write_text(CORNER, encoding="utf-8")
+    out = tmp_path / "sweep"
+    args = ["sweep", str(path), "--out", str(out), "--jobs", "1"]
+    assert main([*args, "--vary", "materials.masonr.conductivity=0.3,0.4"]) == 2
+    lines = capsys.readouterr().err.strip().splitlines()
+    assert len(lines) == 1 and "'masonr'" in lines[0], lines
+    assert not out.exists()

@@ -86,7 +86,11 @@ def test_segment_end_off_the_body_does_not_change_the_mesh(tmp_path):
     _, mesh0, _ = checked(tmp_path, base)
     with pytest.raises(CaseError, match="lies on no exterior edge"):
         checked(tmp_path, stray)
-    # the same stray end on a segment that is partly on the body (along the top edge)
+    # the same stray end on a segment that is partly on the body (along the top edge); the
+    # mesh is that of the segment ending on the body's corner (the top meeting the inside
+    # surface, at another temperature, refines the grid there either way)
+    top = surface("top", "[[[0.0, 1.0], [0.203, 1.0]]]", -5.0, 0.04)
+    _, mesh0, _ = checked(tmp_path, base + top)
     for end, warned in ((0.2031, False), (0.25, True)):
         stray = base + surface("top", f"[[[0.0, 1.0], [{end}, 1.0]]]", -5.0, 0.04)
         _, mesh1, warnings = checked(tmp_path, stray)
@@ -199,6 +203,23 @@ def test_adiabatic_gap_between_inside_surfaces_warned(tmp_path):
     (w,) = warnings
     assert w.startswith("100 mm of exterior edge between 'inside'")
     assert "(0, 0.4) to (0, 0.5) m" in w
+
+
+@pytest.mark.parametrize("kind", ["rectilinear", "triangles"])
+def test_adiabatic_gap_round_the_corner_measured_whole(tmp_path, kind):
+    """A 315 mm wall whose inside surface runs on over the top edge from x = 0.1 to 0.2 m:
+    the 100 mm between the corner and that segment are left out, one warning with the
+    whole gap (plain geometry). The top edge beyond 0.2 m reaches the outside surface: a
+    cut-off plane, no warning. On the triangle mesh bisected edge ends (0.0953515625 m and
+    the like) once split such runs by round-off into pieces, each judged alone: a gap
+    reported as 4.6 mm of its 100, and pieces of the cut-off plane reported as gaps."""
+    wall = WALL.replace("0.2, 1.0]", "0.315, 1.0]")
+    inside = surface("inside", "[[[0.0, 0.0], [0.0, 1.0]], [[0.1, 1.0], [0.2, 1.0]]]", 20.0)
+    outside = surface("outside", "[[[0.315, 0.0], [0.315, 1.0]]]", -5.0, 0.04)
+    _, _, warnings = checked(tmp_path, wall + inside + outside, [f'mesh.kind="{kind}"'])
+    (w,) = warnings
+    assert w.startswith("100 mm of exterior edge between 'inside'"), w
+    assert "(0, 1) to (0.1, 1) m" in w
 
 
 def test_cut_off_planes_are_not_gaps(tmp_path):

@@ -41,7 +41,7 @@ air_temperature = -5.0
 resistance = 0.04
 [junction]
 inside = {inside}
-outside = ["outside"]
+outside = {outside}
 centre = [0.0, 1.0]
 [[junction.flanking]]
 name = "wall"
@@ -82,6 +82,18 @@ BAD = {
         "junction.inside",
         "share one temperature",
     ),
+    # L2D = Φ/(θ_i − θ_e) counts each surface's heat flow once (ISO 10211); a name listed
+    # twice gave L2D and ψ with that surface's flow doubled, exit 0
+    "a boundary listed twice on the warm side": (
+        {"inside": '["inside", "inside_upper", "inside"]'},
+        "junction.inside",
+        "'inside' listed more than once",
+    ),
+    "a boundary listed twice on the cold side": (
+        {"outside": '["outside", "outside"]'},
+        "junction.outside",
+        "'outside' listed more than once",
+    ),
     "a boundary both inside and outside": (
         {"inside": '["inside", "outside"]'},
         "junction.outside",
@@ -91,7 +103,12 @@ BAD = {
 
 
 def case_text(**kw: str) -> str:
-    values = {"upper": "20.0", "inside": '["inside", "inside_upper"]', "flanking": GOOD_CUT}
+    values = {
+        "upper": "20.0",
+        "inside": '["inside", "inside_upper"]',
+        "outside": '["outside"]',
+        "flanking": GOOD_CUT,
+    }
     values.update(kw)
     return BASE.format(**values)
 

@@ -66,6 +66,11 @@ BAD = {
         "junction.environments",
         "'inside_upper'",
     ),
+    "a boundary listed twice in one environment": (
+        ENVS.replace('["outside"]', '["outside", "outside"]'),
+        "junction.environments.1.boundaries",
+        "'outside' listed more than once",
+    ),
     "an unknown boundary": (
         ENVS.replace('["outside"]', '["outsdie"]'),
         "junction.environments.1.boundaries",

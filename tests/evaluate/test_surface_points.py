@@ -72,6 +72,49 @@ def test_linear_profile_is_exact_at_face_ends(tmp_path):
     np.testing.assert_array_equal(pts.temperature[n:][~moved], np.tile(ts, 2)[~moved])
 
 
+# the L-shape 8 times smaller on uniform cells of 1/5120 m: face ends at dyadic
+# coordinates such as 0.0009765625 m, half-way between two nanometre steps, where ends
+# that round-off puts on either side of the half once failed to meet
+SMALL_L = """
+[mesh]
+max_cell = 0.0001953125
+min_cell = 0.0001953125
+corner_cell = 0.0001953125
+[materials.block]
+conductivity = 1.0
+[[regions]]
+material = "block"
+polygon = [[0.0, 0.0], [0.0375, 0.0], [0.0375, 0.0125], [0.025, 0.0125], [0.025, 0.025],
+    [0.0, 0.025]]
+[[boundaries]]
+name = "notch"
+edges = [[[0.0375, 0.0125], [0.025, 0.0125]], [[0.025, 0.0125], [0.025, 0.025]]]
+air_temperature = 20.0
+resistance = 0.13
+[[boundaries]]
+name = "base"
+edges = [[[0.0, 0.0], [0.0375, 0.0]]]
+air_temperature = -5.0
+resistance = 0.04
+"""
+
+
+def test_linear_profile_is_exact_at_dyadic_face_ends(tmp_path):
+    """As above on the small L-shape with uniform dyadic cells: every end point but those
+    where a straight run stops gets the linear profile's value (to round-off)."""
+    case = load(tmp_path, SMALL_L)
+    mesh = build_mesh(case)
+    s = System.build(case, mesh).surface
+    c = mesh.b_centre[s.face]
+    ts = 3.0 + 40.0 * c[:, 0] + 25.0 * c[:, 1]
+    pts = surface_points(mesh, s, ts)
+    exact = 3.0 + 40.0 * pts.at[:, 0] + 25.0 * pts.at[:, 1]
+    n = ts.size
+    moved = pts.temperature[n:] != np.tile(ts, 2)
+    assert moved.sum() >= 2 * n - 8
+    np.testing.assert_allclose(pts.temperature[n:][moved], exact[n:][moved], rtol=0, atol=1e-12)
+
+
 def test_corner_minimum_reported_at_the_corner_point(tmp_path):
     """Warm air in the notch: the notch surface is coldest at the re-entrant corner, and
     the reported minimum is at that point, below every face-centre temperature."""

@@ -27,7 +27,16 @@ import pytest
 
 from fvheat.evaluate.humidity import dew_point, surface_relative_humidity
 
-from .helpers import iso6946_u, materials_toml, num, regions_toml, seg, study, surface_toml
+from .helpers import (
+    iso6946_u,
+    materials_toml,
+    num,
+    regions_toml,
+    seg,
+    study,
+    surface_toml,
+    write_case,
+)
 
 T_IN, T_OUT = 20.0, -5.0
 R_SI, R_SE, R_COND = 0.13, 0.04, 0.25
@@ -111,6 +120,41 @@ def test_f_rsi_from_heat_loss_only_when_asked(tmp_path):
     assert s.surface_solution is None
 
 
+def _fixed_inside(text: str) -> str:
+    """The wall with its inside surface held at T_IN (no surface resistance)."""
+    old = f"air_temperature = {num(T_IN)}\nresistance = {num(R_SI)}"
+    assert old in text
+    return text.replace(old, f"temperature = {num(T_IN)}")
+
+
+@pytest.mark.parametrize("layers", [BRICK, INSULATED], ids=["brick", "insulated"])
+def test_f_rsi_on_a_fixed_inside_surface(tmp_path, layers):
+    """An inside surface given a fixed temperature still gets R_si = 0.25 in the
+    surface-temperature solve: f_Rsi = 1 − U_c·0.25 with U_c = 1/(0.25 + Σd/λ + R_se)
+    (ISO 13788 definition, ISO 6946 layer sum; 1e-9), not 1 (the surface at θ_i); L2D
+    from the heat-loss solve, U = 1/(Σd/λ + R_se) without R_si (1e-9)."""
+    s = study(tmp_path, _fixed_inside(wall_toml(layers)))
+    j = s.junction
+    u_cond = iso6946_u(_dl(layers), R_COND, R_SE)
+    assert j.f_rsi == pytest.approx(1.0 - u_cond * R_COND, rel=1e-9)
+    assert j.theta_si_min == pytest.approx(T_IN - u_cond * R_COND * (T_IN - T_OUT), rel=1e-9)
+    assert j.l2d == pytest.approx(iso6946_u(_dl(layers), 0.0, R_SE) * HEIGHT, rel=1e-9)
+
+
+def test_f_rsi_from_heat_loss_on_a_fixed_surface_refused(tmp_path, capsys):
+    """ "heat_loss" f_Rsi on a fixed inside surface would be 1 by construction: exit 2, one
+    line naming the file and the key (case-file contract)."""
+    from fvheat.cli.main import main
+
+    text = _fixed_inside(wall_toml(BRICK, 'condensation_resistance = "heat_loss"'))
+    path = write_case(tmp_path, text)
+    assert main(["run", str(path), "--out", str(tmp_path / "out"), "--quiet"]) == 2
+    lines = capsys.readouterr().err.strip().splitlines()
+    assert len(lines) == 1
+    assert lines[0].startswith(f"fvheat: error: {path}: junction.condensation_resistance: ")
+    assert not (tmp_path / "out" / "summary.json").exists()
+
+
 @pytest.mark.parametrize("layers", [BRICK, INSULATED], ids=["brick", "insulated"])
 def test_two_resistance_run(tmp_path, layers):
     """f_Rsi from the R_si = 0.25 solve (1 − U'·0.25), ψ and L2D from the R_si = 0.13 one."""
@@ -163,3 +207,53 @@ def test_junction_humidity_check(tmp_path, layers, condenses, mould):
     assert d["mould_risk_rh_80"] is mould
     assert d["f_Rsi_pass"] is (not condenses)
     assert d["surface_rh_at_theta_si_min"] == j.surface_rh
+
+
+def test_inside_colder_than_outside_warned(tmp_path):
+    """With θ_i < θ_e (a cooled room in summer) f_Rsi, taken at the coldest inside point,
+    is not the temperature factor of ISO 13788 (defined for heat flowing out): a warning
+    says so. For the plane wall the value is still 1 − U_c·0.25, the surface being
+    uniform (ISO 13788 / ISO 6946 as above, 1e-9); the heating case has no such warning."""
+    summer = wall_toml(BRICK).replace(f"air_temperature = {num(T_OUT)}", "air_temperature = 30.0")
+    j = study(tmp_path, summer).junction
+    u_cond = iso6946_u(_dl(BRICK), R_COND, R_SE)
+    assert j.f_rsi == pytest.approx(1.0 - u_cond * R_COND, rel=1e-9)
+    assert any("colder than the outside" in w and "f_Rsi" in w for w in j.warnings)
+    winter = study(tmp_path, wall_toml(BRICK), name="winter.toml").junction
+    assert not any("colder than the outside" in w for w in winter.warnings)
+
+
+@pytest.mark.parametrize("flux", [60.0, -40.0])
+def test_imposed_flux_left_out_of_junction_results(tmp_path, flux):
+    """Solar gain absorbed on the outside surface (heat_flux) changes the heat flows but
+    not L2D, ψ or f_Rsi, which ISO 10211 / ISO 13788 define from the two environments'
+    temperatures alone (from memory): L2D = U·l, ψ = 0 and f_Rsi = 1 − U_c·0.25 for the
+    plane wall (ISO 6946 layer sum, 1e-9), a warning saying the fluxes were left out. The
+    gain itself reaches the heat flows: the inside one is U·l·Δθ − flux·l·R_out/R_total
+    (1-D superposition, 1e-9). Before, ψ took that share (ψ = −0.058 at 60 W/m²)."""
+    text = wall_toml(INSULATED).replace(
+        f"air_temperature = {num(T_OUT)}", f"air_temperature = {num(T_OUT)}\nheat_flux = {flux}"
+    )
+    s = study(tmp_path, text)
+    j = s.junction
+    u = iso6946_u(_dl(INSULATED), R_SI, R_SE)
+    u_cond = iso6946_u(_dl(INSULATED), R_COND, R_SE)
+    assert j.l2d == pytest.approx(u * HEIGHT, rel=1e-9)
+    assert abs(j.psi) < 1e-9
+    assert j.f_rsi == pytest.approx(1.0 - u_cond * R_COND, rel=1e-9)
+    assert any("heat fluxes are left out" in w for w in j.warnings)
+    # the inside surface receives the share R_se·U of the absorbed gain (a resistance divider)
+    q_in = u * HEIGHT * (T_IN - T_OUT) - flux * HEIGHT * R_SE * u
+    assert s.solution.surfaces["inside"].heat_flow == pytest.approx(q_in, rel=1e-9)
+
+
+def test_sensitivities_with_imposed_flux_refused(tmp_path):
+    """The adjoint works on the run's own solve, the junction on one without the fluxes:
+    refused in one line (exit 2) rather than mixed."""
+    from fvheat.cli.main import main
+
+    text = wall_toml(BRICK).replace(
+        f"air_temperature = {num(T_OUT)}", f"air_temperature = {num(T_OUT)}\nheat_flux = 50.0"
+    )
+    path = write_case(tmp_path, text)
+    assert main(["run", str(path), "--out", str(tmp_path / "o"), "--quiet", "--sensitivities"]) == 2
