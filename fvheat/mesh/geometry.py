@@ -146,12 +146,13 @@ def coincident_ids(keys: np.ndarray) -> np.ndarray:
         return np.zeros(0, dtype=np.int64)
     rows, cols = [], []
     for shift in itertools.product((0.0, 0.5), repeat=d):
-        _, group = np.unique(np.rint(keys + shift), axis=0, return_inverse=True)
-        group = group.ravel()
-        first = np.full(int(group.max()) + 1, n)
-        np.minimum.at(first, group, np.arange(n))
-        rows.append(np.arange(n))
-        cols.append(first[group])
+        cell = np.rint(keys + shift)
+        order = np.lexsort(cell.T[::-1])
+        ranked = cell[order]
+        start = np.concatenate([[True], np.any(ranked[1:] != ranked[:-1], axis=1)])
+        head = order[np.flatnonzero(start)][np.cumsum(start) - 1]  # each row's cell's first
+        rows.append(order)
+        cols.append(head)
     r, c = np.concatenate(rows), np.concatenate(cols)
     graph = coo_matrix((np.ones(r.size), (r, c)), shape=(n, n))
     return connected_components(graph, directed=False)[1].astype(np.int64)
