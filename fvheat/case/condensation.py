@@ -20,7 +20,7 @@ import numpy as np
 from fvheat.case.fields import (
     Context,
     Invalid,
-    describe,
+    boundary_list,
     join,
     number,
     table,
@@ -55,19 +55,7 @@ def parse_condensation(value: Any, ctx: Context) -> Condensation | None:
             "[junction] indoor_humidity for the steady dew-point check at θ_si,min",
         )
     known = {b.name: b for b in ctx.parsed["boundaries"]}
-    names = tbl["boundaries"]
-    if isinstance(names, str):
-        names = [names]
-    if not isinstance(names, list) or not names or not all(isinstance(n, str) for n in names):
-        raise Invalid(
-            join(path, "boundaries"), f"expected a list of boundary names, got {describe(names)}"
-        )
-    for n in names:
-        if n not in known:
-            raise Invalid(
-                join(path, "boundaries"),
-                f"no boundary is called {n!r}; boundaries: {', '.join(known)}",
-            )
+    names = boundary_list(tbl["boundaries"], join(path, "boundaries"), known)
     if "air_temperature" in tbl:
         air = read_signal(
             tbl["air_temperature"], join(path, "air_temperature"), ctx, is_temperature=True

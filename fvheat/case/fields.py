@@ -272,6 +272,24 @@ def name(value: Any, path: str, seen: dict[str, str]) -> str:
     return value
 
 
+def boundary_list(value: Any, path: str, known: Collection[str]) -> tuple[str, ...]:
+    """A list of boundary names (one name alone is a list of one), each of ``known`` and
+    none twice (a boundary listed twice would count its heat flow twice)."""
+    if isinstance(value, str):
+        value = [value]
+    if not isinstance(value, list) or not value or not all(isinstance(v, str) for v in value):
+        raise Invalid(path, f"expected a list of boundary names, got {describe(value)}")
+    for v in value:
+        if v not in known:
+            raise Invalid(
+                path, f"no boundary is called {v!r}; boundaries: {', '.join(sorted(known))}"
+            )
+    twice = sorted({v for v in value if value.count(v) > 1})
+    if twice:
+        raise Invalid(path, f"{', '.join(map(repr, twice))} listed more than once")
+    return tuple(value)
+
+
 def coordinate(value: Any, path: str) -> float:
     """One coordinate (m), finite and within ±:data:`COORDINATE_LIMIT`; every point of a
     case (regions, boundaries, probes, junction cuts) is read through this."""

@@ -36,6 +36,7 @@ from typing import Any, cast
 from fvheat.case.fields import (
     Context,
     Invalid,
+    boundary_list,
     check_length,
     describe,
     join,
@@ -81,8 +82,10 @@ def parse_junction(value: Any, ctx: Context) -> Junction | None:
                 join(path, side),
                 "required key is missing (or give two or more [[junction.environments]])",
             )
-    inside = _names(tbl["inside"], join(path, "inside"), known) if "inside" in tbl else ()
-    outside = _names(tbl["outside"], join(path, "outside"), known) if "outside" in tbl else ()
+    inside = boundary_list(tbl["inside"], join(path, "inside"), known) if "inside" in tbl else ()
+    outside = (
+        boundary_list(tbl["outside"], join(path, "outside"), known) if "outside" in tbl else ()
+    )
     if bool(inside) != bool(outside):
         missing = "outside" if inside else "inside"
         raise Invalid(join(path, missing), "give both inside and outside, or neither")
@@ -109,7 +112,7 @@ def parse_junction(value: Any, ctx: Context) -> Junction | None:
         dimensions=cast("Dimensions", dimensions),
         surface_resistances=read_resistances(tbl, "condensation_resistance", path, inside),
         f_rsi_boundaries=(
-            _names(tbl["f_rsi_boundaries"], join(path, "f_rsi_boundaries"), set(inside))
+            boundary_list(tbl["f_rsi_boundaries"], join(path, "f_rsi_boundaries"), set(inside))
             if "f_rsi_boundaries" in tbl
             else None
         ),
@@ -138,7 +141,7 @@ def _environments(value: Any, path: str, known: set[str]) -> tuple[Environment, 
         p = join(path, i)
         table(t, p, allowed=("name", "boundaries"), required=("name", "boundaries"))
         ename = name(t["name"], join(p, "name"), seen)
-        names = _names(t["boundaries"], join(p, "boundaries"), known)
+        names = boundary_list(t["boundaries"], join(p, "boundaries"), known)
         for n in names:
             if n in owner:
                 raise Invalid(
@@ -148,22 +151,6 @@ def _environments(value: Any, path: str, known: set[str]) -> tuple[Environment, 
             owner[n] = ename
         out.append(Environment(ename, names))
     return tuple(out)
-
-
-def _names(value: Any, path: str, known: set[str]) -> tuple[str, ...]:
-    if isinstance(value, str):
-        value = [value]
-    if not isinstance(value, list) or not value or not all(isinstance(v, str) for v in value):
-        raise Invalid(path, f"expected a list of boundary names, got {describe(value)}")
-    for v in value:
-        if v not in known:
-            raise Invalid(
-                path, f"no boundary is called {v!r}; boundaries: {', '.join(sorted(known))}"
-            )
-    twice = sorted({v for v in value if value.count(v) > 1})
-    if twice:  # a boundary listed twice would count its heat flow twice in L2D
-        raise Invalid(path, f"{', '.join(map(repr, twice))} listed more than once")
-    return tuple(value)
 
 
 def _lengths(value: Any, path: str, primary: str) -> dict[str, float]:

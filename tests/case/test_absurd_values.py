@@ -212,6 +212,15 @@ def test_condensation_humidity_below_one_percent():
     load_case("cases/wall_daily_cycle.toml", [over.replace("0.5", "1")])
 
 
+def test_condensation_boundary_listed_twice():
+    """As the junction's lists: a surface named twice is refused in one line."""
+    over = 'condensation={boundaries = ["inside", "inside"], relative_humidity = 60}'
+    with pytest.raises(
+        CaseError, match=r"condensation\.boundaries: 'inside' listed more than once"
+    ):
+        load_case("cases/wall_daily_cycle.toml", [over])
+
+
 @pytest.mark.parametrize(
     ("override", "key", "words"),
     [
