@@ -178,6 +178,23 @@ def side_temperature(case: Case, names: tuple[str, ...], side: str) -> float:
     return next(iter(temps.values()))
 
 
+def radiant_apart(case: Case) -> list[tuple[str, float, float]]:
+    """(name, air °C, radiant °C) of the junction's side boundaries that radiate (emissivity
+    > 0) to a temperature other than their air's at t = 0."""
+    j = case.junction
+    assert j is not None
+    out = []
+    for n in (*j.inside, *j.outside):
+        b = case.boundary(n)
+        if b.kind != "surface" or not b.emissivity or b.radiant_temperature is None:
+            continue
+        assert b.air_temperature is not None
+        ta, tr = float(b.air_temperature.at(0.0)), float(b.radiant_temperature.at(0.0))
+        if abs(tr - ta) > 1e-9:
+            out.append((n, ta, tr))
+    return out
+
+
 def varying_sides(case: Case) -> list[str]:
     """The junction's side boundaries whose temperature changes with time."""
     j = case.junction
@@ -313,6 +330,13 @@ def evaluate_junction(
             f"and f_Rsi come from the steady field of the t = 0 conditions (θ_i = "
             f"{theta_i:g} °C, θ_e = {theta_e:g} °C)"
         )
+    result.warnings += [
+        f"boundary {n!r} radiates to {tr:g} °C but its air is at {ta:g} °C: L2D and ψ divide "
+        "the heat flow both drive by the air temperatures' difference (ISO 10211 takes one "
+        "temperature per environment), so they are not comparable with a catalogue value; "
+        "give radiant_temperature = air_temperature for a ψ to compare"
+        for n, ta, tr in radiant_apart(case)
+    ]
     phi_out = sum(heat_loss.surfaces[n].heat_flow for n in j.outside)
     other = abs(phi + phi_out) / max(abs(phi), 1e-300)
     if other > 1e-6:

@@ -257,3 +257,23 @@ def test_sensitivities_with_imposed_flux_refused(tmp_path):
     )
     path = write_case(tmp_path, text)
     assert main(["run", str(path), "--out", str(tmp_path / "o"), "--quiet", "--sensitivities"]) == 2
+
+
+@pytest.mark.parametrize("radiant", [T_IN, T_IN + 5.0])
+def test_a_room_radiating_at_another_temperature_is_warned_of(tmp_path, radiant):
+    """An inside surface exchanging by convection with air at θ_i and by radiation with
+    surfaces at another temperature: the heat flow carries both drives while L2D divides it
+    by the air temperatures' difference (ISO 10211 takes one temperature per environment),
+    so the junction says so; with the radiant temperature equal to the air's it does not."""
+    text = wall_toml(BRICK)
+    inside = f"air_temperature = {num(T_IN)}\nresistance = {num(R_SI)}\n"
+    assert text.count(inside) == 1
+    exchange = f"convection = 2.5\nemissivity = 0.9\nradiant_temperature = {num(radiant)}\n"
+    text = text.replace(inside, f"air_temperature = {num(T_IN)}\n{exchange}")
+    cut = text[text.index("cut = ") :].splitlines()[0]
+    text = text.replace(cut, "u_value = 2.0")  # a radiating surface gives a cut no U
+    j = study(tmp_path, text).junction
+    warned = [w for w in j.warnings if "radiates to" in w]
+    assert len(warned) == (radiant != T_IN)
+    if warned:
+        assert "'inside'" in warned[0] and "ISO 10211" in warned[0]
