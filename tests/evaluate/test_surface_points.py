@@ -55,7 +55,17 @@ def test_linear_profile_is_exact_at_face_ends(tmp_path):
     """Face temperatures set to θ = 3 + 40·x + 25·y: every end point of a face whose
     neighbour beyond it is on the same line, boundary and material gets exactly that
     value (to round-off); the face centres keep theirs."""
-    case = _l_shape(tmp_path)
+    pts, ts, moved = _linear_profile(_l_shape(tmp_path))
+    np.testing.assert_array_equal(pts.temperature[: ts.size], ts)
+    # where the run stops (corners, ends) the face keeps its own value
+    np.testing.assert_array_equal(pts.temperature[ts.size :][~moved], np.tile(ts, 2)[~moved])
+
+
+def _linear_profile(case):
+    """Surface points of ``case`` with the face temperatures θ = 3 + 40·x + 25·y, checked:
+    every end point but those where a straight run of a boundary stops (at most 8) moved
+    to the profile's value there (to round-off). The points, the face values and which
+    end points moved."""
     mesh = build_mesh(case)
     s = System.build(case, mesh).surface
     c = mesh.b_centre[s.face]
@@ -63,13 +73,10 @@ def test_linear_profile_is_exact_at_face_ends(tmp_path):
     pts = surface_points(mesh, s, ts)
     exact = 3.0 + 40.0 * pts.at[:, 0] + 25.0 * pts.at[:, 1]
     n = ts.size
-    np.testing.assert_array_equal(pts.temperature[:n], ts)
     moved = pts.temperature[n:] != np.tile(ts, 2)
-    # all end points except those where the straight run of a boundary stops
     assert moved.sum() >= 2 * n - 8
     np.testing.assert_allclose(pts.temperature[n:][moved], exact[n:][moved], rtol=0, atol=1e-12)
-    # where the run stops (corners, ends) the face keeps its own value
-    np.testing.assert_array_equal(pts.temperature[n:][~moved], np.tile(ts, 2)[~moved])
+    return pts, ts, moved
 
 
 # the L-shape 8 times smaller on uniform cells of 1/5120 m: face ends at dyadic
@@ -102,17 +109,7 @@ resistance = 0.04
 def test_linear_profile_is_exact_at_dyadic_face_ends(tmp_path):
     """As above on the small L-shape with uniform dyadic cells: every end point but those
     where a straight run stops gets the linear profile's value (to round-off)."""
-    case = load(tmp_path, SMALL_L)
-    mesh = build_mesh(case)
-    s = System.build(case, mesh).surface
-    c = mesh.b_centre[s.face]
-    ts = 3.0 + 40.0 * c[:, 0] + 25.0 * c[:, 1]
-    pts = surface_points(mesh, s, ts)
-    exact = 3.0 + 40.0 * pts.at[:, 0] + 25.0 * pts.at[:, 1]
-    n = ts.size
-    moved = pts.temperature[n:] != np.tile(ts, 2)
-    assert moved.sum() >= 2 * n - 8
-    np.testing.assert_allclose(pts.temperature[n:][moved], exact[n:][moved], rtol=0, atol=1e-12)
+    _linear_profile(load(tmp_path, SMALL_L))
 
 
 def test_corner_minimum_reported_at_the_corner_point(tmp_path):
