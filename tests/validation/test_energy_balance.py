@@ -132,7 +132,10 @@ def test_steady_composite(tmp_path):
 @pytest.mark.parametrize("scheme", ["backward_euler", "crank_nicolson"])
 def test_transient_composite(tmp_path, scheme):
     """Two days, 15 min steps, cosine outdoor air and sky, CSV room air and solar flux,
-    radiating facade: energy in = stored heat change to 1e-9 relative."""
+    radiating facade: energy in = stored heat change to 1e-9 relative. Recomputed here from
+    the saved flows with the scheme's own weights: from the first step on for backward
+    Euler, from the second for Crank–Nicolson (its first step is four backward-Euler quarter
+    steps, whose flows are not saved; the run's own balance covers it)."""
     write_weather(tmp_path)
     step = 900.0
     sol = run(tmp_path, transient_case(scheme, step))
@@ -140,7 +143,8 @@ def test_transient_composite(tmp_path, scheme):
     hist = sol.history
     times = np.array(hist.times)
     assert np.allclose(np.diff(times), step) and times[-1] == pytest.approx(2 * DAY)
-    flows = np.array(hist.flows)  # (times, boundaries), W/m
+    start = 0 if scheme == "backward_euler" else 1
+    flows = np.array(hist.flows)[start:]  # (times, boundaries), W/m
     energy = step * (theta * flows[1:] + (1.0 - theta) * flows[:-1]).sum(axis=0)  # J/m
     case = sol.case
     rho_c = np.array(
@@ -150,7 +154,7 @@ def test_transient_composite(tmp_path, scheme):
         ]
     )
     capacity = rho_c[sol.mesh.material] * sol.mesh.volumes  # J/(m·K)
-    stored = float(capacity @ (hist.fields[-1] - hist.fields[0]))
+    stored = float(capacity @ (hist.fields[-1] - hist.fields[start]))
     scale = max(energy[energy > 0].sum(), -energy[energy < 0].sum(), abs(stored))
     rel = abs(energy.sum() - stored) / scale
     report(
