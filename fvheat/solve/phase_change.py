@@ -29,7 +29,7 @@ from fvheat.assembly.enthalpy import EnthalpyModel
 from fvheat.assembly.system import System
 from fvheat.errors import ConvergenceError
 from fvheat.solve.linear import LinearSolver, SolverChoice, make_solver
-from fvheat.solve.transient import Step
+from fvheat.solve.transient import START, Step
 
 log = logging.getLogger(__name__)
 
@@ -184,11 +184,22 @@ def evolve_enthalpy(
 ) -> Iterator[Step]:
     """Yield (t, T, boundary heat J/m) after each of ``n_steps`` steps of ``step`` s; with
     ``tolerance`` (K) each step is subdivided adaptively (step doubling), the output still
-    coming at the requested times."""
-    stepper = EnthalpyStepper(system, model, theta, method=method)
+    coming at the requested times. With θ < 1 the first step is taken as ``START``
+    backward-Euler steps, as in :func:`fvheat.solve.transient.evolve`."""
     temp = temp0.astype(float).copy()
     h = model.enthalpy(temp)
-    for k in range(1, n_steps + 1):
+    first = 1
+    if theta < 1.0 and n_steps > 0:
+        damped = EnthalpyStepper(system, model, 1.0, method=method)
+        energy = np.zeros(len(system.surface.boundaries))
+        for i in range(START):
+            t = t0 + i * step / START
+            temp, h, part = damped.advance_split(temp, h, t, step / START, tolerance=tolerance)
+            energy = energy + part
+        yield t0 + step, temp, energy
+        first = 2
+    stepper = EnthalpyStepper(system, model, theta, method=method)
+    for k in range(first, n_steps + 1):
         t = t0 + (k - 1) * step
         temp, h, energy = stepper.advance_split(temp, h, t, step, tolerance=tolerance)
         yield t0 + k * step, temp, energy
