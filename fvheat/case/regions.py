@@ -88,7 +88,7 @@ def _regions(
     tbl: dict, path: str, materials: dict[str, Material], ctx: Context, seen: dict[str, str]
 ) -> list[Region]:
     """The regions of one ``[[regions]]`` entry: one, or one per closed shape of its layer."""
-    table(tbl, path, allowed=("name", "material", "cavity", "box", "polygon", "layer"))
+    table(tbl, path, allowed=("name", "material", "cavity", "box", "polygon", "layer", "holes"))
     rname = name(tbl["name"], join(path, "name"), seen) if "name" in tbl else None
     if ("material" in tbl) == ("cavity" in tbl):
         raise Invalid(
@@ -192,6 +192,12 @@ def _shapes(tbl: dict, path: str, ctx: Context) -> list[LayerShape]:
             + (f"; got {' and '.join(given)}" if given else ""),
         )
     if "layer" in tbl:
+        if "holes" in tbl:
+            raise Invalid(
+                join(path, "holes"),
+                "a drawing layer's shapes take their holes from the drawing (closed shapes "
+                "inside a hatch); holes apply to box and polygon regions",
+            )
         return layer_shapes(ctx, tbl["layer"], join(path, "layer"))
     if "box" in tbl:
         vertices = _box(tbl["box"], join(path, "box"))
@@ -199,7 +205,34 @@ def _shapes(tbl: dict, path: str, ctx: Context) -> list[LayerShape]:
     else:
         vertices, is_box = _polygon(tbl["polygon"], join(path, "polygon"))
     vertices.flags.writeable = False
-    return [LayerShape(vertices, (), is_box)]
+    holes = _holes(tbl["holes"], join(path, "holes"), vertices) if "holes" in tbl else ()
+    return [LayerShape(vertices, holes, is_box)]
+
+
+def _holes(value: Any, path: str, outline: np.ndarray) -> tuple[np.ndarray, ...]:
+    """Holes of a typed region: polygons [[x, y], ...] (m) strictly inside its ``outline``
+    and apart from each other; where one lies, the region paints nothing (what was painted
+    before shows, or the body has a void there, whose edges are exterior faces)."""
+    import shapely
+
+    if not isinstance(value, list) or not value:
+        raise Invalid(
+            path, f"expected a list of polygons [[[x, y], ...], ...], got {describe(value)}"
+        )
+    rings = [_polygon(v, join(path, i))[0] for i, v in enumerate(value)]
+    body = shapely.Polygon(outline)
+    shapes = [shapely.Polygon(r) for r in rings]
+    for i, hole in enumerate(shapes):
+        if not body.contains(hole) or hole.boundary.intersects(body.boundary):
+            raise Invalid(
+                join(path, i), "a hole must lie inside the region's outline, apart from it"
+            )
+        for j in range(i):
+            if hole.intersects(shapes[j]):
+                raise Invalid(join(path, i), f"the hole meets hole {j}: join them into one")
+    for r in rings:
+        r.flags.writeable = False
+    return tuple(rings)
 
 
 def _box_vertices(x0: float, y0: float, x1: float, y1: float) -> np.ndarray:
