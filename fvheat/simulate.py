@@ -7,7 +7,6 @@ from collections.abc import Callable
 from dataclasses import dataclass, field, replace
 
 import numpy as np
-import scipy.sparse as sp
 
 from fvheat.assembly.enthalpy import EnthalpyModel
 from fvheat.assembly.system import System
@@ -18,7 +17,7 @@ from fvheat.evaluate.condensation import CondensationHours
 from fvheat.evaluate.extremes import RunExtremes
 from fvheat.evaluate.fronts import FrontLines
 from fvheat.evaluate.periodic import PeriodicResponse
-from fvheat.evaluate.probes import probe_operator
+from fvheat.evaluate.probes import PointTemperatures, point_temperatures
 from fvheat.evaluate.surfaces import SurfaceResult, surface_results
 from fvheat.mesh.mesh import Mesh
 from fvheat.mesh.select import build_mesh
@@ -97,8 +96,11 @@ def simulate(
     mesh = mesh if mesh is not None else build_mesh(case)
     system = System.build(case, mesh)
     model = EnthalpyModel.build(case, mesh)
-    probe_op = probe_operator(
-        mesh, np.array([p.at for p in case.probes]).reshape(-1, 2), system.k_material
+    probe_op = point_temperatures(
+        mesh,
+        system.surface,
+        np.array([p.at for p in case.probes]).reshape(-1, 2),
+        system.k_material,
     )
     names = [b.name for b in case.boundaries]
 
@@ -130,7 +132,7 @@ def _transient(
     mesh: Mesh,
     system: System,
     model: EnthalpyModel,
-    probe_op: sp.csr_matrix,
+    probe_op: PointTemperatures,
     method: SolverChoice,
     progress: Progress | None,
     keep_fields: bool,
@@ -157,9 +159,10 @@ def _transient(
         extremes.add(temp0, 0.0)
 
         def record(t: float, temp: np.ndarray, history: History = history) -> None:
+            at_t = _at_phase(system, model, temp)
             history.times.append(t)
-            history.probes.append(probe_op @ temp)
-            history.flows.append(_at_phase(system, model, temp).boundary_flows(temp, t))
+            history.probes.append(probe_op(at_t, temp, t))
+            history.flows.append(at_t.boundary_flows(temp, t))
             history.phase.append(lines.measure(temp))
             if keep_fields:
                 history.fields.append(temp.copy())
@@ -230,7 +233,7 @@ def _at_phase(system: System, model: EnthalpyModel, temp: np.ndarray) -> System:
 
 
 def _solution(case, mesh, system, model, temp, t, probe_op, balance, history) -> Solution:
-    values = probe_op @ temp
+    values = probe_op(system, temp, t)
     probes = {p.name: float(v) for p, v in zip(case.probes, values, strict=True)}
     out = Solution(
         case, mesh, system, temp, t, surface_results(system, temp, t), probes, balance, history

@@ -5,9 +5,8 @@ answer: a boundary segment that is only partly on the body (:mod:`.boundaries`),
 exterior edge left adiabatic between surfaces of the same side (:mod:`.boundaries`), a part
 of the body with no temperature reference or several separate bodies (:mod:`.islands`), a
 region the grid paints much smaller or larger than drawn (:mod:`.regions`), and junction
-settings that would only fail after the solve (:mod:`.junction`), transient runs that
-would save thousands of fields (:mod:`.resources`), and grid probes placed on a surface
-(:mod:`.probes`).
+settings that would only fail after the solve (:mod:`.junction`), and transient runs that
+would save thousands of fields (:mod:`.resources`).
 
 :func:`check_model` raises :class:`~fvheat.errors.CaseError` where the model cannot be
 right and returns one-line warnings otherwise; ``fvheat check`` and ``fvheat run`` both
@@ -20,7 +19,6 @@ from fvheat.case.model import Case
 from fvheat.checks.boundaries import adiabatic_gap_warnings, coverage_warnings
 from fvheat.checks.islands import island_warnings
 from fvheat.checks.junction import check_junction
-from fvheat.checks.probes import surface_probe_warnings
 from fvheat.checks.regions import region_area_warnings
 from fvheat.checks.resources import resource_warnings
 from fvheat.mesh.mesh import Mesh
@@ -33,7 +31,6 @@ def check_model(case: Case, mesh: Mesh) -> list[str]:
     warnings += adiabatic_gap_warnings(case, mesh)
     warnings += region_area_warnings(case, mesh)
     warnings += resource_warnings(case, mesh)
-    warnings += surface_probe_warnings(case, mesh)
     check_junction(case, mesh)
     return warnings
 

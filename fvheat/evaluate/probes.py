@@ -1,11 +1,84 @@
-"""Point temperatures: a sparse interpolation operator built once, applied to any field."""
+"""Point temperatures: a sparse interpolation operator built once, applied to any field.
+
+On the grid the operator interpolates between cell centres and holds the value beyond the
+outermost ones, so a point between a surface and its cell's centre would read the cell's
+temperature; :class:`PointTemperatures` adds, for such points, the surface's own part:
+the surface temperature the solver balanced at that face, linearly over the half cell
+(exact for a 1-D profile). A probe on an exchanging surface thus reports the surface
+temperature, as the boundary results do (it read the cell's: 1.2 K off at an insulation
+surface of 2 cm cells).
+"""
 
 from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
 import scipy.sparse as sp
 
 from fvheat.mesh.mesh import Mesh
+
+if TYPE_CHECKING:
+    from fvheat.assembly.boundary import SurfaceTerms
+    from fvheat.assembly.system import System
+
+
+@dataclass(frozen=True)
+class PointTemperatures:
+    """Temperatures (°C) at points: ``operator`` (points × cells) applied to the cell field,
+    plus, for the points ``point`` within half a cell of a surface face (the surface
+    terms' index ``term``), ``weight`` × (surface − cell temperature) of that face."""
+
+    operator: sp.csr_matrix
+    point: np.ndarray
+    term: np.ndarray
+    weight: np.ndarray
+
+    def __call__(self, system: System, temp: np.ndarray, t: float) -> np.ndarray:
+        """The point temperatures (°C) of the cell field ``temp`` at ``t`` s, ``system``
+        giving the surface balance (at the field's phases)."""
+        values = self.operator @ temp
+        if self.point.size:
+            s = system.surface
+            ts = s.surface_state(temp, t)[0][self.term]
+            values[self.point] += self.weight * (ts - temp[s.cell[self.term]])
+        return values
+
+
+def point_temperatures(
+    mesh: Mesh, surface: SurfaceTerms, points: np.ndarray, k_material: np.ndarray | None = None
+) -> PointTemperatures:
+    """:class:`PointTemperatures` of ``points`` (n, 2) m: :func:`probe_operator`, and on the
+    grid the surface part of points lying within half a cell of a face with a boundary
+    condition (the face whose strip holds the point nearest to it: depth below the face's
+    centre-to-face distance, within the face's length along it)."""
+    pts = np.atleast_2d(np.asarray(points, dtype=float)).reshape(-1, 2)
+    operator = probe_operator(mesh, pts, k_material)
+    none = np.zeros(0, dtype=np.int64)
+    if mesh.grid is None or surface.face.size == 0 or pts.shape[0] == 0:
+        return PointTemperatures(operator, none, none, np.zeros(0))
+    f = surface.face
+    centre, normal, dist = mesh.b_centre[f], mesh.b_normal[f], mesh.b_dist[f]
+    tol = 1e-9 * max(float(np.ptp(mesh.centres)), 1.0)
+    term = np.zeros(len(pts), dtype=np.int64)
+    depth = np.full(len(pts), np.inf)
+    for a in range(0, len(pts), CHUNK):  # (points, faces) arrays a chunk of points at a time
+        rel = pts[a : a + CHUNK, None, :] - centre[None, :, :]
+        d = -np.einsum("pfi,fi->pf", rel, normal)  # into the body from the face
+        along = np.abs(rel[..., 0] * normal[:, 1] - rel[..., 1] * normal[:, 0])
+        strip = (d >= -tol) & (d < dist - tol) & (along <= 0.5 * mesh.b_area[f] + tol)
+        rank = np.where(strip, d, np.inf)
+        term[a : a + CHUNK] = np.argmin(rank, axis=1)
+        depth[a : a + CHUNK] = rank[np.arange(rank.shape[0]), term[a : a + CHUNK]]
+    point = np.flatnonzero(np.isfinite(depth))
+    term = term[point]
+    weight = 1.0 - np.clip(depth[point], 0.0, None) / dist[term]
+    return PointTemperatures(operator, point, term, weight)
+
+
+#: points whose surface faces are searched at once (bounds a points × faces array)
+CHUNK = 64
 
 
 def _bracket(centres: np.ndarray, p: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
