@@ -73,8 +73,8 @@ class Solution:
         """The system with the conductivities of the phases at ``temperature`` (°C, a saved
         state of this run): ``system`` itself for the final field or without phase-dependent
         conductivity. Heat-flux fields of saved states are computed with it."""
-        if self.phase is None or temperature is self.temperature:
-            return self.system
+        if self.phase is None or np.array_equal(temperature, self.temperature):
+            return self.system  # (the end state comes back as the history's copy)
         return _at_phase(self.system, self.phase, temperature)
 
 
@@ -168,6 +168,9 @@ def _transient(
                 history.fields.append(temp.copy())
 
         record(0.0, temp0)
+        # a given start temperature may be out of balance; a steady start or a repeated
+        # cycle's end state is not
+        damped = cycles == 1 and ts.initial_temperature != "steady"
         if model.active or ts.adaptive_tolerance is not None:
             steps = evolve_enthalpy(
                 system,
@@ -178,9 +181,12 @@ def _transient(
                 theta=ts.theta,
                 method=method,
                 tolerance=ts.adaptive_tolerance,
+                damped_start=damped,
             )
         else:
-            steps = evolve(system, temp0, ts.step, n_steps, theta=ts.theta, method=method)
+            steps = evolve(
+                system, temp0, ts.step, n_steps, theta=ts.theta, method=method, damped_start=damped
+            )
         energy = np.zeros(len(names))
         temp, t = temp0, 0.0
         for k, (t, temp, heat) in enumerate(steps, start=1):

@@ -128,11 +128,6 @@ def steady_case(case: Case) -> Case:
     return replace(case, time=None)
 
 
-def has_fluxes(case: Case) -> bool:
-    """Whether a boundary of ``case`` imposes a heat flux (solar gain, a heated surface)."""
-    return any(b.heat_flux is not None for b in case.boundaries)
-
-
 def without_fluxes(case: Case) -> Case:
     """``case`` with every imposed heat flux left out (a flux-only boundary adiabatic): L2D,
     ψ and f_Rsi are those of the environments' temperatures alone (ISO 10211 defines L2D as
@@ -199,7 +194,7 @@ def run_study(
     if j is None and not want_grid:
         return study
     # the junction's solves: steady, t = 0 conditions, imposed heat fluxes left out
-    fluxes = j is not None and j.pair and has_fluxes(case)
+    fluxes = j is not None and j.pair and case.imposes_heat_flux
     jcase = without_fluxes(steady_case(case)) if fluxes else steady_case(case)
     base = solution if not (case.transient or fluxes) else simulate(jcase, mesh=mesh)
     if j is not None and j.environments:

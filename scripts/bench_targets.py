@@ -66,7 +66,8 @@ def figure_seconds(case: Path, work: Path, repeat: int = 1) -> tuple[float, floa
             t0 = time.perf_counter()
             frozen = memory.freeze(states_needed(len(memory.field_times())))
             groups = split_figures(planned_figures(ResultsFolder.open(out), frozen), len(workers))
-            workers.submit(draw_group, [(out, frozen, g) for g in groups])
+            to = [i for i, g in enumerate(groups) if g]
+            workers.submit(draw_group, [(out, frozen, groups[i]) for i in to], to)
             workers.results()
             parallel.append(time.perf_counter() - t0)
     med = statistics.median

@@ -460,6 +460,11 @@ class Case:
         """Whether the case has a ``[time]`` table (a transient run)."""
         return self.time is not None
 
+    @property
+    def imposes_heat_flux(self) -> bool:
+        """Whether a boundary imposes a heat flux (solar gain, a heated surface)."""
+        return any(b.heat_flux is not None for b in self.boundaries)
+
     def boundary(self, name: str) -> Boundary:
         """The boundary called ``name``."""
         for b in self.boundaries:

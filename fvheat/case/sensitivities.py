@@ -32,7 +32,7 @@ def sensitivity_problem(case: Case) -> str | None:
     if case.transient:
         return "sensitivities are computed for steady runs only; remove [time] or ask without"
     j = case.junction
-    if j is not None and j.inside and any(b.heat_flux is not None for b in case.boundaries):
+    if j is not None and j.inside and case.imposes_heat_flux:
         return (
             "sensitivities are not available for a junction with imposed heat fluxes (its "
             "ψ and f_Rsi come from a separate solve without them)"

@@ -47,7 +47,7 @@ class Cosine:
         return self.amplitude == 0.0
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, eq=False)
 class Series:
     """A tabulated series ``(times, values)`` read from a CSV column, linearly interpolated.
 
@@ -63,6 +63,18 @@ class Series:
     source: str = ""
     column: str = ""
     period: float | None = None
+
+    def __eq__(self, other: object) -> bool:
+        """Equal tables, source, column and period (the arrays compared element-wise)."""
+        if not isinstance(other, Series):
+            return NotImplemented
+        return (
+            (self.source, self.column, self.period) == (other.source, other.column, other.period)
+            and np.array_equal(self.times, other.times)
+            and np.array_equal(self.values, other.values)
+        )
+
+    __hash__ = None  # type: ignore[assignment]  # mutable arrays: not hashable
 
     def at(self, t: float | np.ndarray) -> float | np.ndarray:
         """Value at time ``t`` (s), linear interpolation between rows."""

@@ -142,7 +142,7 @@ def _match(find: np.ndarray, among: np.ndarray) -> np.ndarray:
     it (−1 if none)."""
     if among.shape[0] == 0:
         return np.full(find.shape[0], -1)
-    ids = coincident_ids(np.concatenate([among, find]))
+    ids = coincident_ids(np.concatenate([among, find]), shifted=2)  # the point, not the normal
     owner = np.full(int(ids.max()) + 1, -1)
     owner[ids[: among.shape[0]]] = np.arange(among.shape[0])
     return owner[ids[among.shape[0] :]]

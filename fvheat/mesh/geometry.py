@@ -127,9 +127,11 @@ def points_on_segments(
     return hit
 
 
-def coincident_ids(keys: np.ndarray) -> np.ndarray:
+def coincident_ids(keys: np.ndarray, shifted: int | None = None) -> np.ndarray:
     """One id per row of ``keys`` (n, d), the same for rows less than a quarter apart in
-    every coordinate, never for rows 1 or more apart in one.
+    every coordinate, never for rows 1 or more apart in one. Only the first ``shifted``
+    columns (default all) are rounded shifted too; the others must agree once rounded
+    (e.g. a face's normal, computed the same way for both rows).
 
     ``keys`` are coordinates already divided by their tolerance (points in units of
     1e-9 of the model's size, say). Rounding them to integers once would split a pair lying
@@ -145,8 +147,9 @@ def coincident_ids(keys: np.ndarray) -> np.ndarray:
     if n == 0:
         return np.zeros(0, dtype=np.int64)
     rows, cols = [], []
-    for shift in itertools.product((0.0, 0.5), repeat=d):
-        cell = np.rint(keys + shift)
+    k = d if shifted is None else shifted
+    for shift in itertools.product((0.0, 0.5), repeat=k):
+        cell = np.rint(keys + np.concatenate([shift, np.zeros(d - k)]))
         order = np.lexsort(cell.T[::-1])
         ranked = cell[order]
         start = np.concatenate([[True], np.any(ranked[1:] != ranked[:-1], axis=1)])

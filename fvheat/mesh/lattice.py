@@ -52,30 +52,6 @@ def lattice_grid(lo: np.ndarray, hi: np.ndarray, spacing: float) -> tuple[np.nda
     return np.column_stack([x.ravel(), y.ravel()]), len(ys), len(xs)
 
 
-def hex_lattice(lo: np.ndarray, hi: np.ndarray, spacing: float) -> np.ndarray:
-    """Nodes (n, 2) m of a hexagonal lattice of ``spacing`` (m) covering the box ``lo``–``hi``
-    (see :func:`lattice_grid`)."""
-    return lattice_grid(lo, hi, spacing)[0]
-
-
-def seed_points(
-    vertices: np.ndarray,
-    segments: np.ndarray,
-    spacing: float,
-    inside: Callable[[np.ndarray], np.ndarray],
-    size: Callable[[np.ndarray], np.ndarray],
-    body: float,
-    others: np.ndarray | None = None,
-) -> np.ndarray:
-    """The lattice nodes (n, 2) m of :func:`lattice_seeds` (same arguments, ``inside``
-    telling which points are on the meshed body)."""
-
-    def paint(p: np.ndarray) -> np.ndarray:
-        return np.where(inside(p), 0, -1)
-
-    return lattice_seeds(vertices, segments, spacing, paint, size, body, others).points
-
-
 def lattice_seeds(
     vertices: np.ndarray,
     segments: np.ndarray,

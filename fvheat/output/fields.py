@@ -124,7 +124,7 @@ def outward_normals(ends: np.ndarray) -> np.ndarray:
 
 
 def from_meshio(mesh: meshio.Mesh, meta: dict[str, Any], time: float = 0.0) -> FieldView:
-    """Rebuild a :class:`FieldView` from a VTU written by :func:`to_meshio` and its index."""
+    """Rebuild a :class:`FieldView` from a VTU of :func:`write_vtu` and its index."""
     x = np.asarray(meta["grid"]["x"], float)
     y = np.asarray(meta["grid"]["y"], float)
     blocks = {b.type: k for k, b in enumerate(mesh.cells)}

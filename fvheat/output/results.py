@@ -17,7 +17,7 @@ import numpy as np
 from fvheat.errors import CaseError
 from fvheat.output.fields import FIELDS_DIR, META_FILE, read_field, read_surface_field
 from fvheat.output.inputs import INPUTS_FILE
-from fvheat.output.summary_shape import summary_problem
+from fvheat.output.summary_shape import read_summary
 from fvheat.output.triangle_fields import FORMAT as TRIANGLE_FORMAT
 from fvheat.output.triangle_view import AnyFieldView, TriangleFieldView, TriangleShape
 
@@ -58,14 +58,7 @@ class ResultsFolder:
                 "no summary.json here; give the folder `fvheat run CASE --out DIR` wrote",
                 file=str(path),
             )
-        try:
-            summary = json.loads(f.read_text(encoding="utf-8"))
-        except (OSError, ValueError) as err:
-            raise CaseError(f"cannot read it: {err}", file=str(f)) from None
-        problem = summary_problem(summary)
-        if problem is not None:
-            raise CaseError(problem, file=str(f))
-        return cls(path, summary)
+        return cls(path, read_summary(f, "cannot read it"))
 
     @property
     def title(self) -> str:

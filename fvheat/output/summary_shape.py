@@ -8,8 +8,12 @@ sections are tables, the numbers are numbers, points are [x, y], lists are lists
 
 from __future__ import annotations
 
+import json
 from collections.abc import Callable
+from pathlib import Path
 from typing import Any
+
+from fvheat.errors import CaseError
 
 #: top-level sections that are tables (null allowed: treated as absent)
 TABLES = ("energy_balance", "geometry", "mesh", "project", "grid_check", "sensitivities")
@@ -140,3 +144,20 @@ def _junction_checks(j: Any) -> list[Check]:
         (p + "flanking", "a list of tables", j.get("flanking", []), _tables),
     ]
     return out
+
+
+def read_summary(f: Path, unreadable: str) -> dict[str, Any]:
+    """The parsed ``summary.json`` ``f`` with its shape checked: a :class:`CaseError`
+    naming ``f`` with ``unreadable`` and the reason when it cannot be read or parsed, or
+    with the shape problem (:func:`summary_problem`); a missing file is the caller's
+    (:class:`FileNotFoundError` passes through)."""
+    try:
+        summary = json.loads(f.read_text(encoding="utf-8"))
+    except FileNotFoundError:
+        raise
+    except (OSError, ValueError) as err:  # UnicodeDecodeError and JSONDecodeError included
+        raise CaseError(f"{unreadable}: {err}", file=str(f)) from None
+    problem = summary_problem(summary)
+    if problem is not None:
+        raise CaseError(problem, file=str(f))
+    return summary

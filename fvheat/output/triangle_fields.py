@@ -84,7 +84,7 @@ def read_triangle_field(
     time: float = 0.0,
     shape: TriangleShape | None = None,
 ) -> TriangleFieldView:
-    """The view stored in the VTU ``path`` (written by :func:`to_meshio`; names from the
+    """The view stored in the VTU ``path`` (written by :func:`vtu_writer`; names from the
     field index ``meta``); ``shape`` is reused when given (the files of one run share it)."""
     from fvheat.output.vtu import read_vtu
 

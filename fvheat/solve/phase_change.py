@@ -181,15 +181,16 @@ def evolve_enthalpy(
     t0: float = 0.0,
     method: SolverChoice = "auto",
     tolerance: float | None = None,
+    damped_start: bool = True,
 ) -> Iterator[Step]:
     """Yield (t, T, boundary heat J/m) after each of ``n_steps`` steps of ``step`` s; with
     ``tolerance`` (K) each step is subdivided adaptively (step doubling), the output still
-    coming at the requested times. With θ < 1 the first step is taken as ``START``
-    backward-Euler steps, as in :func:`fvheat.solve.transient.evolve`."""
+    coming at the requested times. With θ < 1 and ``damped_start`` the first step is taken
+    as ``START`` backward-Euler steps, as in :func:`fvheat.solve.transient.evolve`."""
     temp = temp0.astype(float).copy()
     h = model.enthalpy(temp)
     first = 1
-    if theta < 1.0 and n_steps > 0:
+    if theta < 1.0 and damped_start and n_steps > 0:
         damped = EnthalpyStepper(system, model, 1.0, method=method)
         energy = np.zeros(len(system.surface.boundaries))
         for i in range(START):

@@ -9,7 +9,6 @@ from __future__ import annotations
 
 import csv
 import io
-import json
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -17,7 +16,7 @@ from typing import Any
 
 from fvheat.errors import CaseError
 from fvheat.output.files import atomic_write_text
-from fvheat.output.summary_shape import summary_problem
+from fvheat.output.summary_shape import read_summary
 from fvheat.sweep.results import main_results
 from fvheat.sweep.store import DB_NAME, SweepStore
 from fvheat.sweep.values import display_value
@@ -76,16 +75,11 @@ def from_run(folder: str | Path) -> Table:
     folder = Path(folder)
     summary_path = folder if folder.suffix == ".json" else folder / "summary.json"
     try:
-        summary = json.loads(summary_path.read_text(encoding="utf-8"))
+        summary = read_summary(summary_path, "cannot read the summary")
     except FileNotFoundError:
         raise CaseError(
             "no summary.json here (not a fvheat run folder?)", file=str(summary_path)
         ) from None
-    except (OSError, UnicodeDecodeError, json.JSONDecodeError) as err:
-        raise CaseError(f"cannot read the summary: {err}", file=str(summary_path)) from err
-    problem = summary_problem(summary)
-    if problem is not None:
-        raise CaseError(problem, file=str(summary_path))
     params: dict[str, str] = {}
     for o in summary.get("overrides", []):
         key, _, text = o.partition("=")

@@ -13,7 +13,7 @@ import pytest
 from casefiles import load
 
 from fvheat.assembly.system import System
-from fvheat.mesh.lattice import SPACING, hex_lattice, seed_points
+from fvheat.mesh.lattice import SPACING, lattice_grid, lattice_seeds
 from fvheat.mesh.select import build_mesh
 from fvheat.mesh.triangle_sizes import SizeFunction
 
@@ -52,7 +52,7 @@ def _angles(v: np.ndarray, t: np.ndarray) -> np.ndarray:
 
 
 def test_hex_lattice_neighbours_are_one_spacing_apart():
-    pts = hex_lattice(np.array([0.0, 0.0]), np.array([1.0, 1.0]), 0.1)
+    pts = lattice_grid(np.array([0.0, 0.0]), np.array([1.0, 1.0]), 0.1)[0]
     assert pts.min(axis=0).tolist() == [0.0, 0.0]
     assert np.all(pts.max(axis=0) >= 1.0)  # covers the box
     d = np.hypot(*(pts[:, None, :] - pts[None, :, :]).transpose(2, 0, 1))
@@ -102,19 +102,22 @@ def test_no_seeds_in_a_box_far_larger_than_the_body():
     v = np.array([[0.0, 0.0], [0.01, 0.0], [1.0, 0.99], [1.0, 1.0], [0.99, 1.0], [0.0, 0.01]])
     seg = np.column_stack([np.arange(6), (np.arange(6) + 1) % 6])
     body = 0.014  # about √2 × 0.01
-    pts = seed_points(
+    pts = lattice_seeds(
         v,
         seg,
         0.001,
-        lambda p: np.ones(len(p), bool),
+        lambda p: np.zeros(len(p), int),
         lambda p: np.full(len(p), 0.001 / SPACING),
         body,
-    )
+    ).points
     assert len(pts) == 0
     square = np.array([[0.0, 0.0], [1.0, 0.0], [1.0, 1.0], [0.0, 1.0]])
     seg = np.column_stack([np.arange(4), (np.arange(4) + 1) % 4])
-    inside = lambda p: np.all((p >= 0.0) & (p <= 1.0), axis=1)  # noqa: E731
-    pts = seed_points(square, seg, 0.1, inside, lambda p: np.full(len(p), 0.125), 1.0)
+
+    def paint(p):  # region 0 on the square, −1 outside
+        return np.where(np.all((p >= 0.0) & (p <= 1.0), axis=1), 0, -1)
+
+    pts = lattice_seeds(square, seg, 0.1, paint, lambda p: np.full(len(p), 0.125), 1.0).points
     assert len(pts) > 0
     # clear of the outline by half a spacing
     assert np.all(np.minimum(pts, 1.0 - pts).min(axis=1) > 0.05 * 0.96)

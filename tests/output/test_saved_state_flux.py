@@ -53,13 +53,19 @@ def _run(tmp_path_factory, kind: str):
 
 
 @pytest.fixture(scope="module")
-def run(tmp_path_factory):
-    return _run(tmp_path_factory, "rectilinear")
+def runs(tmp_path_factory):
+    """Both meshes' runs, each solved once for the module."""
+    return {kind: _run(tmp_path_factory, kind) for kind in ("rectilinear", "triangles")}
+
+
+@pytest.fixture(scope="module")
+def run(runs):
+    return runs["rectilinear"]
 
 
 @pytest.fixture(scope="module", params=["rectilinear", "triangles"])
-def either(request, tmp_path_factory):
-    return _run(tmp_path_factory, request.param)
+def either(request, runs):
+    return runs[request.param]
 
 
 def test_the_run_freezes_and_thaws_again(run):
@@ -101,11 +107,11 @@ def test_flux_in_frozen_cells_follows_fouriers_law_with_the_frozen_conductivity(
     assert checked >= 10
 
 
-def test_triangle_flux_in_frozen_triangles_uses_the_frozen_conductivity(tmp_path_factory):
+def test_triangle_flux_in_frozen_triangles_uses_the_frozen_conductivity(runs):
     """Triangle mesh: in a triangle whose three nodes are frozen, q = −k_frozen ∇T with ∇T
     the gradient of the linear interpolant through its nodes (solved here from the node
     coordinates, independently of the package's gradient)."""
-    sol, fields = _run(tmp_path_factory, "triangles")
+    sol, fields = runs["triangles"]
     mesh = sol.mesh
     tri = mesh.triangles
     p = mesh.centres[tri]  # (t, 3, 2) node positions

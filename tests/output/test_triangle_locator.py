@@ -9,7 +9,7 @@ import pytest
 from matplotlib.tri import Triangulation
 from scipy.spatial import Delaunay
 
-from fvheat.output.triangle_locator import LATTICE_MOST, TriangleLocator
+from fvheat.output.triangle_locator import TriangleLocator
 
 
 @pytest.fixture(scope="module")
@@ -35,7 +35,9 @@ def test_lattice_points_are_found_as_matplotlib_finds_them(mesh):
     pts, tri = mesh
     xs, ys = np.linspace(-0.05, 2.05, 311), np.linspace(-0.03, 1.03, 157)
     gx, gy = np.meshgrid(xs, ys)
-    found, bary = TriangleLocator(pts, tri).locate(gx, gy)
+    loc = TriangleLocator(pts, tri)
+    found, bary = loc.locate(gx, gy)
+    assert "_buckets" not in loc.__dict__  # the lattice search, no bucket grid built
     ref = _reference(pts, tri, gx, gy)
     clear = ~_near_an_edge(found, bary)
     assert np.array_equal(found[clear], ref[clear])
@@ -52,10 +54,10 @@ def test_scattered_points_take_the_buckets_and_agree_with_the_lattice(mesh):
     pts, tri = mesh
     rng = np.random.default_rng(11)
     n = 40_000
-    assert n * n > max(LATTICE_MOST, 4 * n)  # the bucket path
     q = rng.random((n, 2)) * [2.1, 1.06] - [0.05, 0.03]
     loc = TriangleLocator(pts, tri)
     found, bary = loc.locate(q[:, 0], q[:, 1])
+    assert "_buckets" in loc.__dict__
     ref = _reference(pts, tri, q[:, 0], q[:, 1])
     clear = ~_near_an_edge(found, bary)
     assert np.array_equal(found[clear], ref[clear])
@@ -75,9 +77,10 @@ def test_vertices_take_the_first_triangle_listed_in_both_searches(mesh):
     used = np.unique(tri)
     few = used[:: used.size // 60]  # 60 × 60 distinct coordinates: the lattice search
     assert np.array_equal(loc.locate(pts[few, 0], pts[few, 1])[0], owners[few])
+    assert "_buckets" not in loc.__dict__
     # all of them: too many distinct coordinates for a lattice, the bucket grid
-    assert used.size**2 > max(LATTICE_MOST, 4 * used.size)
     assert np.array_equal(loc.locate(pts[used, 0], pts[used, 1])[0], owners[used])
+    assert "_buckets" in loc.__dict__
 
 
 def test_no_points_no_work(mesh):

@@ -127,7 +127,8 @@ def test_amg_gives_the_direct_field_on_a_composite(tmp_path):
 def test_amg_with_second_pass_gives_the_direct_field_on_triangles(tmp_path):
     """Both meshes' matrices take the second pass of the Ruge–Stüben splitting and direct
     interpolation, the box method's (about 7 entries a row) a higher strength threshold
-    too; on both, AMG-CG gives the field of the sparse LU factorisation."""
+    too; on triangles, AMG-CG gives the field of the sparse LU factorisation (on the grid:
+    the test above)."""
     from fvheat.solve.linear import coarsening
 
     tri = load(tmp_path, composite(), ("mesh.kind=triangles",))
@@ -136,13 +137,12 @@ def test_amg_with_second_pass_gives_the_direct_field_on_triangles(tmp_path):
     a_grid = System.build(grid, build_mesh(grid)).matrix
     assert coarsening(a_tri)["CF"] == coarsening(a_grid)["CF"] == ("RS", {"second_pass": True})
     assert "strength" in coarsening(a_tri) and "strength" not in coarsening(a_grid)
-    for case in (tri, grid):
-        direct = simulate(case, method="direct")
-        amg = simulate(case, method="amg")
-        assert direct.mesh.n_cells > 2000
-        assert field_difference(amg, direct) <= FIELD_AGREEMENT
-        assert flow_difference(amg, direct) <= FIELD_AGREEMENT
-        assert amg.balance.relative <= 1e-12
+    direct = simulate(tri, method="direct")
+    amg = simulate(tri, method="amg")
+    assert direct.mesh.kind == "triangles" and direct.mesh.n_cells > 2000
+    assert field_difference(amg, direct) <= FIELD_AGREEMENT
+    assert flow_difference(amg, direct) <= FIELD_AGREEMENT
+    assert amg.balance.relative <= 1e-12
 
 
 def test_case_solver_table_selects_the_method(tmp_path, monkeypatch):

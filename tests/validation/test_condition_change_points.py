@@ -16,6 +16,7 @@ import pytest
 from fem_reference import solve_boxes
 
 from fvheat.case.load import load_case
+from fvheat.mesh.rectilinear import build_mesh, condition_changes, key_lines
 from fvheat.study import run_study
 
 SPLIT_WALL = """
@@ -65,3 +66,21 @@ def test_coldest_point_where_the_condition_changes(reference, kind):
     inside = surfaces["inside"]
     assert inside.min_at == pytest.approx(tuple(at_ref), abs=1e-9)
     assert inside.min_temperature == pytest.approx(t_ref, abs=0.1)
+
+
+def test_surfaces_tied_to_two_csv_series_mesh(tmp_path):
+    """Two meeting surfaces whose air temperatures come from two CSV columns: the grid
+    refines where they meet (the series differ) and does not fail comparing them (a
+    series holds arrays)."""
+    (tmp_path / "air.csv").write_text("time,room,stair\n0,20,5\n7200,21,4\n", encoding="utf-8")
+    text = SPLIT_WALL.replace(
+        "air_temperature = 20.0", 'air_temperature = { file = "air.csv", column = "room" }'
+    ).replace("air_temperature = 5.0", 'air_temperature = { file = "air.csv", column = "stair" }')
+    assert text.count("air.csv") == 2
+    path = tmp_path / "case.toml"
+    path.write_text(text, encoding="utf-8")
+    case = load_case(path)
+
+    points = condition_changes(case, key_lines(case)[1])
+    assert [0.0, 1.0] in points.tolist()
+    build_mesh(case)
